@@ -1,0 +1,66 @@
+"""Command-line entry point: ``latdyn COMMAND ...``.
+
+Each command lives in ``latdyn/commands/<name>.py`` with ``add_arguments``
+and ``run``.  This module only parses arguments and turns input problems into
+one line on stderr with exit status 2 (a traceback only with ``--debug``).
+The commands add no algorithms: they call the library.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+
+from latdyn import __version__
+from latdyn.errors import InputError
+
+__all__ = ["main", "COMMANDS"]
+
+#: (name, one-line help) of every command; the module is latdyn.commands.<name with - as _>.
+COMMANDS = (
+    ("modes", "Dutch roll, roll subsidence and spiral modes of each flight condition"),
+)
+
+
+def _command_module(name):
+    return importlib.import_module("latdyn.commands." + name.replace("-", "_"))
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of every command."""
+    parser = argparse.ArgumentParser(
+        prog="latdyn",
+        description="Lateral-directional flight dynamics from a plain-text aircraft file.",
+    )
+    parser.add_argument("--version", action="version", version=f"latdyn {__version__}")
+    parser.add_argument("--debug", action="store_true", help="show a traceback on errors")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    sub.required = True
+    for name, text in COMMANDS:
+        command = sub.add_parser(name, help=text, description=text)
+        command.add_argument("--debug", action="store_true", default=argparse.SUPPRESS,
+                             help="show a traceback on errors")
+        _command_module(name).add_arguments(command)
+    return parser
+
+
+def main(argv=None) -> int:
+    """Run ``latdyn`` with the given arguments; return the exit status."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    debug = getattr(args, "debug", False)
+    try:
+        status = _command_module(args.command).run(args)
+    except InputError as error:
+        if debug:
+            raise
+        print(f"latdyn: {error}", file=sys.stderr)
+        return 2
+    except BrokenPipeError:
+        return 0
+    return int(status or 0)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

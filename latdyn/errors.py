@@ -1,0 +1,90 @@
+"""Errors and warnings raised on bad input.
+
+Every input problem becomes one :class:`InputError` whose message is a single
+line naming the file, the condition (where there is one), the key, what was
+expected and what was found.  The command line prints that line on stderr and
+exits with status 2.
+"""
+
+from __future__ import annotations
+
+__all__ = ["InputError", "format_problem", "describe_value"]
+
+
+def describe_value(value, limit: int = 60) -> str:
+    """Short printable form of a value found in an input file.
+
+    Parameters
+    ----------
+    value : object
+        The value as read from the file.
+    limit : int
+        Longest text returned [characters].
+
+    Examples
+    --------
+    >>> describe_value("abc")
+    '"abc"'
+    >>> describe_value(3.5)
+    '3.5'
+    >>> describe_value({"a": 1})
+    'a table'
+    """
+    if isinstance(value, bool):
+        text = "true" if value else "false"
+    elif isinstance(value, str):
+        text = '"' + value.replace("\n", "\\n") + '"'
+    elif isinstance(value, dict):
+        text = "a table"
+    elif isinstance(value, list):
+        text = f"a list of {len(value)} items"
+    else:
+        text = repr(value)
+    if len(text) > limit:
+        text = text[: limit - 3] + "..."
+    return text
+
+
+def format_problem(file, key, expected, found, condition=None) -> str:
+    """One-line description of an input problem.
+
+    Examples
+    --------
+    >>> format_problem("a.toml", "mass.mass", "a number > 0", "-3", "cruise")
+    'a.toml: condition "cruise": mass.mass: expected a number > 0, found -3'
+    >>> format_problem("a.toml", None, "a TOML document", "a syntax error at line 3")
+    'a.toml: expected a TOML document, found a syntax error at line 3'
+    """
+    parts = [str(file)]
+    if condition is not None:
+        parts.append(f'condition "{condition}"')
+    if key:
+        parts.append(str(key))
+    return ": ".join(parts) + f": expected {expected}, found {found}"
+
+
+class InputError(ValueError):
+    """A problem in an input file (aircraft, criteria, input time history).
+
+    Parameters
+    ----------
+    file : str
+        The file the problem is in.
+    key : str or None
+        Dotted key of the offending value (``mass.Ixx``,
+        ``condition.derivatives.Cn_beta``), or None for the whole file.
+    expected : str
+        What was expected, in words.
+    found : str
+        What was found, in words (use :func:`describe_value` for values).
+    condition : str or None
+        Name of the flight condition, where the problem lies inside one.
+    """
+
+    def __init__(self, file, key, expected, found, condition=None):
+        self.file = str(file)
+        self.key = key
+        self.expected = expected
+        self.found = found
+        self.condition = condition
+        super().__init__(format_problem(file, key, expected, found, condition))
