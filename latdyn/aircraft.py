@@ -1,0 +1,567 @@
+"""The validated aircraft: frozen dataclasses in SI units and radians.
+
+:func:`load_aircraft` reads an aircraft file (:mod:`latdyn.aircraft_file`),
+checks every value (type, finiteness, range, the rules between values),
+converts US units and degrees to SI and radians, and returns an
+:class:`Aircraft`.  Every problem is one :class:`~latdyn.errors.InputError`
+naming the file, the condition, the key, what was expected and what was
+found.  Implausible signs of the main derivatives are warnings, kept on the
+aircraft: such aircraft exist and are still analysed.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from dataclasses import dataclass, replace
+
+from latdyn import atmosphere, units
+from latdyn.aircraft_file import (DIMENSIONAL_KEYS, NONDIMENSIONAL_KEYS, Leaf,
+                                  read_tree)
+from latdyn.errors import InputError, describe_value
+
+__all__ = [
+    "Geometry", "MassProperties", "FlightCondition", "NondimensionalDerivatives",
+    "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
+    "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES",
+]
+
+AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
+CATEGORIES = ("A", "B", "C")
+AXES = ("body", "stability")
+
+
+@dataclass(frozen=True)
+class Geometry:
+    """Wing reference geometry.
+
+    Attributes
+    ----------
+    wing_area : float
+        Wing reference area S [m^2].
+    span : float
+        Wing span b [m].
+    mean_chord : float or None
+        Mean aerodynamic chord [m].
+    """
+
+    wing_area: float
+    span: float
+    mean_chord: float | None = None
+
+
+@dataclass(frozen=True)
+class MassProperties:
+    """Mass and the lateral-directional moments of inertia.
+
+    Attributes
+    ----------
+    mass : float
+        Mass m [kg].
+    Ixx, Izz : float
+        Moments of inertia about x and z [kg m^2].
+    Ixz : float
+        Product of inertia, the integral of x z dm [kg m^2], so that
+        Ixx p_dot - Ixz r_dot = L.
+    axes : str
+        "body" or "stability": the axes the inertias are given in.
+    """
+
+    mass: float | None
+    Ixx: float
+    Izz: float
+    Ixz: float = 0.0
+    axes: str = "body"
+
+
+@dataclass(frozen=True)
+class FlightCondition:
+    """A trimmed flight condition.
+
+    Attributes
+    ----------
+    name : str
+        Name of the condition.
+    category : str or None
+        Flight-phase category "A", "B" or "C".
+    altitude : float or None
+        Geopotential altitude [m].
+    density : float
+        Air density [kg/m^3].
+    speed : float
+        True airspeed V [m/s].
+    mach : float or None
+        Mach number [-].
+    speed_of_sound : float or None
+        Speed of sound [m/s].
+    alpha : float
+        Trim angle of attack of the body x axis [rad].
+    gamma : float
+        Flight-path angle [rad].
+    description : str or None
+        Free text.
+    """
+
+    name: str
+    category: str | None
+    altitude: float | None
+    density: float
+    speed: float
+    mach: float | None
+    speed_of_sound: float | None
+    alpha: float = 0.0
+    gamma: float = 0.0
+    description: str | None = None
+
+    @property
+    def dynamic_pressure(self) -> float:
+        """Dynamic pressure q = rho V^2 / 2 [Pa]."""
+        return 0.5 * self.density * self.speed**2
+
+    @property
+    def theta(self) -> float:
+        """Trim pitch attitude of the body x axis, theta0 = alpha0 + gamma0 [rad]."""
+        return self.alpha + self.gamma
+
+
+@dataclass(frozen=True)
+class NondimensionalDerivatives:
+    """Non-dimensional stability and control derivatives [1/rad].
+
+    Rate derivatives are per unit of p b / (2 V) and r b / (2 V).
+    ``axes`` is "body" or "stability".
+    """
+
+    axes: str
+    Cy_beta: float
+    Cl_beta: float
+    Cn_beta: float
+    Cl_p: float
+    Cl_r: float
+    Cn_p: float
+    Cn_r: float
+    Cy_p: float = 0.0
+    Cy_r: float = 0.0
+    Cy_da: float = 0.0
+    Cl_da: float = 0.0
+    Cn_da: float = 0.0
+    Cy_dr: float = 0.0
+    Cl_dr: float = 0.0
+    Cn_dr: float = 0.0
+
+
+@dataclass(frozen=True)
+class DimensionalDerivatives:
+    """Dimensional derivatives, SI.
+
+    Attributes
+    ----------
+    axes : str
+        "body" or "stability".
+    primed : bool
+        True: L and N already include the product of inertia (L', N').
+        False: raw moments divided by Ixx and Izz.
+    Y_v : float
+        Side force per sideslip divided by m V [1/s].
+    Y_p, Y_r : float
+        Side force per rate divided by m [m/s per rad/s].
+    L_beta, N_beta : float
+        [1/s^2].
+    L_p, L_r, N_p, N_r : float
+        [1/s].
+    Y_da, Y_dr : float
+        Side force per control divided by m [m/s^2 per rad].
+    L_da, L_dr, N_da, N_dr : float
+        [1/s^2 per rad].
+    """
+
+    axes: str
+    primed: bool
+    Y_v: float
+    L_beta: float
+    L_p: float
+    L_r: float
+    N_beta: float
+    N_p: float
+    N_r: float
+    Y_p: float = 0.0
+    Y_r: float = 0.0
+    Y_da: float = 0.0
+    Y_dr: float = 0.0
+    L_da: float = 0.0
+    L_dr: float = 0.0
+    N_da: float = 0.0
+    N_dr: float = 0.0
+
+
+@dataclass(frozen=True)
+class Condition:
+    """A flight condition with the derivatives that describe it there."""
+
+    flight: FlightCondition
+    derivatives: NondimensionalDerivatives | DimensionalDerivatives
+
+    @property
+    def name(self) -> str:
+        """Name of the condition."""
+        return self.flight.name
+
+
+@dataclass(frozen=True)
+class Aircraft:
+    """A validated aircraft, SI units and radians throughout.
+
+    Attributes
+    ----------
+    name : str
+    airplane_class : str or None
+        "I", "II-C", "II-L", "III" or "IV".
+    geometry : Geometry or None
+    mass : MassProperties or None
+    conditions : tuple of Condition
+    files : tuple of str
+        The file and every file it extends, the given one first.
+    warnings : tuple of str
+        Implausible signs and similar notes, one line each.
+    description : str or None
+    """
+
+    name: str
+    airplane_class: str | None
+    geometry: Geometry | None
+    mass: MassProperties | None
+    conditions: tuple
+    files: tuple = ()
+    warnings: tuple = ()
+    description: str | None = None
+
+    @property
+    def file(self) -> str:
+        """The aircraft file that was loaded."""
+        return self.files[0] if self.files else ""
+
+    def condition(self, name: str) -> Condition:
+        """The condition of that name.
+
+        Raises
+        ------
+        InputError
+            No condition has that name.
+        """
+        for condition in self.conditions:
+            if condition.name == name:
+                return condition
+        names = ", ".join(f'"{c.name}"' for c in self.conditions)
+        raise InputError(self.file, "--condition", f"one of {names}", f'"{name}"')
+
+
+# ---------------------------------------------------------------------------
+# value checks
+
+class _Context:
+    """Where we are in the tree, for error messages."""
+
+    def __init__(self, files, condition=None):
+        self.files = tuple(files)
+        self.file = self.files[0]
+        self.condition = condition
+
+    def fail(self, key, expected, found, leaf=None):
+        file = leaf.file if isinstance(leaf, Leaf) else self.file
+        raise InputError(file, key, expected, found, self.condition)
+
+
+def _number(table, key, dotted, context, dimension="none", required=True, default=None,
+            positive=False):
+    leaf = table.get(key)
+    if leaf is None:
+        if required:
+            context.fail(dotted, "a number", "nothing (the key is missing)")
+        return default
+    value = leaf.value
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        context.fail(dotted, "a number", describe_value(value), leaf)
+    value = float(value)
+    if not math.isfinite(value):
+        context.fail(dotted, "a finite number", describe_value(leaf.value), leaf)
+    if positive and value <= 0.0:
+        context.fail(dotted, "a number > 0", describe_value(leaf.value), leaf)
+    return units.to_si(value, dimension, leaf.units)
+
+
+def _word(table, key, dotted, context, choices=None, required=True, default=None):
+    leaf = table.get(key)
+    if leaf is None:
+        if required:
+            wanted = " or ".join(f'"{c}"' for c in choices) if choices else "a text in quotes"
+            context.fail(dotted, wanted, "nothing (the key is missing)")
+        return default
+    value = leaf.value
+    if choices is not None:
+        if value not in choices:
+            wanted = " or ".join(f'"{c}"' for c in choices)
+            context.fail(dotted, wanted, describe_value(value), leaf)
+    elif not isinstance(value, str) or not value.strip():
+        context.fail(dotted, "a non-empty text in quotes", describe_value(value), leaf)
+    return value
+
+
+def _flag(table, key, dotted, context, hint=""):
+    leaf = table.get(key)
+    if leaf is None:
+        context.fail(dotted, f"true or false{hint}", "nothing (the key is missing)")
+    if not isinstance(leaf.value, bool):
+        context.fail(dotted, f"true or false{hint}", describe_value(leaf.value), leaf)
+    return leaf.value
+
+
+def _table(tree, key):
+    value = tree.get(key)
+    return value if isinstance(value, dict) else None
+
+
+def _geometry(tree, context):
+    table = _table(tree, "geometry")
+    if table is None:
+        return None
+    return Geometry(
+        wing_area=_number(table, "wing_area", "geometry.wing_area", context, "area", positive=True),
+        span=_number(table, "span", "geometry.span", context, "length", positive=True),
+        mean_chord=_number(table, "mean_chord", "geometry.mean_chord", context, "length",
+                           required=False, positive=True),
+    )
+
+
+def _mass(tree, context):
+    table = _table(tree, "mass")
+    if table is None:
+        return None
+    mass = _number(table, "mass", "mass.mass", context, "mass", required=False, positive=True)
+    Ixx = _number(table, "Ixx", "mass.Ixx", context, "inertia", positive=True)
+    Izz = _number(table, "Izz", "mass.Izz", context, "inertia", positive=True)
+    _number(table, "Iyy", "mass.Iyy", context, "inertia", required=False, positive=True)
+    Ixz = _number(table, "Ixz", "mass.Ixz", context, "inertia", required=False, default=0.0)
+    if Ixz**2 >= Ixx * Izz:
+        leaf = table["Ixz"]
+        context.fail("mass.Ixz", "Ixz^2 < Ixx Izz (a physical inertia)",
+                     f"Ixz = {describe_value(leaf.value)} with Ixx = "
+                     f"{describe_value(table['Ixx'].value)}, Izz = {describe_value(table['Izz'].value)}",
+                     leaf)
+    axes = _word(table, "inertia_axes", "mass.inertia_axes", context, AXES,
+                 required=False, default="body")
+    return MassProperties(mass, Ixx, Izz, Ixz, axes)
+
+
+def _altitude_limits_text(leaf_units):
+    low = units.from_si(atmosphere.MIN_ALTITUDE, "length", leaf_units)
+    high = units.from_si(atmosphere.MAX_ALTITUDE, "length", leaf_units)
+    word = "ft" if leaf_units == "US" else "m"
+    return f"a geopotential altitude from {low:.0f} to {high:.0f} {word}"
+
+
+def _flight(entry, name, context):
+    category = _word(entry, "category", "condition.category", context, CATEGORIES, required=False)
+    altitude = _number(entry, "altitude", "condition.altitude", context, "length", required=False)
+    if altitude is not None and not (atmosphere.MIN_ALTITUDE <= altitude <= atmosphere.MAX_ALTITUDE):
+        leaf = entry["altitude"]
+        context.fail("condition.altitude", _altitude_limits_text(leaf.units),
+                     describe_value(leaf.value), leaf)
+    density = _number(entry, "density", "condition.density", context, "density",
+                      required=False, positive=True)
+    if altitude is None and density is None:
+        context.fail("condition.altitude", "an altitude (or a density)", "neither")
+    air = atmosphere.standard_atmosphere(altitude) if altitude is not None else None
+    if density is None:
+        density = float(air.density)
+    speed_of_sound = float(air.speed_of_sound) if air is not None else None
+    has_speed, has_mach = "speed" in entry, "mach" in entry
+    if has_speed == has_mach:
+        found = "both" if has_speed else "neither"
+        newest = min((entry[k] for k in ("speed", "mach") if k in entry),
+                     key=lambda leaf: context.files.index(leaf.file), default=None)
+        context.fail("condition.speed", "exactly one of speed and mach", found, newest)
+    if has_speed:
+        speed = _number(entry, "speed", "condition.speed", context, "speed", positive=True)
+        mach = speed / speed_of_sound if speed_of_sound else None
+    else:
+        mach = _number(entry, "mach", "condition.mach", context, positive=True)
+        if speed_of_sound is None:
+            context.fail("condition.mach", "an altitude with the Mach number (for the speed of sound)",
+                         "mach without altitude", entry["mach"])
+        speed = mach * speed_of_sound
+    angles = {}
+    for key in ("alpha_deg", "gamma_deg"):
+        value = _number(entry, key, f"condition.{key}", context, required=False, default=0.0)
+        if abs(value) >= 90.0:
+            context.fail(f"condition.{key}", "an angle between -90 and 90 degrees",
+                         describe_value(entry[key].value), entry[key])
+        angles[key] = units.rad(value)
+    if abs(angles["alpha_deg"] + angles["gamma_deg"]) >= math.pi / 2:
+        context.fail("condition.gamma_deg", "a pitch attitude alpha + gamma between -90 and 90 degrees",
+                     f"{units.deg(angles['alpha_deg'] + angles['gamma_deg']):g} degrees",
+                     entry.get("gamma_deg"))
+    description = entry.get("description")
+    return FlightCondition(
+        name=name, category=category, altitude=altitude, density=density, speed=speed,
+        mach=mach, speed_of_sound=speed_of_sound, alpha=angles["alpha_deg"],
+        gamma=angles["gamma_deg"],
+        description=description.value if isinstance(description, Leaf) else None,
+    )
+
+
+_REQUIRED_NONDIMENSIONAL = ("Cy_beta", "Cl_beta", "Cn_beta", "Cl_p", "Cl_r", "Cn_p", "Cn_r")
+_REQUIRED_DIMENSIONAL = ("L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r")
+
+#: (key, sign that is implausible, what is usual) for the sign warnings; common practice.
+_SIGN_CHECKS = {
+    "derivatives": (("Cn_beta", -1, "Cn_beta > 0, weathercock stability"),
+                    ("Cl_beta", +1, "Cl_beta < 0, dihedral effect"),
+                    ("Cl_p", +1, "Cl_p < 0, roll damping"),
+                    ("Cn_r", +1, "Cn_r < 0, yaw damping")),
+    "dimensional": (("N_beta", -1, "N_beta > 0, weathercock stability"),
+                    ("L_beta", +1, "L_beta < 0, dihedral effect"),
+                    ("L_p", +1, "L_p < 0, roll damping"),
+                    ("N_r", +1, "N_r < 0, yaw damping")),
+}
+
+
+def _sign_warnings(block_name, values, table, context):
+    notes = []
+    for key, bad_sign, usual in _SIGN_CHECKS[block_name]:
+        value = values[key]
+        if value * bad_sign > 0:
+            leaf = table[key]
+            notes.append(f"{leaf.file}: condition \"{context.condition}\": "
+                         f"condition.{block_name}.{key} = {describe_value(leaf.value)}: "
+                         f"unusual sign (usually {usual}); analysed as given")
+    return notes
+
+
+def _derivatives(entry, context):
+    has_nd = isinstance(entry.get("derivatives"), dict)
+    has_dim = isinstance(entry.get("dimensional"), dict)
+    if has_nd == has_dim:
+        found = "both [condition.derivatives] and [condition.dimensional]" if has_nd else "neither"
+        context.fail("condition.derivatives",
+                     "exactly one derivative block, [condition.derivatives] or [condition.dimensional]",
+                     found)
+    if has_nd:
+        table = entry["derivatives"]
+        prefix = "condition.derivatives."
+        axes = _word(table, "axes", prefix + "axes", context, AXES)
+        values = {}
+        for key in NONDIMENSIONAL_KEYS:
+            values[key] = _number(table, key, prefix + key, context,
+                                  required=key in _REQUIRED_NONDIMENSIONAL, default=0.0)
+        return NondimensionalDerivatives(axes=axes, **values), _sign_warnings(
+            "derivatives", values, table, context)
+    table = entry["dimensional"]
+    prefix = "condition.dimensional."
+    axes = _word(table, "axes", prefix + "axes", context, AXES)
+    primed = _flag(table, "primed", prefix + "primed", context,
+                   " (true when L and N already include Ixz)")
+    values = {}
+    for key in DIMENSIONAL_KEYS:
+        if key in ("Y_v", "Y_beta"):
+            continue
+        dimension = {"Y_p": "speed", "Y_r": "speed", "Y_da": "acceleration",
+                     "Y_dr": "acceleration"}.get(key, "none")
+        values[key] = _number(table, key, prefix + key, context, dimension,
+                              required=key in _REQUIRED_DIMENSIONAL, default=0.0)
+    has_yv, has_yb = "Y_v" in table, "Y_beta" in table
+    if has_yv == has_yb:
+        context.fail(prefix + "Y_v", "exactly one of Y_v [1/s] and Y_beta [m/s^2 or ft/s^2]",
+                     "both" if has_yv else "neither", table.get("Y_v"))
+    if has_yv:
+        y_v = _number(table, "Y_v", prefix + "Y_v", context)
+        y_beta = None
+    else:
+        y_v = None
+        y_beta = _number(table, "Y_beta", prefix + "Y_beta", context, "acceleration")
+    derivatives = DimensionalDerivatives(axes=axes, primed=primed, Y_v=y_v if y_v is not None else 0.0,
+                                         **values)
+    return (derivatives, y_beta), _sign_warnings("dimensional", values, table, context)
+
+
+def aircraft_from_tree(tree: dict) -> Aircraft:
+    """Validate a tree from :func:`latdyn.aircraft_file.read_tree`.
+
+    Raises
+    ------
+    InputError
+        The first problem found.
+    """
+    files = tree["__files__"]
+    context = _Context(files)
+    name = _word(tree, "name", "name", context)
+    airplane_class = _word(tree, "airplane_class", "airplane_class", context, AIRPLANE_CLASSES,
+                           required=False)
+    geometry = _geometry(tree, context)
+    mass = _mass(tree, context)
+    entries = tree.get("condition") or []
+    if not entries:
+        context.fail("condition", "at least one [[condition]] table", "none")
+    conditions, warnings, seen = [], [], set()
+    for number, entry in enumerate(entries, start=1):
+        name_leaf = entry.get("name")
+        if name_leaf is None:
+            context.fail("condition.name", f"a name for condition number {number}",
+                         "nothing (the key is missing)")
+        if not isinstance(name_leaf.value, str) or not name_leaf.value.strip():
+            context.fail("condition.name", "a non-empty text in quotes",
+                         describe_value(name_leaf.value), name_leaf)
+        condition_name = name_leaf.value
+        if condition_name in seen:
+            context.fail("condition.name", "a name used by one condition only",
+                         f'"{condition_name}" twice', name_leaf)
+        seen.add(condition_name)
+        context = _Context(files, condition_name)
+        flight = _flight(entry, condition_name, context)
+        derivatives, notes = _derivatives(entry, context)
+        warnings.extend(notes)
+        if isinstance(derivatives, tuple):
+            derivatives, y_beta = derivatives
+            if y_beta is not None:
+                derivatives = replace(derivatives, Y_v=y_beta / flight.speed)
+            if not derivatives.primed and mass is None:
+                context.fail("mass", "a [mass] block with Ixx, Izz, Ixz (primed = false needs them)",
+                             "no [mass] block")
+        else:
+            if geometry is None:
+                context.fail("geometry", "a [geometry] block (non-dimensional derivatives need S and b)",
+                             "no [geometry] block")
+            if mass is None:
+                context.fail("mass", "a [mass] block (non-dimensional derivatives need mass and inertia)",
+                             "no [mass] block")
+            if mass.mass is None:
+                context.fail("mass.mass", "a number > 0 (non-dimensional derivatives need the mass)",
+                             "nothing (the key is missing)")
+        conditions.append(Condition(flight, derivatives))
+        context = _Context(files)
+    description = tree.get("description")
+    return Aircraft(
+        name=name, airplane_class=airplane_class, geometry=geometry, mass=mass,
+        conditions=tuple(conditions), files=tuple(files), warnings=tuple(warnings),
+        description=description.value if isinstance(description, Leaf) else None,
+    )
+
+
+def load_aircraft(path) -> Aircraft:
+    """Read and validate an aircraft file.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The aircraft file (TOML).
+
+    Returns
+    -------
+    Aircraft
+
+    Raises
+    ------
+    InputError
+        One line naming the file, the condition, the key, what was expected
+        and what was found.
+    """
+    return aircraft_from_tree(read_tree(os.fspath(path)))

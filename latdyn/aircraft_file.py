@@ -1,0 +1,236 @@
+"""Reading aircraft files: TOML text, ``extends`` chains and key checking.
+
+This stage turns one aircraft file (and every file it extends) into a tree
+of plain tables whose leaves remember the file they came from and the units
+that file was written in.  It checks the structure only: which keys exist,
+which are tables.  Types, ranges and physics are the next stage's work
+(:mod:`latdyn.aircraft`).
+
+Merging rule for ``extends``: the extending file starts from the extended
+one; its tables are merged key by key, and its ``[[condition]]`` entries are
+merged with the base's entries of the same ``name`` (new names are
+appended).  A file that does not say ``units`` is in the units of the file
+it extends.
+"""
+
+from __future__ import annotations
+
+import difflib
+import os
+import tomllib
+from dataclasses import dataclass
+
+from latdyn.errors import InputError, describe_value
+
+__all__ = ["Leaf", "SCHEMA", "read_tree", "MAX_FILE_BYTES"]
+
+#: Largest aircraft or criteria file read [bytes].
+MAX_FILE_BYTES = 5 * 1024 * 1024
+
+NONDIMENSIONAL_KEYS = (
+    "Cy_beta", "Cy_p", "Cy_r", "Cl_beta", "Cl_p", "Cl_r", "Cn_beta", "Cn_p", "Cn_r",
+    "Cy_da", "Cl_da", "Cn_da", "Cy_dr", "Cl_dr", "Cn_dr",
+)
+DIMENSIONAL_KEYS = (
+    "Y_v", "Y_beta", "Y_p", "Y_r", "L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r",
+    "Y_da", "Y_dr", "L_da", "L_dr", "N_da", "N_dr",
+)
+
+#: Allowed keys per table, with the physical dimension of numeric values
+#: (for unit conversion) or None for words and flags.  A nested dict is a table.
+SCHEMA = {
+    "name": None,
+    "description": None,
+    "airplane_class": None,
+    "units": None,
+    "extends": None,
+    "geometry": {"wing_area": "area", "span": "length", "mean_chord": "length"},
+    "mass": {"mass": "mass", "Ixx": "inertia", "Iyy": "inertia", "Izz": "inertia",
+             "Ixz": "inertia", "inertia_axes": None},
+    "condition": {
+        "name": None, "description": None, "category": None, "altitude": "length",
+        "density": "density", "speed": "speed", "mach": "none",
+        "alpha_deg": "none", "gamma_deg": "none",
+        "derivatives": {"axes": None, **{key: "none" for key in NONDIMENSIONAL_KEYS}},
+        "dimensional": {
+            "axes": None, "primed": None,
+            **{key: "none" for key in DIMENSIONAL_KEYS},
+            "Y_beta": "acceleration", "Y_p": "speed", "Y_r": "speed",
+            "Y_da": "acceleration", "Y_dr": "acceleration",
+        },
+    },
+}
+
+UNIT_WORDS = ("SI", "US")
+
+
+@dataclass(frozen=True)
+class Leaf:
+    """A value read from a file, with where it came from.
+
+    Attributes
+    ----------
+    value : object
+        The value as TOML gave it (in the file's units).
+    file : str
+        The file it was read from.
+    units : str
+        "SI" or "US": the units that file is written in.
+    """
+
+    value: object
+    file: str
+    units: str
+
+
+def _read_toml(path: str, referrer=None) -> dict:
+    where = referrer or (path, None)
+    if not os.path.exists(path):
+        raise InputError(where[0], where[1], "an existing file", f"no file {path}")
+    if os.path.isdir(path):
+        raise InputError(path, None, "a TOML file", "a folder")
+    size = os.path.getsize(path)
+    if size > MAX_FILE_BYTES:
+        raise InputError(path, None, f"a TOML file of at most {MAX_FILE_BYTES // 1048576} MB",
+                         f"{size / 1048576:.1f} MB")
+    with open(path, "rb") as handle:
+        data = handle.read()
+    if b"\x00" in data:
+        raise InputError(path, None, "a UTF-8 text file in TOML", "binary data")
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as error:
+        raise InputError(path, None, "a UTF-8 text file in TOML",
+                         f"a byte that is not UTF-8 at offset {error.start}") from None
+    if not text.strip():
+        raise InputError(path, None, "a TOML aircraft description", "an empty file")
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(path, None, "valid TOML", f"a syntax error ({error})") from None
+    except RecursionError:
+        raise InputError(path, None, "valid TOML", "nesting too deep to read") from None
+
+
+def _check_keys(table: dict, schema: dict, file: str, prefix: str, condition=None):
+    for key, value in table.items():
+        dotted = f"{prefix}{key}"
+        if key not in schema:
+            near = difflib.get_close_matches(key, list(schema), n=1, cutoff=0.6)
+            if near:
+                expected = f"a known key (did you mean {prefix}{near[0]}?)"
+            else:
+                expected = "one of the known keys " + ", ".join(prefix + k for k in schema)
+            raise InputError(file, dotted, expected, f"unknown key {key}", condition)
+        sub = schema[key]
+        if key == "condition" and prefix == "":
+            if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
+                raise InputError(file, dotted, "[[condition]] tables", describe_value(value))
+            for entry in value:
+                name = entry.get("name") if isinstance(entry.get("name"), str) else None
+                _check_keys(entry, sub, file, "condition.", name)
+        elif isinstance(sub, dict):
+            if not isinstance(value, dict):
+                raise InputError(file, dotted, "a table", describe_value(value), condition)
+            _check_keys(value, sub, file, dotted + ".", condition)
+        elif isinstance(value, (dict, list)):
+            raise InputError(file, dotted, "a single value", describe_value(value), condition)
+
+
+def _wrap(table: dict, file: str, units: str) -> dict:
+    out = {}
+    for key, value in table.items():
+        if isinstance(value, dict):
+            out[key] = _wrap(value, file, units)
+        elif isinstance(value, list) and key == "condition":
+            out[key] = [_wrap(entry, file, units) for entry in value]
+        else:
+            out[key] = Leaf(value, file, units)
+    return out
+
+
+def _merge(base: dict, over: dict) -> dict:
+    merged = dict(base)
+    for key, value in over.items():
+        if key == "condition" and isinstance(value, list):
+            merged[key] = _merge_conditions(base.get(key, []), value)
+        elif isinstance(value, dict) and isinstance(merged.get(key), dict):
+            merged[key] = _merge(merged[key], value)
+        else:
+            merged[key] = value
+    return merged
+
+
+def _condition_name(entry):
+    leaf = entry.get("name")
+    return leaf.value if isinstance(leaf, Leaf) else None
+
+
+def _merge_conditions(base: list, over: list) -> list:
+    merged = list(base)
+    names = [_condition_name(entry) for entry in merged]
+    for entry in over:
+        name = _condition_name(entry)
+        if name is not None and name in names:
+            index = names.index(name)
+            merged[index] = _merge(merged[index], entry)
+        else:
+            merged.append(entry)
+            names.append(name)
+    return merged
+
+
+def read_tree(path, _chain=(), _referrer=None) -> dict:
+    """Read an aircraft file and every file it extends into one checked tree.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The aircraft file.
+
+    Returns
+    -------
+    dict
+        Tables as dicts, ``condition`` as a list of dicts, values as
+        :class:`Leaf`; also the key ``"__files__"``: a tuple of every file
+        read, the given one first.
+
+    Raises
+    ------
+    InputError
+        Unreadable file, TOML syntax error, unknown key (with a did-you-mean),
+        a value where a table belongs, a wrong units word, an ``extends``
+        that is missing or makes a cycle.
+    """
+    path = os.fspath(path)
+    real = os.path.realpath(path)
+    if real in _chain:
+        cycle = " -> ".join(os.path.basename(p) for p in (*_chain, real))
+        raise InputError(_referrer[0], _referrer[1], "an extends chain without a cycle", cycle)
+    document = _read_toml(path, _referrer)
+    _check_keys(document, SCHEMA, path, "")
+    units_value = document.get("units")
+    parent = None
+    if "extends" in document:
+        target = document["extends"]
+        if not isinstance(target, str) or not target.strip():
+            raise InputError(path, "extends", "the path of another aircraft file, in quotes",
+                             describe_value(target))
+        target_path = os.path.join(os.path.dirname(path), target)
+        parent = read_tree(target_path, (*_chain, real), (path, "extends"))
+    if units_value is None:
+        units = parent["__units__"] if parent is not None else "SI"
+    elif units_value in UNIT_WORDS:
+        units = units_value
+    else:
+        raise InputError(path, "units", 'units = "SI" or "US"', describe_value(units_value))
+    tree = _wrap({k: v for k, v in document.items() if k != "extends"}, path, units)
+    if parent is not None:
+        files = (path, *parent["__files__"])
+        parent = {k: v for k, v in parent.items() if not k.startswith("__")}
+        tree = _merge(parent, tree)
+    else:
+        files = (path,)
+    tree["__files__"] = files
+    tree["__units__"] = units
+    return tree

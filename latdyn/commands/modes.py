@@ -1,0 +1,67 @@
+"""``latdyn modes FILE... [--condition NAME] [--json]``: the mode table of each condition."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+__all__ = ["add_arguments", "run", "condition_heading"]
+
+
+def add_arguments(parser):
+    parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) (TOML)")
+    parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
+    parser.add_argument("--json", action="store_true",
+                        help="print the JSON document (SI units) instead of tables")
+
+
+def condition_heading(result):
+    """One line describing a flight condition, in SI units with degrees for angles."""
+    from latdyn.tables import format_number
+    from latdyn.units import deg
+
+    flight = result.condition.flight
+    parts = [f'Condition "{flight.name}"',
+             f"category {flight.category}" if flight.category else "category not given"]
+    if flight.altitude is not None:
+        parts.append(f"altitude {format_number(flight.altitude)} m")
+    parts.append(f"V {format_number(flight.speed)} m/s")
+    if flight.mach is not None:
+        parts.append(f"Mach {flight.mach:.3f}")
+    parts.append(f"rho {format_number(flight.density)} kg/m^3")
+    parts.append(f"q {format_number(flight.dynamic_pressure)} Pa")
+    parts.append(f"alpha {deg(flight.alpha):.2f} deg, gamma {deg(flight.gamma):.2f} deg")
+    parts.append(f"{result.model.axes} axes")
+    return " | ".join(parts)
+
+
+def run(args):
+    from latdyn.aircraft import load_aircraft
+    from latdyn.results import analyse_aircraft, modes_document
+    from latdyn.tables import MODE_COLUMNS, mode_rows, render_text
+
+    aircraft_list = [load_aircraft(path) for path in args.files]
+    if args.condition:
+        for aircraft in aircraft_list:
+            aircraft.condition(args.condition)
+    documents, texts = [], []
+    for aircraft in aircraft_list:
+        results = analyse_aircraft(aircraft, args.condition)
+        if args.json:
+            documents.append(modes_document(aircraft, results))
+            continue
+        lines = [f"{aircraft.name}  ({aircraft.file})"
+                 + (f"  class {aircraft.airplane_class}" if aircraft.airplane_class else "")]
+        for result in results:
+            lines += ["", condition_heading(result),
+                      f"  roots: {result.modes.pattern}",
+                      render_text(MODE_COLUMNS, mode_rows(result.modes))]
+        for warning in aircraft.warnings:
+            lines.append(f"warning: {warning}")
+        texts.append("\n".join(lines))
+    if args.json:
+        payload = documents[0] if len(documents) == 1 else documents
+        sys.stdout.write(json.dumps(payload, indent=2, allow_nan=False) + "\n")
+    else:
+        sys.stdout.write("\n\n".join(texts) + "\n")
+    return 0

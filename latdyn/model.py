@@ -1,0 +1,468 @@
+"""The lateral-directional small-disturbance model in state-space form.
+
+From a validated condition this stage computes the dimensional derivatives
+(from non-dimensional ones where needed), folds the product of inertia in
+(primed derivatives), rotates between body and stability axes, and builds
+the linear model with states sideslip, roll rate, yaw rate and bank (heading
+optional), inputs aileron and rudder, and outputs the states plus the
+lateral load factor at the centre of gravity.
+
+Equations (body axes with trim angle of attack alpha0 and pitch attitude
+theta0 = alpha0 + gamma0; in stability axes alpha0 is 0 and theta0 = gamma0)::
+
+    beta_dot = Y_v beta + (Y_p/V + sin a0) p + (Y_r/V - cos a0) r
+               + (g cos th0 / V) phi + (Y_da da + Y_dr dr) / V
+    p_dot    = L'_beta beta + L'_p p + L'_r r + L'_da da + L'_dr dr
+    r_dot    = N'_beta beta + N'_p p + N'_r r + N'_da da + N'_dr dr
+    phi_dot  = p + tan(th0) r
+    psi_dot  = r / cos(th0)
+
+Sources: B. Etkin and L. D. Reid, *Dynamics of Flight: Stability and
+Control*, 3rd ed., Wiley, 1996, section 4.9 (equations 4.9,19) and
+table 4.5 (dimensional derivatives); D. T. McRuer, I. Ashkenas and
+D. Graham, *Aircraft Dynamics and Automatic Control*, Princeton, 1973,
+chapter 4 (primed derivatives); R. K. Heffley and W. F. Jewell, *Aircraft
+Handling Qualities Data*, NASA CR-2144, 1972, section II (the same model
+and primed-derivative definitions, used here as the published check cases).
+All functions work on numpy arrays with any leading batch shape.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from latdyn.aircraft import (Aircraft, Condition, DimensionalDerivatives,
+                             NondimensionalDerivatives)
+from latdyn.units import STANDARD_GRAVITY
+
+__all__ = [
+    "LateralModel", "lateral_model", "lateral_matrices", "output_matrices",
+    "dimensional_from_coefficients", "prime", "rotate_primed", "rotate_coefficients",
+    "rotate_inertia", "primed_derivatives", "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES",
+    "STATE_NAMES", "INPUT_NAMES",
+]
+
+#: Keys of a dimensional derivative set (SI, see :class:`DimensionalDerivatives`).
+DIMENSIONAL_NAMES = ("Y_v", "Y_p", "Y_r", "L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r",
+                     "Y_da", "Y_dr", "L_da", "L_dr", "N_da", "N_dr")
+#: Keys of a non-dimensional derivative set.
+COEFFICIENT_NAMES = ("Cy_beta", "Cy_p", "Cy_r", "Cl_beta", "Cl_p", "Cl_r", "Cn_beta", "Cn_p",
+                     "Cn_r", "Cy_da", "Cl_da", "Cn_da", "Cy_dr", "Cl_dr", "Cn_dr")
+STATE_NAMES = ("beta", "p", "r", "phi")
+INPUT_NAMES = ("aileron", "rudder")
+
+
+def dimensional_from_coefficients(coefficients, wing_area, span, mass, Ixx, Izz, density, speed):
+    """Dimensional derivatives from non-dimensional ones.
+
+    .. math::
+        Y_v = \\frac{q S C_{y_\\beta}}{m V},\\quad
+        Y_p = \\frac{q S b C_{y_p}}{2 m V},\\quad
+        L_\\beta = \\frac{q S b C_{l_\\beta}}{I_{xx}},\\quad
+        L_p = \\frac{q S b^2 C_{l_p}}{2 V I_{xx}},\\quad
+        Y_{\\delta} = \\frac{q S C_{y_\\delta}}{m},\\quad
+        L_{\\delta} = \\frac{q S b C_{l_\\delta}}{I_{xx}}
+
+    and likewise for r and for N with Izz, q = rho V^2 / 2 (Etkin & Reid,
+    *Dynamics of Flight*, 3rd ed., 1996, table 4.5; R. C. Nelson, *Flight
+    Stability and Automatic Control*, 2nd ed., 1998, table 5.2).
+
+    Parameters
+    ----------
+    coefficients : mapping of str to float or array
+        Non-dimensional derivatives (:data:`COEFFICIENT_NAMES`) [1/rad];
+        missing keys are zero.
+    wing_area : float or array
+        S [m^2].
+    span : float or array
+        b [m].
+    mass : float or array
+        m [kg].
+    Ixx, Izz : float or array
+        Moments of inertia in the derivatives' axes [kg m^2].
+    density : float or array
+        rho [kg/m^3].
+    speed : float or array
+        True airspeed V [m/s].
+
+    Returns
+    -------
+    dict
+        Unprimed dimensional derivatives (:data:`DIMENSIONAL_NAMES`), SI.
+
+    Examples
+    --------
+    Nelson (1998), example 5.2 style numbers are not reproduced here; a hand
+    check: q S b Cl_beta / Ixx with q = 0.5 * 1.225 * 50^2, S = 10, b = 10,
+    Cl_beta = -0.1, Ixx = 1000 gives -15.3125 1/s^2.
+
+    >>> d = dimensional_from_coefficients({"Cl_beta": -0.1}, 10.0, 10.0, 1000.0,
+    ...                                   1000.0, 2000.0, 1.225, 50.0)
+    >>> float(d["L_beta"])
+    -15.3125
+    """
+    c = {name: np.asarray(coefficients.get(name, 0.0), dtype=float) for name in COEFFICIENT_NAMES}
+    q_s = 0.5 * np.asarray(density) * np.asarray(speed) ** 2 * np.asarray(wing_area)
+    rate = np.asarray(span) / (2.0 * np.asarray(speed))
+    b = np.asarray(span)
+    m = np.asarray(mass)
+    force = q_s / m
+    roll = q_s * b / np.asarray(Ixx)
+    yaw = q_s * b / np.asarray(Izz)
+    return {
+        "Y_v": force * c["Cy_beta"] / np.asarray(speed),
+        "Y_p": force * rate * c["Cy_p"],
+        "Y_r": force * rate * c["Cy_r"],
+        "L_beta": roll * c["Cl_beta"],
+        "L_p": roll * rate * c["Cl_p"],
+        "L_r": roll * rate * c["Cl_r"],
+        "N_beta": yaw * c["Cn_beta"],
+        "N_p": yaw * rate * c["Cn_p"],
+        "N_r": yaw * rate * c["Cn_r"],
+        "Y_da": force * c["Cy_da"],
+        "Y_dr": force * c["Cy_dr"],
+        "L_da": roll * c["Cl_da"],
+        "L_dr": roll * c["Cl_dr"],
+        "N_da": yaw * c["Cn_da"],
+        "N_dr": yaw * c["Cn_dr"],
+    }
+
+
+_MOMENT_SUFFIXES = ("beta", "p", "r", "da", "dr")
+
+
+def prime(derivatives, Ixx, Izz, Ixz):
+    """Fold the product of inertia into the rolling and yawing derivatives.
+
+    .. math::
+        L' = \\frac{L + (I_{xz}/I_{xx}) N}{1 - I_{xz}^2/(I_{xx} I_{zz})},\\quad
+        N' = \\frac{N + (I_{xz}/I_{zz}) L}{1 - I_{xz}^2/(I_{xx} I_{zz})}
+
+    where L and N are the moment derivatives divided by Ixx and Izz.
+    Source: McRuer, Ashkenas & Graham, *Aircraft Dynamics and Automatic
+    Control*, 1973, eq. 4-57; Heffley & Jewell, NASA CR-2144, 1972, section II.
+
+    Parameters
+    ----------
+    derivatives : mapping
+        Unprimed dimensional derivatives (:data:`DIMENSIONAL_NAMES`).
+    Ixx, Izz, Ixz : float or array
+        Inertias in the derivatives' axes [kg m^2].
+
+    Returns
+    -------
+    dict
+        The same keys, L and N primed.
+
+    Examples
+    --------
+    >>> d = prime({"L_beta": -1.0, "N_beta": 1.0}, 1.0, 2.0, 0.5)
+    >>> round(float(d["L_beta"]), 6), round(float(d["N_beta"]), 6)
+    (-0.571429, 1.0)
+    """
+    out = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    Ixx, Izz, Ixz = (np.asarray(v, dtype=float) for v in (Ixx, Izz, Ixz))
+    gain = 1.0 / (1.0 - Ixz**2 / (Ixx * Izz))
+    for suffix in _MOMENT_SUFFIXES:
+        roll, yaw = out["L_" + suffix], out["N_" + suffix]
+        out["L_" + suffix] = gain * (roll + (Ixz / Ixx) * yaw)
+        out["N_" + suffix] = gain * (yaw + (Ixz / Izz) * roll)
+    return out
+
+
+def rotate_inertia(Ixx, Izz, Ixz, angle):
+    """Moments of inertia in axes rotated by ``angle`` about y (body to stability: alpha0).
+
+    With x_new = x cos(a) + z sin(a), z_new = -x sin(a) + z cos(a) and
+    Ixz the integral of x z dm::
+
+        Ixx' = Ixx c^2 + Izz s^2 - 2 Ixz s c
+        Izz' = Ixx s^2 + Izz c^2 + 2 Ixz s c
+        Ixz' = (Ixx - Izz) s c + Ixz (c^2 - s^2)
+
+    This is the tensor rotation (a derivation; see Etkin & Reid, 3rd ed.,
+    1996, section 4.9 for the same result with their sign of Ixz).
+
+    Parameters
+    ----------
+    Ixx, Izz, Ixz : float or array
+        Inertias in the original axes [kg m^2].
+    angle : float or array
+        Rotation angle [rad]; alpha0 from body to stability axes, -alpha0 back.
+
+    Examples
+    --------
+    >>> [round(float(v), 9) for v in rotate_inertia(2.0, 3.0, 0.0, np.pi / 2)]
+    [3.0, 2.0, -0.0]
+    """
+    c, s = np.cos(angle), np.sin(angle)
+    return (Ixx * c**2 + Izz * s**2 - 2.0 * Ixz * s * c,
+            Ixx * s**2 + Izz * c**2 + 2.0 * Ixz * s * c,
+            (Ixx - Izz) * s * c + Ixz * (c**2 - s**2))
+
+
+def _rotate_pairs(values, names, angle):
+    """Rotate (roll, yaw) moment pairs and (p, r) rate pairs by ``angle``."""
+    (y_p, y_r), moments, rates = names
+    out = {k: np.asarray(v, dtype=float) for k, v in values.items()}
+    c, s = np.cos(angle), np.sin(angle)
+    # Moments and angular accelerations rotate as vectors: M' = R M.
+    for roll, yaw in moments:
+        a, b = out[roll], out[yaw]
+        out[roll], out[yaw] = c * a + s * b, -s * a + c * b
+    # Rate derivatives: D' = R D R^T, with D = [[L_p, L_r], [N_p, N_r]].
+    (lp, lr), (np_, nr) = rates
+    d11, d12, d21, d22 = out[lp], out[lr], out[np_], out[nr]
+    out[lp] = c * c * d11 + c * s * (d12 + d21) + s * s * d22
+    out[lr] = -c * s * d11 + c * c * d12 - s * s * d21 + c * s * d22
+    out[np_] = -c * s * d11 - s * s * d12 + c * c * d21 + c * s * d22
+    out[nr] = s * s * d11 - c * s * (d12 + d21) + c * c * d22
+    # Side force per rate: Y' = Y R^T.
+    a, b = out[y_p], out[y_r]
+    out[y_p], out[y_r] = c * a + s * b, -s * a + c * b
+    return out
+
+
+def rotate_primed(derivatives, angle):
+    """Primed dimensional derivatives in axes rotated by ``angle`` about y.
+
+    Primed moment derivatives are angular accelerations, which rotate as
+    vectors; the rate derivatives rotate as a tensor, D' = R D R^T with
+    R = [[c, s], [-s, c]] (a derivation, common practice).  Body to stability
+    axes: ``angle = alpha0``; back: ``-alpha0``.
+
+    Examples
+    --------
+    >>> d = {"L_beta": -1.0, "N_beta": 0.5}
+    >>> back = rotate_primed(rotate_primed(d, 0.2), -0.2)
+    >>> round(float(back["L_beta"]), 12), round(float(back["N_beta"]), 12)
+    (-1.0, 0.5)
+    """
+    values = {name: derivatives.get(name, 0.0) for name in DIMENSIONAL_NAMES}
+    names = (("Y_p", "Y_r"), (("L_beta", "N_beta"), ("L_da", "N_da"), ("L_dr", "N_dr")),
+             (("L_p", "L_r"), ("N_p", "N_r")))
+    return _rotate_pairs(values, names, angle)
+
+
+def rotate_coefficients(coefficients, angle):
+    """Non-dimensional derivatives in axes rotated by ``angle`` about y.
+
+    Same rotation as :func:`rotate_primed`, applied to (Cl, Cn) and
+    (Cy_p, Cy_r); Cy_beta, Cy_da, Cy_dr are unchanged (a derivation, common
+    practice; compare Etkin & Reid, 3rd ed., 1996, section 4.9).
+
+    Examples
+    --------
+    >>> d = rotate_coefficients({"Cl_beta": -0.1, "Cn_beta": 0.1}, np.pi / 2)
+    >>> round(float(d["Cl_beta"]), 12), round(float(d["Cn_beta"]), 12)
+    (0.1, 0.1)
+    """
+    values = {name: coefficients.get(name, 0.0) for name in COEFFICIENT_NAMES}
+    names = (("Cy_p", "Cy_r"), (("Cl_beta", "Cn_beta"), ("Cl_da", "Cn_da"), ("Cl_dr", "Cn_dr")),
+             (("Cl_p", "Cl_r"), ("Cn_p", "Cn_r")))
+    return _rotate_pairs(values, names, angle)
+
+
+def lateral_matrices(derivatives, speed, alpha_equations, theta, gravity=STANDARD_GRAVITY,
+                     include_heading=False):
+    """State and input matrices of the lateral-directional model.
+
+    Parameters
+    ----------
+    derivatives : mapping
+        Primed dimensional derivatives (:data:`DIMENSIONAL_NAMES`), SI, in the
+        axes of the equations; floats or arrays of one batch shape.
+    speed : float or array
+        True airspeed V [m/s].
+    alpha_equations : float or array
+        alpha0 in body-axis equations, 0 in stability-axis equations [rad].
+    theta : float or array
+        Trim pitch attitude of the equations' x axis [rad].
+    gravity : float
+        g [m/s^2].
+    include_heading : bool
+        Add the heading psi as a fifth state.
+
+    Returns
+    -------
+    A : numpy.ndarray
+        (..., n, n), states beta [rad], p [rad/s], r [rad/s], phi [rad] (, psi [rad]).
+    B : numpy.ndarray
+        (..., n, 2), inputs aileron, rudder [rad].
+
+    Examples
+    --------
+    >>> A, B = lateral_matrices({"Y_v": -0.1, "L_p": -2.0, "N_r": -0.3}, 50.0, 0.0, 0.0)
+    >>> A.shape, B.shape, float(A[0, 2]), float(A[1, 1])
+    ((4, 4), (4, 2), -1.0, -2.0)
+    """
+    d = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    V = np.asarray(speed, dtype=float)
+    a0 = np.asarray(alpha_equations, dtype=float)
+    th = np.asarray(theta, dtype=float)
+    shape = np.broadcast_shapes(V.shape, a0.shape, th.shape, *(v.shape for v in d.values()))
+    n = 5 if include_heading else 4
+    A = np.zeros(shape + (n, n))
+    B = np.zeros(shape + (n, 2))
+    A[..., 0, 0] = d["Y_v"]
+    A[..., 0, 1] = d["Y_p"] / V + np.sin(a0)
+    A[..., 0, 2] = d["Y_r"] / V - np.cos(a0)
+    A[..., 0, 3] = gravity * np.cos(th) / V
+    A[..., 1, 0] = d["L_beta"]
+    A[..., 1, 1] = d["L_p"]
+    A[..., 1, 2] = d["L_r"]
+    A[..., 2, 0] = d["N_beta"]
+    A[..., 2, 1] = d["N_p"]
+    A[..., 2, 2] = d["N_r"]
+    A[..., 3, 1] = 1.0
+    A[..., 3, 2] = np.tan(th)
+    if include_heading:
+        A[..., 4, 2] = 1.0 / np.cos(th)
+    B[..., 0, 0] = d["Y_da"] / V
+    B[..., 0, 1] = d["Y_dr"] / V
+    B[..., 1, 0] = d["L_da"]
+    B[..., 1, 1] = d["L_dr"]
+    B[..., 2, 0] = d["N_da"]
+    B[..., 2, 1] = d["N_dr"]
+    return A, B
+
+
+def output_matrices(derivatives, speed, n_states=4, gravity=STANDARD_GRAVITY):
+    """Output matrices: the states, then lateral load factor at the c.g. [g].
+
+    n_y = a_y / g with a_y = V (Y_v beta + Y_p p / V + Y_r r / V) + Y_da da + Y_dr dr,
+    the side force per unit mass (Etkin & Reid, 3rd ed., 1996, section 4.9).
+
+    Returns
+    -------
+    C : numpy.ndarray
+        (..., n_states + 1, n_states).
+    D : numpy.ndarray
+        (..., n_states + 1, 2).
+    """
+    d = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    V = np.asarray(speed, dtype=float)
+    shape = np.broadcast_shapes(V.shape, *(v.shape for v in d.values()))
+    C = np.zeros(shape + (n_states + 1, n_states))
+    D = np.zeros(shape + (n_states + 1, 2))
+    C[..., :n_states, :n_states] = np.eye(n_states)
+    C[..., n_states, 0] = V * d["Y_v"] / gravity
+    C[..., n_states, 1] = d["Y_p"] / gravity
+    C[..., n_states, 2] = d["Y_r"] / gravity
+    D[..., n_states, 0] = d["Y_da"] / gravity
+    D[..., n_states, 1] = d["Y_dr"] / gravity
+    return C, D
+
+
+def primed_derivatives(aircraft: Aircraft, condition: Condition) -> DimensionalDerivatives:
+    """Primed dimensional derivatives of a condition, in the axes it was given in."""
+    derivatives = condition.derivatives
+    flight = condition.flight
+    axes = derivatives.axes
+    inertia = None
+    if aircraft.mass is not None:
+        m = aircraft.mass
+        inertia = (m.Ixx, m.Izz, m.Ixz)
+        if m.axes != axes:
+            angle = flight.alpha if axes == "stability" else -flight.alpha
+            inertia = rotate_inertia(m.Ixx, m.Izz, m.Ixz, angle)
+    if isinstance(derivatives, NondimensionalDerivatives):
+        coefficients = {name: getattr(derivatives, name) for name in COEFFICIENT_NAMES}
+        g = aircraft.geometry
+        raw = dimensional_from_coefficients(coefficients, g.wing_area, g.span, aircraft.mass.mass,
+                                            inertia[0], inertia[1], flight.density, flight.speed)
+        values = prime(raw, *inertia)
+    else:
+        raw = {name: getattr(derivatives, name) for name in DIMENSIONAL_NAMES}
+        values = raw if derivatives.primed else prime(raw, *inertia)
+    return DimensionalDerivatives(axes=axes, primed=True,
+                                  **{k: float(v) for k, v in values.items()})
+
+
+@dataclass(frozen=True)
+class LateralModel:
+    """Linear lateral-directional model of one flight condition.
+
+    Attributes
+    ----------
+    A, B, C, D : numpy.ndarray
+        State-space matrices; states in rad and rad/s, inputs in rad,
+        outputs the states and the lateral load factor ny [g].
+    state_names, input_names, output_names : tuple of str
+    axes : str
+        "body" or "stability": the axes of the equations.
+    speed : float
+        True airspeed [m/s].
+    alpha_equations : float
+        alpha0 in the equations (0 in stability axes) [rad].
+    theta : float
+        Pitch attitude of the equations' x axis [rad].
+    derivatives : DimensionalDerivatives
+        The primed derivatives actually used.
+    name : str
+        "aircraft / condition", for labels.
+    """
+
+    A: np.ndarray
+    B: np.ndarray
+    C: np.ndarray
+    D: np.ndarray
+    state_names: tuple
+    input_names: tuple
+    output_names: tuple
+    axes: str
+    speed: float
+    alpha_equations: float
+    theta: float
+    derivatives: DimensionalDerivatives
+    name: str = ""
+
+    def __iter__(self):
+        return iter((self.A, self.B, self.C, self.D))
+
+    def to_statespace(self):
+        """The model as a python-control ``StateSpace`` with named signals."""
+        import control
+
+        return control.ss(self.A, self.B, self.C, self.D, states=list(self.state_names),
+                          inputs=list(self.input_names), outputs=list(self.output_names),
+                          name=self.name or None)
+
+
+def lateral_model(aircraft: Aircraft, condition: Condition | str,
+                  include_heading: bool = False, gravity: float = STANDARD_GRAVITY) -> LateralModel:
+    """Build the state-space model of one condition of an aircraft.
+
+    Parameters
+    ----------
+    aircraft : Aircraft
+    condition : Condition or str
+        The condition or its name.
+    include_heading : bool
+        Add the heading psi as a fifth state.
+    gravity : float
+        g [m/s^2].
+
+    Returns
+    -------
+    LateralModel
+    """
+    if isinstance(condition, str):
+        condition = aircraft.condition(condition)
+    derivatives = primed_derivatives(aircraft, condition)
+    flight = condition.flight
+    if derivatives.axes == "body":
+        alpha_equations, theta = flight.alpha, flight.alpha + flight.gamma
+    else:
+        alpha_equations, theta = 0.0, flight.gamma
+    values = {name: getattr(derivatives, name) for name in DIMENSIONAL_NAMES}
+    A, B = lateral_matrices(values, flight.speed, alpha_equations, theta, gravity, include_heading)
+    n = A.shape[-1]
+    C, D = output_matrices(values, flight.speed, n, gravity)
+    states = STATE_NAMES + (("psi",) if include_heading else ())
+    return LateralModel(A=A, B=B, C=C, D=D, state_names=states, input_names=INPUT_NAMES,
+                        output_names=states + ("ny",), axes=derivatives.axes, speed=flight.speed,
+                        alpha_equations=alpha_equations, theta=theta, derivatives=derivatives,
+                        name=f"{aircraft.name} / {condition.name}")
