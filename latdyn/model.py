@@ -94,9 +94,8 @@ def dimensional_from_coefficients(coefficients, wing_area, span, mass, Ixx, Izz,
 
     Examples
     --------
-    Nelson (1998), example 5.2 style numbers are not reproduced here; a hand
-    check: q S b Cl_beta / Ixx with q = 0.5 * 1.225 * 50^2, S = 10, b = 10,
-    Cl_beta = -0.1, Ixx = 1000 gives -15.3125 1/s^2.
+    A hand check: q S b Cl_beta / Ixx with q = 0.5 * 1.225 * 50^2, S = 10,
+    b = 10, Cl_beta = -0.1, Ixx = 1000 gives -15.3125 1/s^2.
 
     >>> d = dimensional_from_coefficients({"Cl_beta": -0.1}, 10.0, 10.0, 1000.0,
     ...                                   1000.0, 2000.0, 1.225, 50.0)
@@ -160,7 +159,7 @@ def prime(derivatives, Ixx, Izz, Ixz):
     --------
     >>> d = prime({"L_beta": -1.0, "N_beta": 1.0}, 1.0, 2.0, 0.5)
     >>> round(float(d["L_beta"]), 6), round(float(d["N_beta"]), 6)
-    (-0.571429, 1.0)
+    (-0.571429, 0.857143)
     """
     out = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
     Ixx, Izz, Ixz = (np.asarray(v, dtype=float) for v in (Ixx, Izz, Ixz))

@@ -133,7 +133,7 @@ def analyse_stack(A, imag_tolerance=1e-7) -> ModeArrays:
     >>> round(float(wn[0]), 3), round(float(zeta[0]), 3)
     (0.996, 0.11)
     >>> round(float(m.roll[0]), 3), round(float(m.spiral[0]), 4)
-    (-1.121, 0.0128)
+    (-1.122, 0.013)
     """
     A = np.asarray(A, dtype=float)[..., :4, :4]
     if A.ndim != 3:
