@@ -105,11 +105,14 @@ def _read_toml(path: str, referrer=None) -> dict:
     if not text.strip():
         raise InputError(path, None, "a TOML aircraft description", "an empty file")
     try:
-        return tomllib.loads(text)
+        document = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
         raise InputError(path, None, "valid TOML", f"a syntax error ({error})") from None
     except RecursionError:
         raise InputError(path, None, "valid TOML", "nesting too deep to read") from None
+    if not document:
+        raise InputError(path, None, "a TOML aircraft description", "no keys (only comments)")
+    return document
 
 
 def _check_keys(table: dict, schema: dict, file: str, prefix: str, condition=None):
@@ -120,7 +123,7 @@ def _check_keys(table: dict, schema: dict, file: str, prefix: str, condition=Non
             if near:
                 expected = f"a known key (did you mean {prefix}{near[0]}?)"
             else:
-                expected = "one of the known keys " + ", ".join(prefix + k for k in schema)
+                expected = "one of the known keys here (" + ", ".join(schema) + ")"
             raise InputError(file, dotted, expected, f"unknown key {key}", condition)
         sub = schema[key]
         if key == "condition" and prefix == "":
