@@ -93,8 +93,11 @@ def _read_toml(path: str, referrer=None) -> dict:
     if size > MAX_FILE_BYTES:
         raise InputError(path, None, f"a TOML file of at most {MAX_FILE_BYTES // 1048576} MB",
                          f"{size / 1048576:.1f} MB")
-    with open(path, "rb") as handle:
-        data = handle.read()
+    try:
+        with open(path, "rb") as handle:
+            data = handle.read(MAX_FILE_BYTES + 1)
+    except OSError as error:
+        raise InputError(path, None, "a readable file", error.strerror or str(error)) from None
     if b"\x00" in data:
         raise InputError(path, None, "a UTF-8 text file in TOML", "binary data")
     try:
@@ -206,6 +209,9 @@ def read_tree(path, _chain=(), _referrer=None) -> dict:
         that is missing or makes a cycle.
     """
     path = os.fspath(path)
+    if "\x00" in path:
+        where = _referrer or (path.replace("\x00", "\\0"), None)
+        raise InputError(where[0], where[1], "a file name", "a name with a NUL character")
     real = os.path.realpath(path)
     if real in _chain:
         cycle = " -> ".join(os.path.basename(p) for p in (*_chain, real))
