@@ -20,6 +20,8 @@ __all__ = ["main", "COMMANDS"]
 #: (name, one-line help) of every command; the module is latdyn.commands.<name with - as _>.
 COMMANDS = (
     ("modes", "Dutch roll, roll subsidence and spiral modes of each flight condition"),
+    ("assess", "handling-qualities levels of each mode against military and civil criteria"),
+    ("respond", "time responses to rudder and aileron inputs, read-outs and transfer functions"),
 )
 
 

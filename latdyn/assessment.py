@@ -1,0 +1,555 @@
+"""Handling-qualities levels of the lateral-directional modes against criteria sets.
+
+Three layers:
+
+1. Pure numpy array functions in :mod:`latdyn.levels` (re-exported here),
+   vectorised over a leading batch axis: :func:`grade`,
+   :func:`dutch_roll_grades`, :func:`roll_grades`, :func:`spiral_grades`,
+   :func:`roll_spiral_grades`, fed with band limits chosen from a criteria
+   set by :func:`select_bands` (:func:`mode_levels` does both).
+2. Small frozen dataclasses: :class:`Assessment` (one criteria set, one
+   mode, one condition), :class:`ConditionAssessment`,
+   :class:`AircraftAssessment`.
+3. One entry point, :func:`assess` (aircraft file -> model -> modes -> levels).
+
+Levels are 1, 2, 3, or 4 for "beyond Level 3"; a pass/fail set gives
+``passed`` instead.  The margin is to the next-better boundary: for a
+Level 1 mode, how far inside the Level 1 boundary it is (positive); for a
+Level 2 mode, how far it is from reaching Level 1 (negative); for a mode
+beyond Level 3, how far from Level 3.  It is given in the governing
+parameter's own units and as a fraction of the limit.
+
+The level bands are guidance only (:data:`NOTICE`).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, fields
+
+import numpy as np
+
+from latdyn.criteria import CATEGORIES, CLASSES, CriteriaSet, load_criteria
+from latdyn.levels import (PARAMETERS, SYMBOLS, UNITS, BandSelection, DutchRollLimits,
+                           Grades, RollLimits, RollSpiralLimits, SpiralLimits, dutch_roll_grades,
+                           grade, grade_mode, mode_levels, phi_to_beta_excess, roll_grades,
+                           roll_spiral_grades, select_bands, spiral_grades)
+
+__all__ = [
+    "NOTICE", "PARAMETERS", "UNITS", "SYMBOLS", "DEFAULT_MILITARY", "DEFAULT_CIVIL",
+    "Grades", "DutchRollLimits", "RollLimits", "SpiralLimits", "RollSpiralLimits",
+    "BandSelection", "grade", "dutch_roll_grades", "roll_grades", "spiral_grades",
+    "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
+    "phi_to_beta_excess", "Assessment", "ConditionAssessment", "AircraftAssessment",
+    "assess_modes", "assess", "default_criteria", "level_words",
+]
+
+#: The guidance-only notice carried by every table, report and plot that shows a level.
+NOTICE = ("GUIDANCE ONLY: handling-qualities levels are guidance against published "
+          "criteria, not a compliance finding. The applicable certification basis, "
+          "local regulations and licensed engineering judgement govern.")
+
+DEFAULT_MILITARY = ("mil-f-8785c",)
+DEFAULT_CIVIL = ("14cfr23-181", "14cfr25-181")
+
+# ============================================================ dataclass layer
+def level_words(level, passed=None) -> str:
+    """A level or pass/fail in words.
+
+    Examples
+    --------
+    >>> level_words(4), level_words(None, False), level_words(2)
+    ('beyond Level 3', 'fail', 'Level 2')
+    """
+    if level is None:
+        if passed is None:
+            return "not assessed"
+        return "pass" if passed else "fail"
+    return "beyond Level 3" if level >= 4 else f"Level {level}"
+
+
+def _number(value):
+    value = float(value)
+    return value if math.isfinite(value) else None
+
+
+@dataclass(frozen=True)
+class Assessment:
+    """One mode of one condition against one criteria set.
+
+    Attributes
+    ----------
+    criteria : str
+        Criteria set name.
+    edition : str
+        Its edition.
+    mode : str
+    level : int or None
+        1, 2, 3, or 4 for beyond Level 3; None for a pass/fail set or when
+        the level cannot be decided (see ``missing`` and ``notes``).
+    passed : bool or None
+        Pass/fail sets only.
+    governing : str or None
+        Parameter that sets the margin (see :data:`PARAMETERS`).
+    value, limit : float or None
+        Its value and the boundary value [unit]; value None where the
+        parameter does not exist (divergent roll, convergent spiral).
+    margin : float or None
+        value - limit (limit - value for a maximum) to the next-better
+        boundary [unit]; positive inside.
+    margin_fraction : float or None
+        margin / |limit| [-].
+    unit : str
+    source : str or None
+        Citation of the band that sets the limit, with its confidence.
+    row : str or None
+        The band's table row.
+    confidence : str or None
+    notes : tuple of str
+    missing : tuple of str
+        What the file lacks for a full assessment.
+    """
+
+    criteria: str
+    edition: str
+    mode: str
+    level: int | None
+    passed: bool | None
+    governing: str | None
+    value: float | None
+    limit: float | None
+    margin: float | None
+    margin_fraction: float | None
+    unit: str = ""
+    source: str | None = None
+    row: str | None = None
+    confidence: str | None = None
+    notes: tuple = ()
+    missing: tuple = ()
+
+    def __iter__(self):
+        return (getattr(self, f.name) for f in fields(self))
+
+    @property
+    def result(self) -> str:
+        """Level or pass/fail in words."""
+        return level_words(self.level, self.passed)
+
+    @property
+    def severity(self) -> int:
+        """Ordering key of badness: 0 not assessed, 1..4 levels, pass 1, fail 2."""
+        if self.level is not None:
+            return self.level
+        if self.passed is None:
+            return 0
+        return 1 if self.passed else 2
+
+    def as_dict(self) -> dict:
+        """The JSON entry of ``latdyn assess --format json``."""
+        return {"criteria": self.criteria, "edition": self.edition, "mode": self.mode,
+                "level": self.level, "pass": self.passed, "governing": self.governing,
+                "value": self.value, "limit": self.limit, "margin": self.margin,
+                "source": self.source, "margin_fraction": self.margin_fraction, "unit": self.unit,
+                "notes": list(self.notes), "missing": list(self.missing)}
+
+
+@dataclass(frozen=True)
+class ConditionAssessment:
+    """All assessments of one flight condition.
+
+    Attributes
+    ----------
+    name, category, airplane_class, flight_phase : str or None
+    altitude : float or None
+        [m]
+    assessments : tuple of Assessment
+    modes : object
+        The ModeSet the assessments were made from (None when built from values).
+    """
+
+    name: str
+    category: str | None
+    airplane_class: str | None
+    flight_phase: str | None
+    altitude: float | None
+    assessments: tuple
+    modes: object = None
+
+    def __iter__(self):
+        return iter(self.assessments)
+
+    def for_criteria(self, name) -> tuple:
+        """Assessments of one criteria set."""
+        return tuple(a for a in self.assessments if a.criteria == name)
+
+    def worst(self, name) -> Assessment | None:
+        """The assessment that limits the condition under one criteria set.
+
+        Highest level (or fail) first; among equals the smallest margin
+        fraction (or margin where the fraction is undefined).
+        """
+        entries = [a for a in self.for_criteria(name) if a.severity > 0]
+        if not entries:
+            return None
+
+        def key(a):
+            closeness = a.margin_fraction if a.margin_fraction is not None else (
+                a.margin if a.margin is not None else math.inf)
+            return (a.severity, -closeness)
+
+        return max(entries, key=key)
+
+    def as_dict(self) -> dict:
+        """The JSON entry of one condition."""
+        worst = {}
+        for name in dict.fromkeys(a.criteria for a in self.assessments):
+            entry = self.worst(name)
+            worst[name] = None if entry is None else {"mode": entry.mode, "level": entry.level,
+                                                      "pass": entry.passed}
+        return {"name": self.name, "category": self.category, "airplane_class": self.airplane_class,
+                "assessments": [a.as_dict() for a in self.assessments], "flight_phase": self.flight_phase,
+                "worst": worst}
+
+
+@dataclass(frozen=True)
+class AircraftAssessment:
+    """Assessment of every condition of one aircraft.
+
+    Attributes
+    ----------
+    aircraft : str
+        Aircraft name.
+    file : str or None
+    airplane_class : str or None
+    criteria : tuple of CriteriaSet
+    conditions : tuple of ConditionAssessment
+    notes : tuple of str
+        File-wide notes (what is missing).
+    notice : str
+        :data:`NOTICE`.
+    """
+
+    aircraft: str
+    file: str | None
+    airplane_class: str | None
+    criteria: tuple
+    conditions: tuple
+    notes: tuple = ()
+    notice: str = NOTICE
+
+    def __iter__(self):
+        return iter(self.conditions)
+
+    def as_dict(self, version=None) -> dict:
+        """The JSON document of ``latdyn assess --format json``."""
+        if version is None:
+            from latdyn import __version__ as version
+        return {"latdyn_version": version, "aircraft": self.aircraft, "notice": self.notice,
+                "conditions": [c.as_dict() for c in self.conditions], "file": self.file,
+                "criteria": [{"name": c.name, "edition": c.edition, "title": c.title,
+                              "document": c.document} for c in self.criteria],
+                "notes": list(self.notes)}
+
+
+def default_criteria(airplane_class) -> tuple:
+    """Default criteria sets: military with an airplane class, both civil sets without.
+
+    Examples
+    --------
+    >>> default_criteria(None)
+    ('14cfr23-181', '14cfr25-181')
+    """
+    return DEFAULT_MILITARY if airplane_class else DEFAULT_CIVIL
+
+
+def _load_sets(criteria_sets):
+    out = []
+    for entry in criteria_sets:
+        out.append(entry if isinstance(entry, CriteriaSet) else load_criteria(entry))
+    return tuple(out)
+
+
+def _mode_values(mode_name, mode):
+    if mode_name in ("dutch_roll", "roll_spiral"):
+        values = {"damping_ratio": np.nan if mode.damping_ratio is None else mode.damping_ratio,
+                  "natural_frequency": np.nan if mode.natural_frequency is None else mode.natural_frequency}
+        if mode_name == "dutch_roll":
+            values["phi_to_beta"] = np.nan if mode.phi_to_beta is None else mode.phi_to_beta
+        return values
+    return {"root": complex(mode.eigenvalue).real}
+
+
+def _candidates(entry, airplane_class, category, altitude):
+    """Values to try for each unknown the mode's bands depend on."""
+    bands = entry.bands + tuple(entry.not_permitted)
+    classes = [airplane_class]
+    if airplane_class is None and any(b.classes is not None for b in bands):
+        classes = list(CLASSES)
+    categories = [category]
+    if category is None and any(b.categories is not None for b in bands):
+        categories = list(CATEGORIES)
+    altitudes = [altitude]
+    breaks = entry.altitude_breaks()
+    if altitude is None and breaks:
+        altitudes = [breaks[0] - 1.0] + list(breaks)
+    return classes, categories, altitudes
+
+
+def _describe(selection, grades, mode_name, mode, criteria, extra_notes):
+    """Assessment from the grades of one candidate (index 0 of a batch of 1)."""
+    level = int(grades.level[0])
+    pass_fail = criteria.assessment == "pass_fail"
+    notes = list(selection.notes) + list(extra_notes)
+    if level == 0:
+        return Assessment(criteria.name, criteria.edition, mode_name, None, None, None, None, None,
+                          None, None, notes=tuple(notes + ["a mode value needed by the criteria is missing"]))
+    governing = PARAMETERS[int(grades.governing[0])]
+    target = min(max(level - 2, 0), criteria.grades - 1)
+    band = selection.band(governing, target)
+    if governing == "permitted":
+        band = selection.not_permitted
+    source_parts = []
+    row = confidence = None
+    if band is not None:
+        row, confidence = band.row, band.source.confidence
+        source_parts.append(f'{band.source.document}, {band.source.reference}, row "{band.row}" '
+                            f"[{band.source.confidence}]" + (f": {band.source.caution}" if band.source.caution
+                                                             else ""))
+        if band.note and "derivation" in band.note:
+            notes.append(band.note)
+    entry = criteria.mode(mode_name)
+    value = _number(grades.value[0])
+    limit = _number(grades.limit[0])
+    margin = _number(grades.margin[0])
+    fraction = _number(grades.margin_fraction[0])
+    if mode_name == "dutch_roll":
+        rule = entry.phi_to_beta_rule
+        if rule is not None and mode.natural_frequency is not None and mode.phi_to_beta is not None:
+            product = mode.natural_frequency ** 2 * mode.phi_to_beta
+            if product > rule.threshold:
+                notes.append(f"omega_nd^2 |phi/beta|_d = {product:.3g} (rad/s)^2 exceeds {rule.threshold:g}: "
+                             "least zeta_d*omega_nd raised by "
+                             + ", ".join(f"{c * (product - rule.threshold):.3g}" for c in rule.coefficients)
+                             + " rad/s" + (" (Levels 1, 2, 3)" if len(rule.coefficients) == 3 else "")
+                             + f" ({rule.source.short()})")
+                if governing == "zeta_omega":
+                    source_parts.append(rule.source.text())
+        cap = entry.damping_ratio_cap
+        if (cap is not None and governing == "damping_ratio" and selection.airplane_class in cap.classes
+                and limit is not None and limit == cap.value):
+            notes.append(f"zeta_d = {cap.value:g} is the most required for Class "
+                         f"{selection.airplane_class} ({cap.source.short()})")
+            source_parts.append(cap.source.text())
+        if mode.damping_ratio is not None and mode.damping_ratio < 0:
+            notes.append("divergent Dutch roll" + (f": time to double {mode.time_to_double:.3g} s"
+                                                    if mode.time_to_double else ""))
+    elif mode_name == "roll_subsidence" and value is None:
+        notes.append("divergent or neutral roll mode: no time constant, beyond Level 3"
+                     + (f" (time to double {mode.time_to_double:.3g} s)" if mode.time_to_double else ""))
+        margin = fraction = None
+    elif mode_name == "spiral" and value is None:
+        notes.append("convergent spiral: meets every level"
+                     + (f" (time to half {mode.time_to_half:.3g} s)" if mode.time_to_half else ""))
+        margin = fraction = None
+    elif governing == "permitted":
+        value = limit = margin = fraction = None
+        notes.append(f'coupled roll-spiral oscillation not permitted: "{band.row}"')
+    passed = None
+    if pass_fail:
+        passed = level == 1
+        level = None
+    return Assessment(criteria.name, criteria.edition, mode_name, level, passed, governing, value, limit,
+                      margin, fraction, UNITS[governing], "; ".join(source_parts) or None, row, confidence,
+                      tuple(dict.fromkeys(notes)))
+
+
+def _missing_words(dimension, condition_name):
+    if dimension == "airplane_class":
+        return "airplane_class (aircraft file key airplane_class)"
+    if dimension == "category":
+        return f'category (condition "{condition_name}" key category)'
+    return f'altitude (condition "{condition_name}": density given instead of altitude)'
+
+
+def _assess_one(criteria, mode_name, mode, airplane_class, category, flight_phase, altitude,
+                condition_name, extra_notes=()):
+    entry = criteria.mode(mode_name)
+    classes, categories, altitudes = _candidates(entry, airplane_class, category, altitude)
+    results = {}
+    for cls in classes:
+        for cat in categories:
+            for alt in altitudes:
+                selection = select_bands(criteria, mode_name, cls, cat, flight_phase, alt)
+                if selection.undefined:
+                    results[(cls, cat, alt)] = None
+                    continue
+                values = {k: np.atleast_1d(v) for k, v in _mode_values(mode_name, mode).items()}
+                grades = grade_mode(selection, **values)
+                results[(cls, cat, alt)] = _describe(selection, grades, mode_name, mode, criteria, extra_notes)
+    unknown = {"airplane_class": len(classes) > 1, "category": len(categories) > 1,
+               "altitude": len(altitudes) > 1}
+    outcomes = list(results.values())
+    if any(r is None for r in outcomes):
+        if len(outcomes) == 1:
+            grades = ", ".join(str(g) for g in select_bands(criteria, mode_name, airplane_class, category,
+                                                             flight_phase, altitude).undefined)
+            return Assessment(criteria.name, criteria.edition, mode_name, None, None, None, None, None, None,
+                              None, notes=(f"{criteria.name} has no band for Level {grades} of Class "
+                                           f"{airplane_class}, Category {category}",))
+    defined = [r for r in outcomes if r is not None]
+    decided = defined and len(defined) == len(outcomes) and len({(r.level, r.passed) for r in defined}) == 1
+    if decided:
+        def closeness(r):
+            if r.margin_fraction is not None:
+                return r.margin_fraction
+            return r.margin if r.margin is not None else math.inf
+
+        chosen = min(defined, key=closeness)
+        notes = list(chosen.notes)
+        for dimension, varied in unknown.items():
+            if varied:
+                words = {"airplane_class": "airplane class", "category": "category",
+                         "altitude": "altitude"}[dimension]
+                notes.append(f"{words} not given: every {words} gives {chosen.result}"
+                             + ("" if len({(r.limit, r.governing) for r in defined}) == 1
+                                else f"; margin shown for the least favourable {words}"))
+        return Assessment(*list(chosen)[:-2], notes=tuple(notes), missing=())
+    # The unknowns change the result: say which ones, assess nothing more.
+    keys = list(results)
+    missing = []
+    for position, dimension in enumerate(("airplane_class", "category", "altitude")):
+        if not unknown[dimension]:
+            continue
+        for key in keys:
+            others = [k for k in keys if all(k[i] == key[i] for i in range(3) if i != position)]
+            seen = {None if results[k] is None else (results[k].level, results[k].passed) for k in others}
+            if len(seen) > 1:
+                missing.append(_missing_words(dimension, condition_name))
+                break
+    levels = sorted({r.severity for r in defined})
+    if criteria.assessment == "pass_fail":
+        spread = "pass or fail"
+    else:
+        spread = " to ".join(level_words(v) for v in (levels[0], levels[-1])) if levels else "not assessed"
+    return Assessment(criteria.name, criteria.edition, mode_name, None, None, None, None, None, None, None,
+                      notes=(f"{spread} depending on what is missing",), missing=tuple(missing))
+
+
+def _static_divergence(criteria, mode):
+    """A non-oscillatory Dutch roll with real roots of opposite signs: beyond every band."""
+    words = "real Dutch roll roots of opposite signs: a static directional divergence"
+    if mode.time_to_double:
+        words += f" (time to double {mode.time_to_double:.3g} s)"
+    pass_fail = criteria.assessment == "pass_fail"
+    return Assessment(criteria.name, criteria.edition, "dutch_roll", None if pass_fail else 4,
+                      False if pass_fail else None, "damping_ratio", None, None, None, None,
+                      notes=(words + (": fail" if pass_fail else ": beyond Level 3"),))
+
+
+def assess_modes(modes, criteria_sets, airplane_class=None, category=None, flight_phase=None,
+                 altitude=None, condition_name="") -> tuple:
+    """Assess the modes of one condition against criteria sets.
+
+    Parameters
+    ----------
+    modes : latdyn.modes.ModeSet
+        The condition's modes (``get(name)`` returns a Mode or None).
+    criteria_sets : iterable of CriteriaSet or str
+    airplane_class, category, flight_phase : str or None
+    altitude : float or None
+        Standard pressure (geopotential) altitude [m].
+    condition_name : str
+        For the wording of what is missing.
+
+    Returns
+    -------
+    tuple of Assessment
+        One per criteria set and mode covered by the set that the condition
+        has (roll subsidence and spiral entries say so when the roots couple
+        into a roll-spiral oscillation).
+    """
+    out = []
+    coupled = modes.get("roll_spiral") is not None
+    pattern = getattr(modes, "pattern", "")
+    for criteria in _load_sets(criteria_sets):
+        for mode_name in criteria.mode_names:
+            mode = modes.get(mode_name)
+            if mode is None:
+                if mode_name == "roll_spiral":
+                    continue
+                if coupled and mode_name in ("roll_subsidence", "spiral"):
+                    note = ("no separate root: the roll and spiral roots couple into a roll-spiral oscillation"
+                            + ("" if criteria.mode("roll_spiral") else
+                               f"; {criteria.name} has no requirement for it"))
+                else:
+                    note = f"no {mode_name.replace('_', ' ')} mode found" + (f" (mode pattern {pattern})"
+                                                                           if pattern else "")
+                out.append(Assessment(criteria.name, criteria.edition, mode_name, None, None, None, None, None,
+                                      None, None, notes=(note,)))
+                continue
+            if mode_name == "dutch_roll" and mode.damping_ratio is None and mode.divergent:
+                out.append(_static_divergence(criteria, mode))
+                continue
+            out.append(_assess_one(criteria, mode_name, mode, airplane_class, category, flight_phase,
+                                   altitude, condition_name))
+    return tuple(out)
+
+
+def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessment:
+    """Assess every condition of an aircraft against handling-qualities criteria.
+
+    Pipeline: :func:`latdyn.aircraft.load_aircraft` ->
+    :func:`latdyn.model.lateral_model` -> :func:`latdyn.modes.find_modes` ->
+    :func:`assess_modes`.
+
+    Parameters
+    ----------
+    aircraft : latdyn.aircraft.Aircraft or str or os.PathLike
+        An aircraft, or the path of an aircraft file.
+    criteria_sets : iterable of CriteriaSet or str, optional
+        Built-in names or file paths; default :func:`default_criteria`.
+    flight_phases : mapping of str to str, optional
+        Sub-phase per condition name (for example ``{"attack": "combat"}``)
+        for the bands that hold only in some phases of a category.  A
+        condition's own ``flight_phase`` attribute, if the aircraft file
+        gives one, is used otherwise.
+
+    Returns
+    -------
+    AircraftAssessment
+
+    Raises
+    ------
+    latdyn.errors.InputError
+        Bad aircraft or criteria file.
+    """
+    from latdyn.aircraft import load_aircraft
+    from latdyn.model import lateral_model
+    from latdyn.modes import find_modes
+
+    if not hasattr(aircraft, "conditions"):
+        aircraft = load_aircraft(aircraft)
+    airplane_class = aircraft.airplane_class
+    sets = _load_sets(criteria_sets if criteria_sets is not None else default_criteria(airplane_class))
+    flight_phases = dict(flight_phases or {})
+    conditions = []
+    for condition in aircraft.conditions:
+        flight = condition.flight
+        phase = flight_phases.get(condition.name, getattr(flight, "flight_phase", None))
+        model = lateral_model(aircraft, condition)
+        modes = find_modes(model)
+        assessments = assess_modes(modes, sets, airplane_class, flight.category, phase, flight.altitude,
+                                   condition.name)
+        conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
+                                              flight.altitude, assessments, modes))
+    notes = []
+    if airplane_class is None and any(s.assessment == "levels" for s in sets):
+        notes.append("the aircraft file gives no airplane_class: military levels are given only where "
+                     "every class gives the same result")
+    missing_category = [c.name for c in aircraft.conditions if c.flight.category is None]
+    if missing_category and any(s.assessment == "levels" for s in sets):
+        notes.append("no category for condition " + ", ".join(f'"{n}"' for n in missing_category)
+                     + ": levels are given only where every category gives the same result")
+    files = getattr(aircraft, "files", ())
+    return AircraftAssessment(aircraft.name, files[0] if files else None, airplane_class, sets,
+                              tuple(conditions), tuple(notes))

@@ -1,0 +1,603 @@
+"""Handling-qualities levels as pure array functions, vectorised over a batch.
+
+The lowest layer of the assessment: band limits chosen from a criteria set
+(:func:`select_bands`) and numpy functions that grade a batch of mode values
+against them (:func:`grade`, :func:`dutch_roll_grades`, :func:`roll_grades`,
+:func:`spiral_grades`, :func:`roll_spiral_grades`; :func:`mode_levels` does
+both steps).  No Python loop runs over the cases: a design study grades a
+million Dutch rolls in one call.  :mod:`latdyn.assessment` builds the
+per-condition results on top.
+
+Levels are 1, 2, 3, or 4 for "beyond Level 3" (pass/fail sets: 1 pass,
+2 fail).  The level bands are guidance only: the applicable certification
+basis, local regulations and licensed engineering judgement govern.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import NamedTuple
+
+import numpy as np
+
+from latdyn.criteria import CriteriaSet, LIMIT_KEYS, load_criteria
+
+__all__ = [
+    "PARAMETERS", "UNITS", "SYMBOLS", "Grades", "DutchRollLimits", "RollLimits", "SpiralLimits",
+    "RollSpiralLimits", "BandSelection", "grade", "dutch_roll_grades", "roll_grades",
+    "spiral_grades", "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
+    "phi_to_beta_excess",
+]
+
+#: Parameters a band can limit; ``Grades.governing`` indexes this tuple.
+PARAMETERS = ("damping_ratio", "zeta_omega", "natural_frequency", "time_constant",
+              "time_to_double", "permitted")
+#: Unit of each parameter ("" for a ratio).
+UNITS = {"damping_ratio": "", "zeta_omega": "rad/s", "natural_frequency": "rad/s",
+         "time_constant": "s", "time_to_double": "s", "permitted": ""}
+#: Trade symbols of each parameter per mode, for tables and plots.
+SYMBOLS = {
+    ("dutch_roll", "damping_ratio"): "zeta_d", ("dutch_roll", "zeta_omega"): "zeta_d*omega_nd",
+    ("dutch_roll", "natural_frequency"): "omega_nd", ("roll_subsidence", "time_constant"): "T_R",
+    ("spiral", "time_to_double"): "T_2", ("roll_spiral", "zeta_omega"): "zeta_RS*omega_RS",
+    ("roll_spiral", "permitted"): "permitted",
+}
+_INDEX = {name: i for i, name in enumerate(PARAMETERS)}
+_LIMIT_PARAMETER = {"min_damping_ratio": "damping_ratio", "min_zeta_omega": "zeta_omega",
+                    "min_natural_frequency": "natural_frequency",
+                    "max_time_constant": "time_constant", "min_time_to_double": "time_to_double"}
+_LN2 = math.log(2.0)
+
+
+class Grades(NamedTuple):
+    """Levels of a batch of modes (arrays with the batch shape ``S``).
+
+    Attributes
+    ----------
+    level : ndarray of int, shape S
+        First grade met: 1, 2, 3 for a levels set, 4 beyond Level 3; for a
+        pass/fail set 1 = pass, 2 = fail; 0 = not assessable (a needed value
+        is NaN).
+    met : ndarray of bool, shape S + (G,)
+        Whether each grade's band is met.
+    level_margin : ndarray, shape S + (G,)
+        Smallest normalised margin over the constraints of each grade
+        (fraction of the limit; the margin itself where the limit is 0):
+        >= 0 inside the band, continuous in the mode values, for root-finding
+        on a level boundary.
+    governing : ndarray of int, shape S
+        Index into :data:`PARAMETERS` of the constraint that decides the
+        margin to the next-better boundary (-1 where not assessable).
+    value, limit, margin, margin_fraction : ndarray, shape S
+        The governing parameter's value and limit, the margin value - limit
+        (limit - value for a maximum; positive inside) in its own units, and
+        the margin as a fraction of |limit| (NaN for a zero limit).
+    """
+
+    level: np.ndarray
+    met: np.ndarray
+    level_margin: np.ndarray
+    governing: np.ndarray
+    value: np.ndarray
+    limit: np.ndarray
+    margin: np.ndarray
+    margin_fraction: np.ndarray
+
+
+def grade(values, limits, parameters, senses, exclusive=False) -> Grades:
+    """Grade constraints ``sense * (value - limit) >= 0`` into levels.
+
+    Every argument broadcasts to the shape ``S + (G, K)``: G grades (Levels
+    1, 2, 3, or one pass/fail grade), K constraints per grade.  A NaN limit
+    means "no requirement".  A grade is met when all its constraints are
+    met; the level is the first grade met (G + 1 when none is).  The margin
+    is taken at the next-better boundary, grade max(level - 1, 1), and the
+    governing constraint there is the one with the smallest normalised margin
+    (margin / |limit|; the margin itself for a zero limit).  This is common
+    practice for reading level tables, not a published formula.
+
+    Parameters
+    ----------
+    values : array_like
+        Constraint values, S + (1 or G, K) [parameter units].
+    limits : array_like
+        Limits [parameter units]; NaN where a grade does not limit it.
+    parameters : array_like of int
+        Index into :data:`PARAMETERS` of each constraint.
+    senses : array_like
+        +1 for a minimum, -1 for a maximum.
+    exclusive : array_like of bool
+        The value must strictly pass the limit.
+
+    Returns
+    -------
+    Grades
+
+    Examples
+    --------
+    >>> g = grade([[[0.3]], [[0.1]], [[-0.1]]], [[0.19], [0.02], [0.0]], [[0]], [[1]])
+    >>> g.level.tolist(), g.margin.round(3).tolist()
+    ([1, 2, 4], [0.11, -0.09, -0.1])
+    """
+    values, limits, parameters, senses, exclusive = np.broadcast_arrays(
+        np.asarray(values, dtype=float), np.asarray(limits, dtype=float),
+        np.asarray(parameters), np.asarray(senses, dtype=float), np.asarray(exclusive, dtype=bool))
+    count = values.shape[-2]
+    applicable = ~np.isnan(limits)
+    with np.errstate(invalid="ignore"):
+        raw = senses * (values - limits)
+    margin = np.where(applicable, raw, np.inf)
+    undetermined = np.any(applicable & np.isnan(values), axis=(-2, -1))
+    with np.errstate(invalid="ignore"):
+        ok = np.where(exclusive, margin > 0.0, margin >= 0.0)
+    met = ok.all(axis=-1)
+    level = np.where(met.any(axis=-1), met.argmax(axis=-1) + 1, count + 1)
+    level = np.where(undetermined, 0, level)
+    scale = np.abs(limits)
+    positive = applicable & (scale > 0.0)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        fraction = np.where(positive, margin / np.where(positive, scale, 1.0), np.nan)
+    normalised = np.where(applicable, np.where(positive, fraction, margin), np.inf)
+    normalised = np.where(np.isnan(normalised), -np.inf, normalised)
+    level_margin = normalised.min(axis=-1)
+    target = np.clip(level - 2, 0, count - 1)[..., None, None]
+
+    def at_target(array):
+        return np.take_along_axis(array, np.broadcast_to(target, array.shape[:-2] + (1, array.shape[-1])),
+                                  axis=-2)[..., 0, :]
+
+    row = at_target(normalised)
+    k = row.argmin(axis=-1)[..., None]
+
+    def pick(array):
+        return np.take_along_axis(at_target(array), k, axis=-1)[..., 0]
+
+    governing = np.where(undetermined, -1, pick(parameters))
+    nan = np.full(level.shape, np.nan)
+    value = np.where(undetermined, nan, pick(values))
+    limit = np.where(undetermined, nan, pick(limits))
+    chosen_margin = np.where(undetermined, nan, pick(margin))
+    chosen_fraction = np.where(undetermined, nan, pick(fraction))
+    return Grades(level, met, level_margin, governing, value, limit, chosen_margin, chosen_fraction)
+
+
+class DutchRollLimits(NamedTuple):
+    """Dutch roll band limits per grade (arrays of shape (G,) or S + (G,)).
+
+    Attributes
+    ----------
+    min_damping_ratio : ndarray
+        Least zeta_d [-] (NaN: none).
+    min_zeta_omega : ndarray
+        Least zeta_d*omega_nd [rad/s] before the |phi/beta| rule (NaN: none).
+    min_natural_frequency : ndarray
+        Least omega_nd [rad/s] (NaN: none).
+    phi_to_beta_coefficient : ndarray
+        Rise of the least zeta_d*omega_nd per (rad/s)^2 of omega_nd^2 |phi/beta|_d
+        above the threshold [s] (0: no rule).
+    phi_to_beta_threshold : float
+        [(rad/s)^2].
+    damping_ratio_cap : float
+        Most zeta_d ever required [-] (NaN: no cap).
+    exclusive : ndarray of bool
+        zeta_d must exceed ``min_damping_ratio`` strictly.
+    """
+
+    min_damping_ratio: np.ndarray
+    min_zeta_omega: np.ndarray
+    min_natural_frequency: np.ndarray
+    phi_to_beta_coefficient: np.ndarray
+    phi_to_beta_threshold: float = 20.0
+    damping_ratio_cap: float = np.nan
+    exclusive: np.ndarray = np.False_
+
+
+class RollLimits(NamedTuple):
+    """Roll-mode limits per grade: most time constant T_R [s] (shape (G,))."""
+
+    max_time_constant: np.ndarray
+
+
+class SpiralLimits(NamedTuple):
+    """Spiral limits per grade: least time to double T_2 [s] (shape (G,))."""
+
+    min_time_to_double: np.ndarray
+
+
+class RollSpiralLimits(NamedTuple):
+    """Coupled roll-spiral limits per grade: least zeta*omega [rad/s] (shape (G,))."""
+
+    min_zeta_omega: np.ndarray
+
+
+def phi_to_beta_excess(natural_frequency, phi_to_beta, threshold=20.0):
+    """Excess of omega_nd^2 |phi/beta|_d over its threshold, ``max(0, omega^2 |phi/beta| - threshold)``.
+
+    MIL-F-8785C 3.3.1.1, Table VI note [recalled]: when omega_nd^2 |phi/beta|_d
+    exceeds 20 (rad/s)^2 the least zeta_d*omega_nd rises by 0.014, 0.009 and
+    0.005 times this excess for Levels 1, 2 and 3.
+
+    Parameters
+    ----------
+    natural_frequency : array_like
+        omega_nd [rad/s].
+    phi_to_beta : array_like
+        |phi/beta|_d, bank to sideslip amplitude ratio in the mode [-].
+    threshold : float
+        [(rad/s)^2].
+
+    Returns
+    -------
+    ndarray
+        [(rad/s)^2].
+
+    Examples
+    --------
+    >>> float(phi_to_beta_excess(2.0, 10.0))
+    20.0
+    """
+    omega = np.asarray(natural_frequency, dtype=float)
+    return np.maximum(0.0, omega * omega * np.asarray(phi_to_beta, dtype=float) - threshold)
+
+
+def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: DutchRollLimits) -> Grades:
+    """Levels of Dutch roll modes from zeta_d, omega_nd and |phi/beta|_d.
+
+    Per grade the requirements are (MIL-F-8785C 3.3.1.1, Table VI and its
+    notes [recalled])::
+
+        zeta_d >= max(zeta_min, (zeta_omega_min + c (omega^2 |phi/beta| - 20)+) / omega_nd),
+                  capped at zeta_cap (0.7 for Class III)
+        omega_nd >= omega_min
+
+    The damping requirement giving the larger zeta_d governs; it is reported
+    in zeta_d or in zeta_d*omega_nd [rad/s], whichever sets it.  A missing
+    zeta_omega_min is taken as 0 when the |phi/beta| rule raises it (the
+    rule's Level 3 coefficient implies that reading: common practice).
+
+    Parameters
+    ----------
+    damping_ratio : array_like, shape S
+        zeta_d, signed [-].
+    natural_frequency : array_like, shape S
+        omega_nd [rad/s].
+    phi_to_beta : array_like, shape S
+        |phi/beta|_d [-]; NaN is only harmful where the rule applies.
+    limits : DutchRollLimits
+
+    Returns
+    -------
+    Grades
+        ``governing`` is "damping_ratio", "zeta_omega" or "natural_frequency".
+
+    Examples
+    --------
+    >>> lim = DutchRollLimits(np.array([0.08, 0.02, 0.0]), np.array([0.15, 0.05, np.nan]),
+    ...                       np.array([0.4, 0.4, 0.4]), np.array([0.014, 0.009, 0.005]))
+    >>> g = dutch_roll_grades([0.1, 0.1], [1.0, 2.5], [1.0, 1.0], lim)
+    >>> g.level.tolist(), [PARAMETERS[i] for i in g.governing]
+    ([2, 1], ['zeta_omega', 'damping_ratio'])
+    """
+    zeta = np.asarray(damping_ratio, dtype=float)[..., None]
+    omega = np.asarray(natural_frequency, dtype=float)[..., None]
+    ratio = np.asarray(phi_to_beta, dtype=float)[..., None]
+    min_zeta = np.asarray(limits.min_damping_ratio, dtype=float)
+    min_zw = np.asarray(limits.min_zeta_omega, dtype=float)
+    min_omega = np.asarray(limits.min_natural_frequency, dtype=float)
+    coefficient = np.asarray(limits.phi_to_beta_coefficient, dtype=float)
+    cap = np.asarray(limits.damping_ratio_cap, dtype=float)
+    with np.errstate(invalid="ignore"):
+        excess = phi_to_beta_excess(omega, ratio, limits.phi_to_beta_threshold)
+        rise = np.where(coefficient > 0.0, coefficient * excess, 0.0)
+        zw_required = np.where(np.isnan(min_zw) & (rise > 0.0), 0.0, min_zw) + rise
+    with np.errstate(divide="ignore", invalid="ignore"):
+        zeta_from_zw = np.where(omega > 0.0, zw_required / np.where(omega > 0.0, omega, 1.0), np.inf)
+    zeta_from_zw = np.where(np.isnan(zw_required), np.nan, zeta_from_zw)
+    required = np.fmax(min_zeta, zeta_from_zw)
+    with np.errstate(invalid="ignore"):
+        capped = required > cap
+        use_zw = ~capped & ~np.isnan(zeta_from_zw) & (np.isnan(min_zeta) | (zeta_from_zw > min_zeta))
+    damping_value = np.where(use_zw, zeta * omega, zeta)
+    damping_limit = np.where(use_zw, zw_required, np.where(capped, cap, min_zeta))
+    damping_parameter = np.where(use_zw, _INDEX["zeta_omega"], _INDEX["damping_ratio"])
+    exclusive = np.asarray(limits.exclusive, dtype=bool) & ~use_zw & ~capped
+    values = np.stack(np.broadcast_arrays(damping_value, omega + 0.0 * damping_value), axis=-1)
+    limits_ = np.stack(np.broadcast_arrays(damping_limit, min_omega + 0.0 * damping_limit), axis=-1)
+    parameters = np.stack(np.broadcast_arrays(damping_parameter,
+                                              np.full(damping_parameter.shape, _INDEX["natural_frequency"])),
+                          axis=-1)
+    exclusive = np.stack(np.broadcast_arrays(exclusive, np.zeros(np.shape(exclusive), bool)), axis=-1)
+    return grade(values, limits_, parameters, 1.0, exclusive)
+
+
+def roll_grades(roll_root, limits: RollLimits) -> Grades:
+    """Levels of roll subsidence modes from the real roll root.
+
+    T_R = -1 / lambda_roll (MIL-F-8785C 3.3.1.2, Table VII [recalled]); a
+    neutral or divergent root (lambda >= 0) has no time constant and is beyond
+    Level 3 (its value is reported as infinite).
+
+    Parameters
+    ----------
+    roll_root : array_like, shape S
+        Real eigenvalue lambda_roll [1/s].
+    limits : RollLimits
+
+    Returns
+    -------
+    Grades
+
+    Examples
+    --------
+    >>> g = roll_grades([-2.0, -0.5, 0.1], RollLimits(np.array([1.4, 3.0, 10.0])))
+    >>> g.level.tolist(), g.value.tolist()
+    ([1, 2, 4], [0.5, 2.0, inf])
+    """
+    root = np.asarray(roll_root, dtype=float)
+    with np.errstate(divide="ignore"):
+        constant = np.where(root < 0.0, -1.0 / np.where(root < 0.0, root, -1.0), np.inf)
+    constant = np.where(np.isnan(root), np.nan, constant)
+    return grade(constant[..., None, None], np.asarray(limits.max_time_constant, float)[..., None],
+                 _INDEX["time_constant"], -1.0)
+
+
+def spiral_grades(spiral_root, limits: SpiralLimits) -> Grades:
+    """Levels of spiral modes from the real spiral root.
+
+    T_2 = ln 2 / lambda for a divergent root (MIL-F-8785C 3.3.1.3, Table VIII
+    [recalled]); a convergent or neutral spiral meets every level (its time to
+    double is reported as infinite).
+
+    Parameters
+    ----------
+    spiral_root : array_like, shape S
+        Real eigenvalue lambda_spiral [1/s].
+    limits : SpiralLimits
+
+    Returns
+    -------
+    Grades
+
+    Examples
+    --------
+    >>> g = spiral_grades([-0.01, 0.05, 0.5], SpiralLimits(np.array([20.0, 8.0, 4.0])))
+    >>> g.level.tolist()
+    [1, 2, 4]
+    """
+    root = np.asarray(spiral_root, dtype=float)
+    with np.errstate(divide="ignore"):
+        double = np.where(root > 0.0, _LN2 / np.where(root > 0.0, root, 1.0), np.inf)
+    double = np.where(np.isnan(root), np.nan, double)
+    return grade(double[..., None, None], np.asarray(limits.min_time_to_double, float)[..., None],
+                 _INDEX["time_to_double"], 1.0)
+
+
+def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimits, permitted=True) -> Grades:
+    """Levels of coupled roll-spiral oscillations from zeta_RS and omega_RS.
+
+    zeta_RS*omega_RS >= limit (MIL-F-8785C 3.3.1.4 [recalled]); where the
+    oscillation is not permitted (Category A combat and ground attack) it is
+    beyond every grade (governing "permitted").
+
+    Parameters
+    ----------
+    damping_ratio, natural_frequency : array_like, shape S
+        zeta_RS [-], omega_RS [rad/s].
+    limits : RollSpiralLimits
+    permitted : array_like of bool, shape S
+        Whether the flight phase permits the oscillation.
+
+    Returns
+    -------
+    Grades
+
+    Examples
+    --------
+    >>> g = roll_spiral_grades([0.5, 0.5], [1.2, 1.2], RollSpiralLimits(np.array([0.5, 0.3, 0.15])),
+    ...                        permitted=[True, False])
+    >>> g.level.tolist(), [PARAMETERS[i] for i in g.governing]
+    ([1, 4], ['zeta_omega', 'permitted'])
+    """
+    zw = np.asarray(damping_ratio, dtype=float) * np.asarray(natural_frequency, dtype=float)
+    allowed = np.broadcast_to(np.asarray(permitted, dtype=float), zw.shape)
+    minimum = np.asarray(limits.min_zeta_omega, dtype=float)
+    values = np.stack([zw, allowed], axis=-1)[..., None, :]
+    minimum = np.broadcast_to(minimum, zw.shape + minimum.shape[-1:])
+    forbidden = np.where(allowed[..., None] > 0.0, np.nan, 1.0) + 0.0 * minimum
+    limit = np.stack([minimum, forbidden], axis=-1)
+    return grade(values, limit, [_INDEX["zeta_omega"], _INDEX["permitted"]], 1.0)
+
+
+# ============================================================ band selection
+@dataclass(frozen=True)
+class BandSelection:
+    """The limits one criteria set puts on one mode for one class/category.
+
+    Attributes
+    ----------
+    criteria : CriteriaSet
+    mode : str
+    airplane_class, category, flight_phase : str or None
+    altitude : float or None
+        [m]
+    limits : DutchRollLimits, RollLimits, SpiralLimits or RollSpiralLimits
+        Arrays of shape (G,).
+    bands : tuple of ((parameter, grade index), Band)
+        The band that sets each limit.
+    undefined : tuple of int
+        Grades (1-based) no band covers: the mode cannot be graded.
+    notes : tuple of str
+    """
+
+    criteria: CriteriaSet
+    mode: str
+    airplane_class: str | None
+    category: str | None
+    flight_phase: str | None
+    altitude: float | None
+    limits: tuple
+    bands: tuple
+    undefined: tuple
+    notes: tuple
+    not_permitted: object = None
+
+    def band(self, parameter, grade_index):
+        """The band that sets a limit, or None."""
+        for key, band in self.bands:
+            if key == (parameter, grade_index):
+                return band
+        return None
+
+
+def select_bands(criteria: CriteriaSet, mode, airplane_class, category, flight_phase=None,
+                 altitude=None) -> BandSelection:
+    """Limits a criteria set puts on one mode for a class, category, sub-phase and altitude.
+
+    Where several bands hold for the same grade (a sub-phase row on top of
+    the category row) the strictest value of each limit holds.
+
+    Parameters
+    ----------
+    criteria : CriteriaSet
+    mode : str
+        "dutch_roll", "roll_subsidence", "spiral" or "roll_spiral".
+    airplane_class : str or None
+        "I", "II-C", "II-L", "III" or "IV".
+    category : str or None
+        "A", "B" or "C".
+    flight_phase : str or None
+        A sub-phase such as "combat" or "ground_attack".
+    altitude : float or None
+        Standard pressure (geopotential) altitude [m].
+
+    Returns
+    -------
+    BandSelection
+
+    Examples
+    --------
+    >>> from latdyn.criteria import load_criteria
+    >>> s = select_bands(load_criteria("mil-f-8785c"), "roll_subsidence", "IV", "A")
+    >>> s.limits.max_time_constant.tolist()
+    [1.0, 1.4, 10.0]
+    """
+    entry = criteria.mode(mode)
+    if entry is None:
+        raise KeyError(f"{criteria.name} has no bands for {mode}")
+    count = criteria.grades
+    keys = tuple(LIMIT_KEYS[mode])
+    values = {key: np.full(count, np.nan) for key in keys}
+    exclusive = np.zeros(count, bool)
+    chosen = {}
+    covered = np.zeros(count, bool)
+    notes = []
+    for band in entry.bands:
+        g = 0 if band.level is None else band.level - 1
+        if not band.applies(airplane_class, category, flight_phase, altitude):
+            if (flight_phase is None and band.flight_phases is not None
+                    and band.applies(airplane_class, category, band.flight_phases[0], altitude)):
+                notes.append(f'{criteria.name}: band "{band.row}" holds only in the '
+                             + " and ".join(p.replace("_", "-") for p in band.flight_phases)
+                             + " phases; not applied: the condition states no flight phase")
+            continue
+        covered[g] = True
+        for key, limit in band.limits:
+            sense = LIMIT_KEYS[mode][key]
+            current = values[key][g]
+            stricter = np.isnan(current) or (limit > current if sense > 0 else limit < current)
+            if stricter or limit == current:
+                if stricter or not (key == "min_damping_ratio" and exclusive[g]):
+                    values[key][g] = limit
+                    chosen[(_LIMIT_PARAMETER[key], g)] = band
+                    if key == "min_damping_ratio":
+                        exclusive[g] = band.exclusive if stricter else (exclusive[g] or band.exclusive)
+    undefined = tuple(int(g) + 1 for g in np.flatnonzero(~covered))
+    not_permitted = None
+    if mode == "dutch_roll":
+        rule, cap = entry.phi_to_beta_rule, entry.damping_ratio_cap
+        limits = DutchRollLimits(
+            values["min_damping_ratio"], values["min_zeta_omega"], values["min_natural_frequency"],
+            np.asarray(rule.coefficients, float) if rule else np.zeros(count),
+            rule.threshold if rule else 20.0,
+            cap.value if cap and airplane_class in cap.classes else np.nan, exclusive)
+        excusal = entry.frequency_excusal
+        if excusal and airplane_class in excusal.classes:
+            notes.append(f"{criteria.name}: {excusal.note} ({excusal.source.short()})")
+    elif mode == "roll_subsidence":
+        limits = RollLimits(values["max_time_constant"])
+    elif mode == "spiral":
+        limits = SpiralLimits(values["min_time_to_double"])
+    else:
+        limits = RollSpiralLimits(values["min_zeta_omega"])
+        for band in entry.not_permitted:
+            if band.applies(airplane_class, category, flight_phase, altitude):
+                not_permitted = band
+            elif (flight_phase is None and band.flight_phases is not None
+                  and band.applies(airplane_class, category, band.flight_phases[0], altitude)):
+                notes.append(f"{criteria.name}: a coupled roll-spiral oscillation is not permitted in "
+                             + " and ".join(p.replace("_", "-") for p in band.flight_phases)
+                             + f" phases ({band.source.short()}); the condition states no flight phase")
+    return BandSelection(criteria, mode, airplane_class, category, flight_phase, altitude, limits,
+                         tuple(chosen.items()), undefined, tuple(notes), not_permitted)
+
+
+def grade_mode(selection: BandSelection, *, damping_ratio=None, natural_frequency=None,
+               phi_to_beta=None, root=None) -> Grades:
+    """Grade a batch of one mode's values against a band selection.
+
+    Parameters
+    ----------
+    selection : BandSelection
+    damping_ratio, natural_frequency, phi_to_beta : array_like
+        zeta [-], omega_n [rad/s], |phi/beta| [-]: Dutch roll and roll-spiral.
+    root : array_like
+        Real eigenvalue [1/s]: roll subsidence and spiral.
+
+    Returns
+    -------
+    Grades
+    """
+    mode = selection.mode
+    if mode == "dutch_roll":
+        ratio = np.nan if phi_to_beta is None else phi_to_beta
+        return dutch_roll_grades(damping_ratio, natural_frequency, ratio, selection.limits)
+    if mode == "roll_subsidence":
+        return roll_grades(root, selection.limits)
+    if mode == "spiral":
+        return spiral_grades(root, selection.limits)
+    return roll_spiral_grades(damping_ratio, natural_frequency, selection.limits,
+                              permitted=selection.not_permitted is None)
+
+
+def mode_levels(criteria, mode, airplane_class, category, *, flight_phase=None, altitude=None,
+                **values) -> Grades:
+    """Levels of a batch of one mode for one class and category (select + grade).
+
+    Parameters
+    ----------
+    criteria : CriteriaSet or str
+        A criteria set, or a built-in name / file path.
+    mode : str
+    airplane_class, category, flight_phase : str or None
+    altitude : float or None
+        [m]
+    **values
+        ``damping_ratio``, ``natural_frequency``, ``phi_to_beta`` or ``root``
+        arrays (see :func:`grade_mode`).
+
+    Returns
+    -------
+    Grades
+
+    Examples
+    --------
+    >>> g = mode_levels("mil-f-8785c", "dutch_roll", "III", "C", damping_ratio=[0.11, 0.05],
+    ...                 natural_frequency=[1.0, 1.0], phi_to_beta=[1.0, 1.0])
+    >>> g.level.tolist()
+    [1, 2]
+    """
+    if not isinstance(criteria, CriteriaSet):
+        criteria = load_criteria(criteria)
+    selection = select_bands(criteria, mode, airplane_class, category, flight_phase, altitude)
+    return grade_mode(selection, **values)

@@ -1,0 +1,436 @@
+"""Handling-qualities charts: the modes placed against the level bands.
+
+* :func:`dutch_roll_chart`: damping ratio against undamped natural frequency,
+  with the level regions of one criteria set for each class and category
+  (one panel per category present) and every condition's Dutch roll point;
+* :func:`roll_spiral_chart`: roll time constant and spiral time to double of
+  each condition against that condition's limits, as banded strips;
+* :func:`s_plane_map`: every root of every condition.
+
+The regions are computed by the assessment's own array functions on a grid
+(:func:`latdyn.levels.dutch_roll_grades`), so the picture and the table
+cannot disagree.  Every figure carries the guidance-only notice.
+
+matplotlib is imported inside the functions; figures are built without
+pyplot (no global state) and written atomically as PNG and SVG.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import textwrap
+
+import numpy as np
+
+__all__ = ["LEVEL_COLOURS", "LEVEL_INK", "dutch_roll_chart", "roll_spiral_chart", "s_plane_map",
+           "write_assessment_figures", "save_both"]
+
+#: Region fills by level (1, 2, 3, 4 = beyond Level 3): sage, straw, apricot, rose.
+LEVEL_COLOURS = {1: "#d3e9d6", 2: "#f2e4b8", 3: "#f2c9a9", 4: "#e8aeae"}
+#: Darker ink of the same hues for labels.
+LEVEL_INK = {1: "#2f6b3c", 2: "#7a6318", 3: "#8a4b20", 4: "#8c2f2f"}
+_UNDECIDED = "#e4e6ea"
+_POINT = "#1d3557"
+_TEXT = "#1f2933"
+_MUTED = "#6b7780"
+_CASE_COLOURS = ("#1d3557", "#b5532b", "#2a7f72", "#7b4f9d", "#a8842a", "#4f5d6b", "#c2417a")
+_MODE_MARKERS = {"dutch_roll": "o", "roll_subsidence": "s", "spiral": "^", "roll_spiral": "D"}
+
+
+def _level_words(level):
+    from latdyn.assessment import level_words
+
+    return level_words(int(level))
+
+
+def _notice(figure, extra=None):
+    """The guidance-only notice under the figure (inside the layout, so nothing overlaps it)."""
+    from latdyn.assessment import NOTICE
+
+    lines = textwrap.wrap(NOTICE, 150)
+    if extra:
+        lines = textwrap.wrap(extra, 150) + lines
+    figure.supxlabel("\n".join(lines), fontsize=7, color=_MUTED, style="italic")
+
+
+def _style(axis):
+    axis.grid(True, color="#c9ced6", linewidth=0.5, alpha=0.7)
+    axis.set_axisbelow(True)
+    for side in ("top", "right"):
+        axis.spines[side].set_visible(False)
+    axis.tick_params(colors=_TEXT, labelsize=8)
+
+
+def _figure(width, height):
+    from matplotlib.figure import Figure
+
+    return Figure(figsize=(width, height), layout="constrained")
+
+
+def _level_sets(result):
+    return [c for c in result.criteria if c.assessment == "levels" and c.mode("dutch_roll")]
+
+
+def _dutch_roll_grid(criteria, airplane_class, category, omega, zeta):
+    """Level on a grid for one class/category; 0 where the unknown class/category matters."""
+    from latdyn.criteria import CATEGORIES, CLASSES
+    from latdyn.levels import dutch_roll_grades, select_bands
+
+    classes = [airplane_class] if airplane_class else list(CLASSES)
+    categories = [category] if category else list(CATEGORIES)
+    grids = []
+    for cls in classes:
+        for cat in categories:
+            selection = select_bands(criteria, "dutch_roll", cls, cat)
+            if selection.undefined:
+                continue
+            grades = dutch_roll_grades(zeta, omega, np.zeros_like(zeta), selection.limits)
+            grids.append(grades.level)
+    if not grids:
+        return np.zeros(zeta.shape, int)
+    stack = np.stack(grids)
+    same = np.all(stack == stack[0], axis=0)
+    return np.where(same, stack[0], 0)
+
+
+def _label_regions(axis, level, extent):
+    """Write each region's level in words at its most interior point."""
+    from scipy.ndimage import distance_transform_edt
+
+    x0, x1, y0, y1 = extent
+    rows, cols = level.shape
+    for value in (1, 2, 3, 4):
+        mask = level == value
+        if not mask.any():
+            continue
+        padded = np.pad(mask, 1, constant_values=False)
+        distance = distance_transform_edt(padded)[1:-1, 1:-1]
+        i, j = np.unravel_index(np.argmax(distance), mask.shape)
+        if distance[i, j] < 3:
+            continue
+        x = x0 + (j + 0.5) / cols * (x1 - x0)
+        y = y0 + (i + 0.5) / rows * (y1 - y0)
+        axis.text(x, y, _level_words(value), ha="center", va="center", fontsize=9, weight="bold",
+                  color=LEVEL_INK[value], alpha=0.85)
+
+
+def dutch_roll_chart(result, criteria=None, path=None, resolution=360):
+    """Dutch roll damping ratio against natural frequency, with the level regions.
+
+    One panel per flight-phase category among the conditions; each shows
+    the regions of ``criteria`` for the aircraft's class and that category
+    (computed without the omega^2 |phi/beta| rule; points where the rule
+    raises the boundary are flagged) and the Dutch roll of each condition
+    of that category.  For a pass/fail set the damping limits are drawn as
+    lines.
+
+    Parameters
+    ----------
+    result : latdyn.assessment.AircraftAssessment
+    criteria : CriteriaSet, optional
+        Default: the first levels set of the assessment, else its first set.
+    path : str or os.PathLike, optional
+        Write the figure there (format from the suffix) and return the path.
+    resolution : int
+        Grid points per axis of the regions [-].
+
+    Returns
+    -------
+    matplotlib.figure.Figure or the path written
+    """
+    from matplotlib.colors import ListedColormap
+
+    sets = _level_sets(result)
+    if criteria is None:
+        criteria = sets[0] if sets else next(c for c in result.criteria if c.mode("dutch_roll"))
+    points = []
+    for condition in result.conditions:
+        mode = condition.modes.get("dutch_roll") if condition.modes is not None else None
+        if mode is None or mode.natural_frequency is None or mode.damping_ratio is None:
+            continue
+        entry = next((a for a in condition.assessments
+                      if a.criteria == criteria.name and a.mode == "dutch_roll"), None)
+        points.append((condition, mode, entry))
+    pass_fail = criteria.assessment != "levels"
+    categories = ["all"] if pass_fail else (list(dict.fromkeys(c.category for c, _, _ in points)) or [None])
+    omega_top = max([3.0] + [1.15 * m.natural_frequency for _, m, _ in points])
+    zeta_top = max([0.6] + [1.15 * m.damping_ratio for _, m, _ in points])
+    zeta_bottom = min([-0.1] + [m.damping_ratio - 0.05 for _, m, _ in points])
+    figure = _figure(max(4.6 * len(categories) + 0.6, 7.0), 5.4)
+    axes = figure.subplots(1, len(categories), squeeze=False)[0]
+    omega_axis = np.linspace(0.0, omega_top, resolution)
+    zeta_axis = np.linspace(zeta_bottom, zeta_top, resolution)
+    omega_grid, zeta_grid = np.meshgrid(omega_axis, zeta_axis)
+    extent = (0.0, omega_top, zeta_bottom, zeta_top)
+    flagged = []
+    for axis, category in zip(axes, categories):
+        _style(axis)
+        if criteria.assessment == "levels":
+            level = _dutch_roll_grid(criteria, result.airplane_class, category, omega_grid, zeta_grid)
+            colours = ListedColormap([_UNDECIDED] + [LEVEL_COLOURS[k] for k in (1, 2, 3, 4)])
+            axis.imshow(level, origin="lower", extent=extent, aspect="auto", cmap=colours,
+                        vmin=-0.5, vmax=4.5, interpolation="nearest")
+            axis.contour(omega_grid, zeta_grid, level, levels=[0.5, 1.5, 2.5, 3.5], colors="#5b6470",
+                         linewidths=0.7)
+            _label_regions(axis, level, extent)
+            if (level == 0).any():
+                missing = "class" if not result.airplane_class else "category"
+                axis.text(0.98, 0.02, f"grey: depends on the {missing} (not given)", ha="right",
+                          va="bottom", fontsize=7, color=_MUTED, transform=axis.transAxes)
+        else:
+            entry = criteria.mode("dutch_roll")
+            for band, colour in zip(entry.bands, _CASE_COLOURS):
+                limit = band.limit("min_damping_ratio")
+                if limit is not None:
+                    axis.axhline(limit, color=colour, linewidth=1.2, linestyle=(0, (5, 2)))
+                    axis.text(omega_top * 0.98, limit, f"{band.row}: zeta_d = {limit:.4g}", ha="right",
+                              va="bottom", fontsize=7, color=colour)
+            axis.axhspan(zeta_bottom, 0.0, color=LEVEL_COLOURS[4], alpha=0.5, linewidth=0)
+            axis.text(0.02, 0.5 * zeta_bottom, "fail: not positively damped", fontsize=8, weight="bold",
+                      color=LEVEL_INK[4], va="center")
+            axis.text(0.02, 0.97 * zeta_top, "pass: above the line that holds for the condition", fontsize=8,
+                      weight="bold", color=LEVEL_INK[1], va="top")
+        axis.axhline(0.0, color="#3d4550", linewidth=0.8)
+        for condition, mode, entry in points:
+            if not pass_fail and condition.category != category:
+                continue
+            axis.plot(mode.natural_frequency, mode.damping_ratio, marker="o", markersize=7,
+                      markerfacecolor="white", markeredgecolor=_POINT, markeredgewidth=1.6, zorder=5)
+            words = entry.result if entry is not None else ""
+            axis.annotate(f"{condition.name}\n{words}", (mode.natural_frequency, mode.damping_ratio),
+                          xytext=(7, 5), textcoords="offset points", fontsize=7.5, color=_TEXT, zorder=6)
+            rule = criteria.mode("dutch_roll").phi_to_beta_rule
+            if rule and mode.phi_to_beta is not None and \
+                    mode.natural_frequency ** 2 * mode.phi_to_beta > rule.threshold:
+                flagged.append(condition.name)
+        axis.set_xlim(0.0, omega_top)
+        axis.set_ylim(zeta_bottom, zeta_top)
+        axis.set_xlabel("undamped natural frequency omega_nd [rad/s]", fontsize=8.5, color=_TEXT)
+        axis.set_ylabel("damping ratio zeta_d [-]", fontsize=8.5, color=_TEXT)
+        if pass_fail:
+            axis.set_title("every condition", fontsize=9.5, color=_TEXT)
+        else:
+            heading = f"Category {category}" if category else "category not given"
+            cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given"
+            axis.set_title(f"{cls}, {heading}", fontsize=9.5, color=_TEXT)
+    title = f"Dutch roll: {result.aircraft}\n{criteria.name}: {criteria.edition}"
+    figure.suptitle(title, fontsize=10.5, color=_TEXT)
+    extra = "Regions drawn for omega_nd^2 |phi/beta|_d below the rule's threshold."
+    if flagged:
+        extra += (" At " + ", ".join(flagged) + " it is above: the damping boundaries of that point lie "
+                  "higher than drawn (see the table).")
+    _notice(figure, extra if criteria.mode("dutch_roll").phi_to_beta_rule else None)
+    return _finish(figure, path)
+
+
+def _strip(axis, rows, limits_key, value_key, title, xlabel, log_floor, log_ceiling):
+    """Banded strips: per condition its level bands along x and its value as a marker."""
+    axis.set_xscale("log")
+    for y, row in enumerate(rows):
+        edges = row[limits_key]
+        if edges is not None:
+            lo = log_floor
+            if row["sense"] < 0:           # maximum: Level 1 from 0 to L1, ...
+                bounds = [log_floor] + list(edges) + [log_ceiling]
+                levels = (1, 2, 3, 4)
+            else:                          # minimum: beyond from 0 to L3, ..., Level 1 above L1
+                bounds = [log_floor] + list(edges[::-1]) + [log_ceiling]
+                levels = (4, 3, 2, 1)
+            for (lo, hi), level in zip(zip(bounds[:-1], bounds[1:]), levels):
+                axis.barh(y, hi - lo, left=lo, height=0.62, color=LEVEL_COLOURS[level], edgecolor="white",
+                          linewidth=0.8)
+        value = row[value_key]
+        if value is None:
+            axis.text(log_ceiling * 0.9, y, row["text"], ha="right", va="center", fontsize=7.5,
+                      color=_TEXT, weight="bold")
+        else:
+            shown = min(max(value, log_floor * 1.05), log_ceiling * 0.95)
+            axis.plot(shown, y, marker="D", markersize=6.5, markerfacecolor=_POINT, markeredgecolor="white",
+                      zorder=5)
+            axis.annotate(f"{value:.3g} s  {row['result']}", (shown, y), xytext=(7, 7),
+                          textcoords="offset points", ha="left", fontsize=7, color=_TEXT)
+    axis.set_yticks(range(len(rows)), [r["label"] for r in rows], fontsize=8)
+    axis.set_ylim(-0.6, len(rows) - 0.4)
+    axis.invert_yaxis()
+    axis.set_xlim(log_floor, log_ceiling)
+    axis.set_xlabel(xlabel, fontsize=8.5, color=_TEXT)
+    axis.set_title(title, fontsize=9.5, color=_TEXT)
+    axis.grid(True, axis="x", which="both", color="#c9ced6", linewidth=0.4, alpha=0.6)
+    for side in ("top", "right"):
+        axis.spines[side].set_visible(False)
+
+
+def roll_spiral_chart(result, criteria=None, path=None):
+    """Roll time constant and spiral time to double of each condition against its limits.
+
+    Parameters
+    ----------
+    result : latdyn.assessment.AircraftAssessment
+    criteria : CriteriaSet, optional
+        A levels set with roll and spiral bands; default the first one.
+    path : str or os.PathLike, optional
+
+    Returns
+    -------
+    matplotlib.figure.Figure or the path written
+    """
+    from matplotlib.patches import Patch
+
+    from latdyn.levels import select_bands
+
+    if criteria is None:
+        criteria = next(c for c in result.criteria if c.assessment == "levels" and c.mode("spiral"))
+    roll_rows, spiral_rows = [], []
+    for condition in result.conditions:
+        modes = condition.modes
+        label = f"{condition.name} ({condition.category or '?'})"
+        entries = {a.mode: a for a in condition.assessments if a.criteria == criteria.name}
+        for mode_name, rows, key in (("roll_subsidence", roll_rows, "max_time_constant"),
+                                     ("spiral", spiral_rows, "min_time_to_double")):
+            mode = modes.get(mode_name) if modes is not None else None
+            edges = None
+            if condition.category and result.airplane_class and criteria.mode(mode_name):
+                selection = select_bands(criteria, mode_name, result.airplane_class, condition.category)
+                if not selection.undefined:
+                    edges = tuple(float(v) for v in getattr(selection.limits, key))
+            entry = entries.get(mode_name)
+            if mode is None:
+                value, text = None, "coupled roll-spiral"
+            elif mode_name == "roll_subsidence":
+                value = mode.time_constant
+                text = "divergent" if value is None else ""
+            else:
+                value = mode.time_to_double
+                text = "convergent" if value is None else ""
+            rows.append({"label": label, "limits": edges, "value": value, "text": text,
+                         "sense": -1 if mode_name == "roll_subsidence" else 1,
+                         "result": entry.result if entry else ""})
+    figure = _figure(10.0, 1.6 + 0.55 * max(len(roll_rows), 1) + 0.9)
+    left, right = figure.subplots(1, 2)
+    _strip(left, roll_rows, "limits", "value", "Roll mode: time constant T_R",
+           "T_R [s] (shorter is better)", 0.02, 30.0)
+    _strip(right, spiral_rows, "limits", "value", "Spiral: time to double T_2 (divergent spiral)",
+           "T_2 [s] (longer is better)", 1.0, 1000.0)
+    handles = [Patch(color=LEVEL_COLOURS[k], label=_level_words(k)) for k in (1, 2, 3, 4)]
+    figure.legend(handles=handles, loc="outside right upper", fontsize=8, frameon=False)
+    cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given (no bands drawn)"
+    figure.suptitle(f"Roll and spiral modes: {result.aircraft}, {cls}\n{criteria.name}: {criteria.edition}",
+                    fontsize=10.5, color=_TEXT)
+    _notice(figure)
+    return _finish(figure, path)
+
+
+def s_plane_map(result, path=None):
+    """Every root of every condition in the complex plane (symmetric-log real axis).
+
+    Parameters
+    ----------
+    result : latdyn.assessment.AircraftAssessment
+    path : str or os.PathLike, optional
+
+    Returns
+    -------
+    matplotlib.figure.Figure or the path written
+    """
+    from matplotlib.lines import Line2D
+
+    from latdyn.tables import MODE_LABELS
+
+    figure = _figure(8.4, 6.0)
+    axis = figure.subplots()
+    _style(axis)
+    top = 1.0
+    reals = [0.1]
+    for index, condition in enumerate(result.conditions):
+        colour = _CASE_COLOURS[index % len(_CASE_COLOURS)]
+        if condition.modes is None:
+            continue
+        for mode in condition.modes:
+            roots = [complex(r) for r in mode.eigenvalues]
+            if len(roots) == 2 and roots[0].imag != 0:
+                roots = [roots[0], roots[0].conjugate()]
+            for root in roots:
+                axis.plot(root.real, root.imag, marker=_MODE_MARKERS[mode.name], linestyle="none",
+                          markersize=7, markerfacecolor=colour, markeredgecolor="white", alpha=0.9)
+                top = max(top, abs(root.imag))
+                reals.append(abs(root.real))
+    span = max(reals) * 1.3
+    axis.set_xscale("symlog", linthresh=0.1)
+    axis.set_xlim(-span, max(0.5, 0.05 * span))
+    axis.set_ylim(-1.15 * top, 1.15 * top)
+    axis.axvspan(0.0, max(0.5, 0.05 * span), color=LEVEL_COLOURS[4], alpha=0.45, linewidth=0)
+    axis.text(0.99, 0.98, "unstable", transform=axis.transAxes, ha="right", va="top", fontsize=8,
+              color=LEVEL_INK[4])
+    axis.axvline(0.0, color="#3d4550", linewidth=0.8)
+    axis.axhline(0.0, color="#3d4550", linewidth=0.8)
+    axis.set_xlabel("real part [1/s] (symmetric log scale, linear within +-0.1)", fontsize=8.5, color=_TEXT)
+    axis.set_ylabel("imaginary part [rad/s]", fontsize=8.5, color=_TEXT)
+    handles = [Line2D([], [], marker=m, linestyle="none", color="#4f5d6b", label=MODE_LABELS[name])
+               for name, m in _MODE_MARKERS.items()]
+    handles += [Line2D([], [], marker="o", linestyle="none", color=_CASE_COLOURS[i % len(_CASE_COLOURS)],
+                       label=c.name) for i, c in enumerate(result.conditions)]
+    axis.legend(handles=handles, fontsize=7.5, frameon=False, loc="upper left")
+    figure.suptitle(f"Roots of every condition: {result.aircraft}", fontsize=10.5, color=_TEXT)
+    _notice(figure)
+    return _finish(figure, path)
+
+
+def _finish(figure, path):
+    if path is None:
+        return figure
+    return save_both(figure, path)[0]
+
+
+def save_both(figure, path, dpi=150):
+    """Write a figure atomically to ``path`` and, when it ends in .png or .svg, to the other format too.
+
+    Returns
+    -------
+    list of str
+        The paths written.
+    """
+    from latdyn.output_files import atomic_path
+
+    path = os.fspath(path)
+    base, suffix = os.path.splitext(path)
+    targets = [path]
+    if suffix.lower() in (".png", ".svg"):
+        targets.append(base + (".svg" if suffix.lower() == ".png" else ".png"))
+    for target in targets:
+        with atomic_path(target) as temporary:
+            figure.savefig(temporary, dpi=dpi, facecolor="white")
+    return targets
+
+
+def _slug(result):
+    if result.file:
+        stem = os.path.splitext(os.path.basename(result.file))[0]
+    else:
+        stem = result.aircraft
+    return re.sub(r"[^A-Za-z0-9._-]+", "-", stem).strip("-").lower() or "aircraft"
+
+
+def write_assessment_figures(result, folder) -> list:
+    """Write the Dutch roll chart (one per criteria set), the roll/spiral chart and the s-plane map.
+
+    Files: ``<aircraft>-dutch-roll-<set>``, ``<aircraft>-roll-spiral-<set>``
+    and ``<aircraft>-s-plane``, each as .png and .svg, in ``folder``.
+
+    Returns
+    -------
+    list of str
+        The paths written.
+    """
+    written = []
+    slug = _slug(result)
+    dutch_sets = [c for c in result.criteria if c.mode("dutch_roll")]
+    for criteria in dutch_sets:
+        figure = dutch_roll_chart(result, criteria)
+        written += save_both(figure, os.path.join(folder, f"{slug}-dutch-roll-{criteria.name}.png"))
+    for criteria in result.criteria:
+        if criteria.assessment == "levels" and criteria.mode("spiral") and criteria.mode("roll_subsidence"):
+            figure = roll_spiral_chart(result, criteria)
+            written += save_both(figure, os.path.join(folder, f"{slug}-roll-spiral-{criteria.name}.png"))
+    written += save_both(s_plane_map(result), os.path.join(folder, f"{slug}-s-plane.png"))
+    return written
