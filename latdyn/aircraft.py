@@ -16,7 +16,7 @@ import os
 from dataclasses import dataclass, replace
 
 from latdyn import atmosphere, units
-from latdyn.aircraft_file import (DIMENSIONAL_KEYS, NONDIMENSIONAL_KEYS, Leaf,
+from latdyn.aircraft_file import (DIMENSIONAL_KEYS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
                                   read_tree)
 from latdyn.errors import InputError, describe_value
 
@@ -24,6 +24,7 @@ __all__ = [
     "Geometry", "MassProperties", "FlightCondition", "NondimensionalDerivatives",
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
     "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES",
+    "Fin", "Uncertainty", "DISTRIBUTIONS",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
@@ -207,6 +208,60 @@ class Condition:
         return self.flight.name
 
 
+DISTRIBUTIONS = ("normal", "uniform")
+
+
+@dataclass(frozen=True)
+class Fin:
+    """Fin (vertical tail) geometry, for the fin's share of the derivatives.
+
+    Attributes
+    ----------
+    area : float
+        Fin area S_F [m^2].
+    arm : float
+        Distance along the body x axis from the centre of gravity aft to the
+        fin's aerodynamic centre, l_F [m].
+    height : float
+        Height of the fin's aerodynamic centre above the body x axis, z_F [m].
+    lift_slope : float
+        Fin lift-curve slope a_F [1/rad].
+    efficiency : float
+        Dynamic-pressure ratio at the fin, eta_F [-].
+    sidewash_factor : float
+        1 + d(sigma)/d(beta), the sidewash factor on the sideslip terms [-].
+    """
+
+    area: float
+    arm: float
+    height: float
+    lift_slope: float
+    efficiency: float = 1.0
+    sidewash_factor: float = 1.0
+
+
+@dataclass(frozen=True)
+class Uncertainty:
+    """Uncertainty of one derivative or mass property.
+
+    Attributes
+    ----------
+    key : str
+        A derivative (Cn_r, N_r, ...) or mass property (mass, Ixx, Izz, Ixz).
+    kind : str
+        "relative" (a fraction of the value) or "absolute" (SI units).
+    amount : float
+        Standard deviation (normal) or half-width (uniform) [fraction or SI].
+    distribution : str
+        "normal" or "uniform".
+    """
+
+    key: str
+    kind: str
+    amount: float
+    distribution: str = "normal"
+
+
 @dataclass(frozen=True)
 class Aircraft:
     """A validated aircraft, SI units and radians throughout.
@@ -234,6 +289,8 @@ class Aircraft:
     files: tuple = ()
     warnings: tuple = ()
     description: str | None = None
+    fin: Fin | None = None
+    uncertainties: tuple = ()
 
     @property
     def file(self) -> str:
@@ -350,6 +407,43 @@ def _mass(tree, context):
     axes = _word(table, "inertia_axes", "mass.inertia_axes", context, AXES,
                  required=False, default="body")
     return MassProperties(mass, Ixx, Izz, Ixz, axes)
+
+
+def _fin(tree, context):
+    table = _table(tree, "fin")
+    if table is None:
+        return None
+    positive = {"area": "area", "arm": "length", "lift_slope": "none"}
+    values = {key: _number(table, key, f"fin.{key}", context, dimension, positive=True)
+              for key, dimension in positive.items()}
+    values["height"] = _number(table, "height", "fin.height", context, "length")
+    for key in ("efficiency", "sidewash_factor"):
+        values[key] = _number(table, key, f"fin.{key}", context, required=False, default=1.0,
+                              positive=True)
+    return Fin(**values)
+
+
+def _uncertainties(tree, context):
+    table = _table(tree, "uncertainty")
+    if table is None:
+        return ()
+    out = []
+    for key, entry in table.items():
+        prefix = f"uncertainty.{key}."
+        kinds = [kind for kind in ("relative", "absolute") if kind in entry]
+        if len(kinds) != 1:
+            context.fail(prefix + "relative", "exactly one of relative and absolute",
+                         "both" if kinds else "neither")
+        kind = kinds[0]
+        dimension = UNCERTAIN_KEYS[key] if kind == "absolute" else "none"
+        amount = _number(entry, kind, prefix + kind, context, dimension)
+        if amount < 0:
+            context.fail(prefix + kind, "a number >= 0", describe_value(entry[kind].value),
+                         entry[kind])
+        distribution = _word(entry, "distribution", prefix + "distribution", context,
+                             DISTRIBUTIONS, required=False, default="normal")
+        out.append(Uncertainty(key, kind, amount, distribution))
+    return tuple(out)
 
 
 def _altitude_limits_text(leaf_units):
@@ -543,6 +637,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         name=name, airplane_class=airplane_class, geometry=geometry, mass=mass,
         conditions=tuple(conditions), files=tuple(files), warnings=tuple(warnings),
         description=description.value if isinstance(description, Leaf) else None,
+        fin=_fin(tree, context), uncertainties=_uncertainties(tree, context),
     )
 
 

@@ -22,7 +22,7 @@ from dataclasses import dataclass
 
 from latdyn.errors import InputError, describe_value
 
-__all__ = ["Leaf", "SCHEMA", "read_tree", "MAX_FILE_BYTES"]
+__all__ = ["Leaf", "SCHEMA", "UNCERTAIN_KEYS", "read_tree", "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
 MAX_FILE_BYTES = 5 * 1024 * 1024
@@ -59,7 +59,21 @@ SCHEMA = {
             "Y_da": "acceleration", "Y_dr": "acceleration",
         },
     },
+    # optional fin geometry (latdyn.studies.fin): SI or US lengths and area
+    "fin": {"area": "area", "arm": "length", "height": "length", "lift_slope": "none",
+            "efficiency": "none", "sidewash_factor": "none"},
 }
+
+#: Keys that may carry an uncertainty, with the dimension of an absolute amount.
+UNCERTAIN_KEYS = {
+    **{key: "none" for key in NONDIMENSIONAL_KEYS},
+    **{key: dimension for key, dimension in SCHEMA["condition"]["dimensional"].items()
+       if dimension is not None},
+    "mass": "mass", "Ixx": "inertia", "Izz": "inertia", "Ixz": "inertia",
+}
+# optional [uncertainty.KEY] tables (latdyn.studies.uncertainty)
+SCHEMA["uncertainty"] = {key: {"relative": "none", "absolute": dimension, "distribution": None}
+                         for key, dimension in UNCERTAIN_KEYS.items()}
 
 UNIT_WORDS = ("SI", "US")
 

@@ -40,8 +40,8 @@ from latdyn.units import STANDARD_GRAVITY
 __all__ = [
     "LateralModel", "lateral_model", "lateral_matrices", "output_matrices",
     "dimensional_from_coefficients", "prime", "rotate_primed", "rotate_coefficients",
-    "rotate_inertia", "primed_derivatives", "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES",
-    "STATE_NAMES", "INPUT_NAMES",
+    "rotate_inertia", "primed_derivatives", "primed_values", "equation_angles",
+    "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES", "STATE_NAMES", "INPUT_NAMES",
 ]
 
 #: Keys of a dimensional derivative set (SI, see :class:`DimensionalDerivatives`).
@@ -355,27 +355,71 @@ def output_matrices(derivatives, speed, n_states=4, gravity=STANDARD_GRAVITY):
     return C, D
 
 
+def primed_values(values, nondimensional, primed, axes, inertia_axes, alpha, wing_area=None,
+                  span=None, mass=None, Ixx=None, Izz=None, Ixz=None, density=None, speed=None):
+    """Primed dimensional derivatives from arrays of one condition's inputs.
+
+    The array layer under :func:`primed_derivatives`, used alike for one
+    case and for a batch: inertias rotated into the derivatives' axes
+    (:func:`rotate_inertia`), non-dimensional derivatives made dimensional
+    (:func:`dimensional_from_coefficients`) and primed (:func:`prime`).
+
+    Parameters
+    ----------
+    values : mapping of str to float or array
+        :data:`COEFFICIENT_NAMES` (non-dimensional) or :data:`DIMENSIONAL_NAMES`.
+    nondimensional : bool
+    primed : bool
+        Dimensional values that already include Ixz.
+    axes, inertia_axes : str
+        "body" or "stability": of the derivatives and of the inertias
+        (``inertia_axes`` None: no inertias given).
+    alpha : float or array
+        Trim angle of attack [rad].
+    wing_area, span, mass, Ixx, Izz, Ixz, density, speed : float or array
+        [m^2], [m], [kg], [kg m^2], [kg/m^3], [m/s] (as needed).
+
+    Returns
+    -------
+    dict
+        Primed dimensional derivatives, SI, in ``axes``.
+    """
+    inertia = None
+    if inertia_axes is not None:
+        inertia = (Ixx, Izz, Ixz)
+        if inertia_axes != axes:
+            angle = alpha if axes == "stability" else -alpha
+            inertia = rotate_inertia(Ixx, Izz, Ixz, angle)
+    if nondimensional:
+        raw = dimensional_from_coefficients(values, wing_area, span, mass, inertia[0], inertia[1],
+                                            density, speed)
+        return prime(raw, *inertia)
+    raw = {name: values[name] for name in DIMENSIONAL_NAMES}
+    return raw if primed else prime(raw, *inertia)
+
+
+def equation_angles(axes, alpha, gamma):
+    """alpha0 and theta0 of the equations: (alpha, alpha + gamma) in body axes, (0, gamma) in stability axes [rad]."""
+    if axes == "body":
+        return alpha, alpha + gamma
+    return 0.0, gamma
+
+
 def primed_derivatives(aircraft: Aircraft, condition: Condition) -> DimensionalDerivatives:
     """Primed dimensional derivatives of a condition, in the axes it was given in."""
     derivatives = condition.derivatives
     flight = condition.flight
     axes = derivatives.axes
-    inertia = None
-    if aircraft.mass is not None:
-        m = aircraft.mass
-        inertia = (m.Ixx, m.Izz, m.Ixz)
-        if m.axes != axes:
-            angle = flight.alpha if axes == "stability" else -flight.alpha
-            inertia = rotate_inertia(m.Ixx, m.Izz, m.Ixz, angle)
-    if isinstance(derivatives, NondimensionalDerivatives):
-        coefficients = {name: getattr(derivatives, name) for name in COEFFICIENT_NAMES}
-        g = aircraft.geometry
-        raw = dimensional_from_coefficients(coefficients, g.wing_area, g.span, aircraft.mass.mass,
-                                            inertia[0], inertia[1], flight.density, flight.speed)
-        values = prime(raw, *inertia)
-    else:
-        raw = {name: getattr(derivatives, name) for name in DIMENSIONAL_NAMES}
-        values = raw if derivatives.primed else prime(raw, *inertia)
+    m = aircraft.mass
+    g = aircraft.geometry
+    nondimensional = isinstance(derivatives, NondimensionalDerivatives)
+    names = COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES
+    values = primed_values(
+        {name: getattr(derivatives, name) for name in names}, nondimensional,
+        getattr(derivatives, "primed", False), axes, m.axes if m is not None else None,
+        flight.alpha, g.wing_area if g else None, g.span if g else None,
+        m.mass if m else None, m.Ixx if m else None, m.Izz if m else None,
+        m.Ixz if m else None, flight.density, flight.speed)
     return DimensionalDerivatives(axes=axes, primed=True,
                                   **{k: float(v) for k, v in values.items()})
 
@@ -452,10 +496,7 @@ def lateral_model(aircraft: Aircraft, condition: Condition | str,
         condition = aircraft.condition(condition)
     derivatives = primed_derivatives(aircraft, condition)
     flight = condition.flight
-    if derivatives.axes == "body":
-        alpha_equations, theta = flight.alpha, flight.alpha + flight.gamma
-    else:
-        alpha_equations, theta = 0.0, flight.gamma
+    alpha_equations, theta = equation_angles(derivatives.axes, flight.alpha, flight.gamma)
     values = {name: getattr(derivatives, name) for name in DIMENSIONAL_NAMES}
     A, B = lateral_matrices(values, flight.speed, alpha_equations, theta, gravity, include_heading)
     n = A.shape[-1]

@@ -37,6 +37,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from latdyn.eigen import eig_stack
+
 __all__ = [
     "MODE_NAMES", "PATTERNS", "Mode", "ModeShape", "ModeSet", "ModeArrays",
     "analyse_stack", "find_modes", "modes_from_matrix", "pair_figures", "root_figures",
@@ -139,7 +141,7 @@ def analyse_stack(A, imag_tolerance=1e-7) -> ModeArrays:
     if A.ndim != 3:
         raise ValueError("analyse_stack expects an (N, 4, 4) stack of state matrices")
     n = A.shape[0]
-    values, vectors = np.linalg.eig(A)
+    values, vectors = eig_stack(A)
     scale = np.maximum(np.abs(A).max(axis=(1, 2)), np.finfo(float).tiny)
     tolerance = imag_tolerance * scale[:, None]
     is_complex = np.abs(values.imag) > tolerance
