@@ -39,6 +39,7 @@ __all__ = [
     "make_input",
     "combine",
     "read_input_csv",
+    "sample_table",
     "input_from_table",
     "default_inputs",
 ]
@@ -562,13 +563,40 @@ def read_input_csv(path) -> InputTable:
     return InputTable(table[:, 0], np.radians(table[:, 1]), np.radians(table[:, 2]), file)
 
 
-def input_from_table(table, duration=None, step_size=None) -> InputHistory:
-    """Sample an :class:`InputTable` on a simulation grid (zero-order hold).
+def sample_table(table, time) -> InputHistory:
+    """Sample an :class:`InputTable` on a time grid (zero-order hold).
 
-    The grid is uniform with spacing at most ``step_size`` and contains every
-    row time of the table, so the held input is reproduced exactly.  Before
-    the first row the deflections are zero; after the last row they keep the
-    last row's values.
+    Before the first row the deflections are zero; from each row time to
+    the next the row's values hold, after the last row its values.  Put the
+    row times on the grid (:func:`time_grid` ``breakpoints``) to reproduce the
+    table exactly.
+
+    Parameters
+    ----------
+    table : InputTable
+        The input as read by :func:`read_input_csv`.
+    time : array_like
+        Grid times [s].
+
+    Examples
+    --------
+    >>> table = InputTable(np.array([0.5, 1.0]), np.array([0.1, 0.0]), np.array([0.0, 0.2]), "x.csv")
+    >>> history = sample_table(table, [0.0, 0.5, 1.0, 1.5])
+    >>> history.aileron.tolist(), history.rudder.tolist()
+    ([0.0, 0.1, 0.0, 0.0], [0.0, 0.0, 0.2, 0.2])
+    """
+    time = np.asarray(time, dtype=float)
+    tolerance = 1e-9 * max(1.0, float(np.abs(time).max(initial=0.0)))
+    index = np.searchsorted(table.time, time + tolerance, side="right") - 1
+    before = index < 0
+    index = np.clip(index, 0, None)
+    aileron = np.where(before, 0.0, table.aileron[index])
+    rudder = np.where(before, 0.0, table.rudder[index])
+    return InputHistory(time, aileron, rudder, f"input from {table.file}")
+
+
+def input_from_table(table, duration=None, step_size=None) -> InputHistory:
+    """An :class:`InputTable` on a uniform grid that contains every row time.
 
     Parameters
     ----------
@@ -591,13 +619,7 @@ def input_from_table(table, duration=None, step_size=None) -> InputHistory:
     if step_size is None:
         spacing = np.diff(table.time)
         step_size = float(spacing.min()) if spacing.size else duration / 100
-    time = time_grid(duration, step_size, breakpoints=table.time)
-    index = np.searchsorted(table.time, time + 1e-9 * max(1.0, duration), side="right") - 1
-    before = index < 0
-    index = np.clip(index, 0, None)
-    aileron = np.where(before, 0.0, table.aileron[index])
-    rudder = np.where(before, 0.0, table.rudder[index])
-    return InputHistory(time, aileron, rudder, f"input from {table.file}")
+    return sample_table(table, time_grid(duration, step_size, breakpoints=table.time))
 
 
 _STEP_CHOICES = (0.001, 0.0025, 0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5)
@@ -646,8 +668,9 @@ def default_inputs(modes, cycles=5, amplitude=math.radians(5.0)) -> InputDefault
     """Input settings sized for a flight condition from its modes.
 
     Sizes (our choice, in line with common flight-test practice): a doublet
-    half-period of half the Dutch roll period (rounded to 0.05 s) so that the
-    doublet puts most of its energy near the Dutch roll frequency; a 1 s trim
+    half-period of half the Dutch roll period (rounded to 0.1 s, so that the
+    3-2-1-1 unit time lands on the grid) so that the doublet puts most of its
+    energy near the Dutch roll frequency; a 1 s trim
     stretch before the input; a duration showing ``cycles`` Dutch roll cycles
     after the doublet (rounded up to 5 s); a step of at most 1/100 of the
     Dutch roll period and 1/10 of the roll-mode time constant.  The long view
@@ -671,7 +694,7 @@ def default_inputs(modes, cycles=5, amplitude=math.radians(5.0)) -> InputDefault
     dutch = modes.get("dutch_roll")
     period = dutch.period if dutch is not None and dutch.period else None
     used = period if period else 6.0
-    half_period = max(0.05, round(used / 2 / 0.05) * 0.05)
+    half_period = max(0.1, round(used / 2 / 0.1) * 0.1)
     start = 1.0
     duration = _nice_up(start + 2 * half_period + cycles * used, 5.0)
     limit = used / 100

@@ -1,0 +1,302 @@
+"""``latdyn respond FILE... [--condition NAME] [--input KIND|FILE.csv] ...``: time responses.
+
+Simulates each chosen condition (of one or more aircraft files) with the
+same input, prints the read-outs beside the eigenvalue figures, and writes
+the time history as CSV and the stacked time-history plot (several cases
+overlaid).  All the work is done by latdyn.inputs, latdyn.responses,
+latdyn.readouts, latdyn.transfer_functions and latdyn.plots.responses.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import re
+import sys
+
+__all__ = ["add_arguments", "run", "case_csv_paths"]
+
+_COMMAND_LINE = "command line"
+_MAX_SAMPLES = 2_000_000
+
+
+def add_arguments(parser):
+    parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) (TOML)")
+    parser.add_argument("--condition", metavar="NAME", action="append",
+                        help="flight condition (repeat to overlay several; 'all' for every one); "
+                             "default the first condition of each file")
+    parser.add_argument("--input", metavar="KIND|FILE.csv", action="append", dest="inputs",
+                        help="rudder-doublet (default), aileron-step, rudder-step, aileron-pulse, "
+                             "rudder-pulse, 3211 (rudder), aileron-doublet, aileron-3211, none, or a CSV "
+                             "file with columns time, aileron, rudder [s, deg, deg]; repeat for "
+                             "simultaneous inputs")
+    parser.add_argument("--amplitude-deg", type=float, metavar="A",
+                        help="control deflection [deg] (default 5)")
+    parser.add_argument("--half-period", type=float, metavar="T",
+                        help="doublet half-period and pulse width [s]; the 3-2-1-1 unit is half of it "
+                             "(default: half the Dutch roll period)")
+    parser.add_argument("--start", type=float, metavar="T0", help="start of the input [s] (default 1)")
+    parser.add_argument("--duration", type=float, metavar="T",
+                        help="length of the run [s] (default: several Dutch roll cycles)")
+    parser.add_argument("--dt", type=float, metavar="DT", help="time step [s] (default sized for the modes)")
+    parser.add_argument("--spiral", action="store_true",
+                        help="long view for the spiral mode (duration and step sized for it)")
+    for name, unit in (("beta0-deg", "deg"), ("phi0-deg", "deg"), ("p0-deg-s", "deg/s"),
+                       ("r0-deg-s", "deg/s")):
+        parser.add_argument(f"--{name}", type=float, default=0.0, metavar="X",
+                            help=f"initial {name.split('0')[0]} disturbance [{unit}]")
+    parser.add_argument("--csv", metavar="OUT", help="write the time history as CSV (one file per case)")
+    parser.add_argument("--plot", metavar="OUT", help="write the stacked time-history plot (.png, .pdf, .svg)")
+    parser.add_argument("--bode", metavar="OUT", help="write Bode plots of the transfer functions")
+    parser.add_argument("--transfer-functions", action="store_true",
+                        help="print the transfer functions in factored form")
+
+
+def _check_positive(value, option, allow_zero=False):
+    from latdyn.errors import InputError
+
+    if value is None:
+        return
+    if not math.isfinite(value) or value < 0 or (value == 0 and not allow_zero):
+        expected = "a number >= 0" if allow_zero else "a number > 0"
+        raise InputError(_COMMAND_LINE, option, expected, repr(value))
+
+
+def _cases(args):
+    """(aircraft, condition) pairs in the order asked for."""
+    from latdyn.aircraft import load_aircraft
+
+    cases = []
+    for path in args.files:
+        aircraft = load_aircraft(path)
+        names = args.condition or [aircraft.conditions[0].name]
+        if "all" in names:
+            chosen = list(aircraft.conditions)
+        else:
+            chosen = [aircraft.condition(name) for name in names]
+        cases.extend((aircraft, condition) for condition in chosen)
+    return cases
+
+
+def _labels(cases):
+    """Legend names: the condition when one file, else file and condition."""
+    files = {aircraft.file for aircraft, _ in cases}
+    if len(cases) == 1:
+        aircraft, condition = cases[0]
+        return [f"{aircraft.name} / {condition.name}"]
+    if len(files) == 1:
+        return [condition.name for _, condition in cases]
+    return [f"{os.path.splitext(os.path.basename(a.file))[0]} / {c.name}" for a, c in cases]
+
+
+def case_csv_paths(path, labels):
+    """CSV path of each case: ``path`` itself for one case, else ``stem-<label>.csv``.
+
+    Examples
+    --------
+    >>> case_csv_paths("out.csv", ["climb", "approach / flaps 25"])
+    ['out-climb.csv', 'out-approach-flaps-25.csv']
+    """
+    if len(labels) == 1:
+        return [path]
+    stem, suffix = os.path.splitext(path)
+    names = []
+    for label in labels:
+        slug = re.sub(r"[^A-Za-z0-9._]+", "-", label).strip("-") or "case"
+        candidate = f"{stem}-{slug}{suffix or '.csv'}"
+        while candidate in names:
+            candidate = f"{stem}-{slug}-{len(names) + 1}{suffix or '.csv'}"
+        names.append(candidate)
+    return names
+
+
+def _histories(args, reference_defaults):
+    """The input history on one grid, and the settings used."""
+    from latdyn.errors import InputError
+    from latdyn.inputs import (INPUT_KINDS, combine, make_input, read_input_csv, sample_table,
+                               switch_times, time_grid)
+
+    kinds = args.inputs or ["rudder-doublet"]
+    tables = []
+    for kind in kinds:
+        if kind.lower().endswith(".csv"):
+            tables.append(read_input_csv(kind))
+        elif kind not in INPUT_KINDS:
+            raise InputError(_COMMAND_LINE, "--input",
+                             f"one of {', '.join(INPUT_KINDS)} or a file ending in .csv", f'"{kind}"')
+    if args.amplitude_deg is not None and not math.isfinite(args.amplitude_deg):
+        raise InputError(_COMMAND_LINE, "--amplitude-deg", "a finite number", repr(args.amplitude_deg))
+    _check_positive(args.half_period, "--half-period")
+    _check_positive(args.start, "--start", allow_zero=True)
+    _check_positive(args.duration, "--duration")
+    _check_positive(args.dt, "--dt")
+    d = reference_defaults
+    amplitude = math.radians(args.amplitude_deg) if args.amplitude_deg is not None else d.amplitude
+    half_period = args.half_period or d.half_period
+    start = d.start if args.start is None else args.start
+    if args.spiral:
+        duration, step = d.spiral_duration, d.spiral_step
+    else:
+        duration, step = d.duration, d.step
+    if tables and args.duration is None:
+        duration = max(duration, max(float(t.time[-1]) for t in tables))
+    duration = args.duration or duration
+    step = args.dt or step
+    if step >= duration:
+        raise InputError(_COMMAND_LINE, "--dt", f"a step smaller than the duration ({duration:g} s)",
+                         f"{step:g} s")
+    if duration / step > _MAX_SAMPLES:
+        raise InputError(_COMMAND_LINE, "--dt", f"at most {_MAX_SAMPLES} samples over {duration:g} s",
+                         f"{duration / step:.0f} samples with a step of {step:g} s")
+    breakpoints = []
+    for kind in kinds:
+        if kind in INPUT_KINDS:
+            breakpoints.extend(switch_times(kind, half_period, start))
+    for table in tables:
+        breakpoints.extend(table.time.tolist())
+    time = time_grid(duration, step, breakpoints)
+    histories = [make_input(kind, time, amplitude, half_period, start) for kind in kinds if kind in INPUT_KINDS]
+    histories += [sample_table(table, time) for table in tables]
+    return combine(*histories), dict(amplitude=amplitude, half_period=half_period, start=start,
+                                     duration=duration, step=step)
+
+
+def _format(value, digits=4):
+    from latdyn.tables import format_number
+
+    return format_number(value, digits)
+
+
+_UNITS = {"beta": ("deg", 180 / math.pi), "p": ("deg/s", 180 / math.pi), "r": ("deg/s", 180 / math.pi),
+          "phi": ("deg", 180 / math.pi), "psi": ("deg", 180 / math.pi), "ny": ("g", 1.0)}
+
+
+def _dutch_lines(readout, modes):
+    dutch = modes.get("dutch_roll")
+    trace = readout.dutch_roll
+    lines = []
+    if trace is not None:
+        growing = " (growing oscillation)" if trace.damping_ratio < 0 else ""
+        lines.append(f"  Dutch roll from the trace:       zeta {_format(trace.damping_ratio)}, "
+                     f"period {_format(trace.period)} s{growing}  "
+                     f"(log decrement on {trace.count} extrema of {trace.signal} after the input)")
+    else:
+        lines.append("  Dutch roll from the trace:       too few clear extrema after the input to read")
+    if dutch is not None and dutch.oscillatory:
+        line = (f"  Dutch roll from the eigenvalues: zeta {_format(dutch.damping_ratio)}, "
+                f"period {_format(dutch.period)} s")
+        if dutch.divergent:
+            line += f"  DIVERGENT: time to double {_format(dutch.time_to_double)} s"
+        lines.append(line)
+    elif dutch is not None:
+        lines.append("  Dutch roll from the eigenvalues: not oscillatory (two real roots)")
+    return lines
+
+
+def _transfer_lines(model, modes):
+    from latdyn.tables import MODE_LABELS
+    from latdyn.transfer_functions import bank_numerator_ratios, transfer_functions
+
+    transfers = transfer_functions(model, modes=modes)
+    lines = ["  Transfer functions (SI: rad and rad/s per rad; K = high-frequency gain; G(0) = static gain)"]
+    denominator = "".join(f.text() for f in transfers[0].denominator)
+    names = ", ".join(f"{f.text()} {MODE_LABELS.get(f.mode, f.mode or '')}".strip()
+                      for f in transfers[0].denominator)
+    lines.append(f"    denominator (the modes): {denominator}")
+    lines.append(f"      = {names}")
+    for transfer in transfers:
+        numerator = "".join(f.text() for f in transfer.numerator) or "1"
+        static = _format(transfer.static_gain) if transfer.static_gain is not None else "-"
+        lines.append(f"    {transfer.name:8s} = {transfer.gain:.4g} {numerator} / denominator"
+                     f"    G(0) = {static}")
+    dutch = modes.get("dutch_roll")
+    phi_da = next(t for t in transfers if t.name == "phi/da")
+    if dutch is not None and dutch.oscillatory:
+        ratios = bank_numerator_ratios(phi_da, dutch.eigenvalue)
+        if ratios is not None:
+            lines.append(f"    phi/da numerator: omega_phi/omega_d = {_format(ratios[0])}, "
+                         f"zeta_phi/zeta_d = {_format(ratios[1])}")
+    return lines, transfers
+
+
+def _summary(label, aircraft, response, readout, modes, settings):
+    lines = [f"{label}  ({aircraft.file})"]
+    lines.append(f"  input: {response.description or 'none'}; 0 to {settings['duration']:g} s, "
+                 f"step {settings['step']:g} s ({response.time.size} samples)")
+    peaks = []
+    for peak in readout.peaks:
+        unit, factor = _UNITS.get(peak.signal, ("", 1.0))
+        peaks.append(f"{peak.signal} {_format(peak.value * factor)} {unit} at {peak.time:.2f} s")
+    lines.append("  peaks: " + " | ".join(peaks))
+    lines += _dutch_lines(readout, modes)
+    lines.append(f"  bank angle at the end ({readout.residual_time:g} s): "
+                 f"{_format(math.degrees(readout.residual_bank_angle))} deg")
+    for warning in readout.warnings:
+        lines.append(f"  warning: {warning}")
+    return lines
+
+
+def _check_outputs(args):
+    """Refuse before any work an output whose folder is missing or not writable."""
+    from latdyn.errors import InputError
+
+    for path in (args.csv, args.plot, args.bode):
+        if path:
+            folder = os.path.dirname(os.path.abspath(path))
+            if not os.path.isdir(folder) or not os.access(folder, os.W_OK):
+                raise InputError(path, None, "an output file in an existing, writable folder",
+                                 f"no writable folder {folder}")
+
+
+def run(args):
+    from latdyn.inputs import InitialDisturbance, default_inputs
+    from latdyn.model import lateral_model
+    from latdyn.modes import find_modes
+    from latdyn.readouts import read_response
+    from latdyn.responses import simulate, write_csv
+
+    _check_outputs(args)
+    cases = _cases(args)
+    labels = _labels(cases)
+    models = [lateral_model(aircraft, condition) for aircraft, condition in cases]
+    modes = [find_modes(model) for model in models]
+    history, settings = _histories(args, default_inputs(modes[0]))
+    initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
+                                 r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
+    responses = [simulate(model, history, initial, label=label) for model, label in zip(models, labels)]
+    readouts = [read_response(response) for response in responses]
+
+    lines = []
+    all_transfers = []
+    for (aircraft, _), label, response, readout, mode_set, model in zip(
+            cases, labels, responses, readouts, modes, models):
+        if lines:
+            lines.append("")
+        lines += _summary(label, aircraft, response, readout, mode_set, settings)
+        if args.transfer_functions or args.bode:
+            transfer_lines, transfers = _transfer_lines(model, mode_set)
+            all_transfers.append(transfers)
+            if args.transfer_functions:
+                lines += transfer_lines
+        for warning in aircraft.warnings:
+            lines.append(f"  warning: {warning}")
+    written = []
+    if args.csv:
+        for path, response in zip(case_csv_paths(args.csv, labels), responses):
+            write_csv(path, response)
+            written.append(path)
+    if args.plot:
+        from latdyn.plots.responses import time_history_figure
+
+        time_history_figure(responses, readouts, modes, labels=labels, path=args.plot)
+        written.append(args.plot)
+    if args.bode:
+        from latdyn.plots.responses import bode_figure
+
+        bode_figure(all_transfers[0], modes[0], path=args.bode,
+                    title=labels[0] if len(labels) == 1 else f"{labels[0]} (first case)")
+        written.append(args.bode)
+    for path in written:
+        lines.append(f"wrote {path}")
+    sys.stdout.write("\n".join(lines) + "\n")
+    return 0

@@ -1,0 +1,359 @@
+"""Time-history and Bode figures of lateral responses.
+
+The time history is the stacked strip chart flight-test engineers read: the
+control inputs on top, then sideslip, roll rate, yaw rate and bank, on one
+time axis, in degrees and deg/s.  Each trace carries its read-outs (peak,
+the extrema used for the Dutch roll logarithmic decrement, the residual bank
+angle) and a table underneath sets the damping and period read from the
+trace beside the eigenvalue figures.  Several responses (conditions,
+aircraft files) can be overlaid.
+
+matplotlib is imported inside the functions, and figures are made without
+pyplot (no global state; the Agg canvas renders files).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+__all__ = ["PALETTE", "time_history_figure", "bode_figure", "save_figure"]
+
+#: Case colours, in order (deep blue, burnt orange, sea green, violet, ochre, slate).
+PALETTE = ("#22416b", "#c4572f", "#2a8c7a", "#8a5a9e", "#b8912a", "#5b6770")
+_INPUT_COLOURS = {"aileron": "#2a8c7a", "rudder": "#c4572f"}
+_INPUT_STYLES = {"aileron": (0, (5, 2)), "rudder": "-"}
+_GRID = "#d9dde2"
+_TEXT = "#1f2933"
+_MUTED = "#6b7780"
+_BAND = "#eef1f4"
+_LABEL_BOX = dict(boxstyle="round,pad=0.15", facecolor="white", edgecolor="none", alpha=0.85)
+
+_PANELS = {
+    "beta": ("\u03b2", "deg"),
+    "p": ("p", "deg/s"),
+    "r": ("r", "deg/s"),
+    "phi": ("\u03c6", "deg"),
+    "psi": ("\u03c8", "deg"),
+    "ny": ("n_y", "g"),
+}
+
+
+def _factor(name):
+    return 1.0 if name == "ny" else 180.0 / math.pi
+
+
+def _style_axis(axis):
+    axis.grid(True, color=_GRID, linewidth=0.6)
+    axis.set_axisbelow(True)
+    for side in ("top", "right"):
+        axis.spines[side].set_visible(False)
+    for side in ("left", "bottom"):
+        axis.spines[side].set_color(_MUTED)
+    axis.tick_params(colors=_TEXT, labelsize=8, length=3)
+    axis.axhline(0.0, color=_MUTED, linewidth=0.6, zorder=1)
+
+
+def _fmt(value, digits=3):
+    if value is None or not math.isfinite(value):
+        return "-"
+    if value == 0:
+        return "0"
+    magnitude = math.floor(math.log10(abs(value)))
+    return f"{value:.{max(digits - 1 - magnitude, 0)}f}"
+
+
+def _eigen_dutch(modes):
+    if modes is None:
+        return None
+    dutch = modes.get("dutch_roll")
+    if dutch is None or not dutch.oscillatory:
+        return None
+    return dutch
+
+
+def save_figure(figure, path, dpi=150):
+    """Write a figure atomically (temporary file in the same folder, then rename).
+
+    Parameters
+    ----------
+    figure : matplotlib.figure.Figure
+    path : str or os.PathLike
+        Output file; the format follows the suffix (``.png``, ``.pdf``, ``.svg``).
+    dpi : int
+        Resolution of raster formats [dots per inch].
+    """
+    from latdyn.output_files import atomic_path
+
+    with atomic_path(path) as temporary:
+        figure.savefig(temporary, dpi=dpi, facecolor="white")
+    return path
+
+
+def time_history_figure(responses, readouts=None, modes=None, labels=None, title=None,
+                        signals=("beta", "p", "r", "phi"), path=None):
+    """Stacked time history: inputs, then ``signals``, with the read-outs.
+
+    Parameters
+    ----------
+    responses : Response or sequence of Response
+        One response, or several to overlay (same input, other conditions or
+        aircraft).
+    readouts : sequence of ResponseReadouts, optional
+        Read-outs of each response; computed when not given.
+    modes : sequence of ModeSet or None, optional
+        Modes of each response's model, for the eigenvalue figures beside the
+        read-outs.
+    labels : sequence of str, optional
+        Legend names; default each response's label.
+    title : str, optional
+        Figure title; default the single response's label.
+    signals : sequence of str
+        Output panels under the input panel.
+    path : str or os.PathLike, optional
+        Write the figure there (atomically) and return the path.
+
+    Returns
+    -------
+    matplotlib.figure.Figure or the path written
+    """
+    from matplotlib.figure import Figure
+
+    from latdyn.readouts import read_response
+
+    if hasattr(responses, "time"):
+        responses = [responses]
+    responses = list(responses)
+    if readouts is None:
+        readouts = [read_response(r) for r in responses]
+    if modes is None:
+        modes = [None] * len(responses)
+    labels = list(labels) if labels is not None else [r.label or f"case {i + 1}" for i, r in enumerate(responses)]
+    single = len(responses) == 1
+
+    rows = 1 + len(signals)
+    table_height = 0.75 + 0.22 * len(responses)
+    figure = Figure(figsize=(8.6, 1.0 + 1.6 * rows + table_height), layout="constrained")
+    grid = figure.add_gridspec(rows + 1, 1, height_ratios=[0.8] + [1.0] * len(signals) + [table_height / 1.6])
+    axes = [figure.add_subplot(grid[0])]
+    for i in range(len(signals)):
+        axes.append(figure.add_subplot(grid[i + 1], sharex=axes[0]))
+    table_axis = figure.add_subplot(grid[rows])
+    table_axis.axis("off")
+
+    end = max(float(r.time[-1]) for r in responses)
+    for axis in axes:
+        _style_axis(axis)
+        axis.set_xlim(0.0, end)
+        # Shade the time the controls are moving (first response).
+    first = responses[0]
+    moving = np.nonzero(np.any(np.diff(first.inputs, axis=0) != 0, axis=1))[0]
+    if moving.size:
+        begin, finish = first.time[moving[0] + 1], first.input_end
+        for axis in axes:
+            axis.axvspan(begin, finish, color=_BAND, zorder=0, linewidth=0)
+
+    # Input panel: drawn once when every response has the same input.
+    top = axes[0]
+    shared = all(r.inputs.shape == first.inputs.shape and np.array_equal(r.inputs, first.inputs)
+                 and np.array_equal(r.time, first.time) for r in responses)
+    for index, response in enumerate(responses[:1] if shared else responses):
+        colour = PALETTE[index % len(PALETTE)]
+        for j, name in enumerate(response.input_names):
+            values = response.inputs[:, j] * 180.0 / math.pi
+            if not np.any(values):
+                continue
+            top.step(response.time, values, where="post", linewidth=1.4,
+                     color=_INPUT_COLOURS.get(name, colour) if shared else colour,
+                     linestyle=_INPUT_STYLES.get(name, "-"),
+                     label=name if shared else f"{name}, {labels[index]}")
+    top.set_ylabel("\u03b4 [deg]", color=_TEXT, fontsize=9)
+    handles, _ = top.get_legend_handles_labels()
+    if handles:
+        top.legend(loc="upper right", fontsize=7.5, frameon=False, ncol=2)
+    else:
+        top.text(0.99, 0.8, "no control input", transform=top.transAxes, ha="right",
+                 fontsize=8, color=_MUTED)
+
+    # Output panels.
+    for k, name in enumerate(signals):
+        axis = axes[k + 1]
+        symbol, unit = _PANELS.get(name, (name, ""))
+        axis.set_ylabel(f"{symbol} [{unit}]", color=_TEXT, fontsize=9)
+        for index, (response, readout) in enumerate(zip(responses, readouts)):
+            colour = PALETTE[index % len(PALETTE)]
+            try:
+                values = response.signal(name) * _factor(name)
+            except KeyError:
+                continue
+            axis.plot(response.time, values, color=colour, linewidth=1.5,
+                      label=None if single else labels[index], zorder=3)
+            peak = readout.peak(name) if name in response.output_names else None
+            if peak is not None and peak.value != 0:
+                shown = peak.value * _factor(name)
+                axis.plot([peak.time], [shown], marker="v" if shown > 0 else "^", color=colour,
+                          markersize=5, zorder=4)
+                if single:
+                    axis.annotate(f"peak {_fmt(shown)} {unit} at {peak.time:.2f} s",
+                                  (peak.time, shown), xytext=(7, -9 if shown > 0 else 3),
+                                  textcoords="offset points", fontsize=7.5, color=_TEXT,
+                                  bbox=_LABEL_BOX, zorder=6)
+            dutch = readout.dutch_roll
+            if dutch is not None and dutch.signal == name:
+                axis.plot(dutch.extremum_times, np.asarray(dutch.extremum_values) * _factor(name),
+                          linestyle="none", marker="o", markersize=3.5, markerfacecolor="white",
+                          markeredgecolor=colour, markeredgewidth=0.9, zorder=5,
+                          label="extrema read for \u03b6, P" if single else None)
+            if name == "phi":
+                residual = readout.residual_bank_angle * _factor(name)
+                axis.axhline(residual, color=colour, linewidth=0.7, linestyle=":", zorder=2)
+                if single:
+                    axis.annotate(f"residual {_fmt(residual)} deg at {readout.residual_time:g} s",
+                                  (readout.residual_time, residual), xytext=(-4, 5),
+                                  textcoords="offset points", ha="right", fontsize=7.5, color=_TEXT,
+                                  bbox=_LABEL_BOX, zorder=6)
+        if single and any(r.dutch_roll is not None and r.dutch_roll.signal == name for r in readouts):
+            axis.legend(loc="upper right", fontsize=7.5, frameon=False)
+        if not single and k == 0:
+            axis.legend(loc="upper right", fontsize=7.5, frameon=False)
+        if k < len(signals) - 1:
+            axis.tick_params(labelbottom=False)
+    top.tick_params(labelbottom=False)
+    axes[-1].set_xlabel("time [s]", color=_TEXT, fontsize=9)
+
+    # Title.
+    heading = title or (labels[0] if single else "Lateral-directional responses compared")
+    figure.suptitle(heading, fontsize=11.5, color=_TEXT, fontweight="bold", x=0.01, ha="left")
+    description = first.description or "free response"
+    top.set_title(f"{description}   |   linear small-disturbance model, exact for held inputs",
+                  fontsize=8, color=_MUTED, loc="left")
+    if any(r.warnings for r in readouts):
+        top.text(0.0, 1.16, "Beyond the small-disturbance range (|\u03b2| > 15 deg or |\u03c6| > 45 deg): "
+                 "the linear model no longer represents the aircraft.", transform=top.transAxes,
+                 fontsize=8, color="#a8322d", fontweight="bold")
+
+    # Read-out table: the trace figures beside the eigenvalue figures.
+    header = ["peak \u03b2\n[deg]", "peak p\n[deg/s]", "peak r\n[deg/s]", "peak \u03c6\n[deg]",
+              "peak n_y\n[g]", "Dutch roll \u03b6\ntrace | eigen", "Dutch roll P [s]\ntrace | eigen",
+              "\u03c6 at end\n[deg]"]
+    widths = [0.09, 0.09, 0.09, 0.09, 0.09, 0.16, 0.16, 0.09]
+    if not single:
+        header = ["case"] + header
+        widths = [0.18] + [w * 0.82 / sum(widths) for w in widths]
+    else:
+        widths = [w / sum(widths) for w in widths]
+    cells = []
+    for response, readout, mode_set, label in zip(responses, readouts, modes, labels):
+        row = [] if single else [label if len(label) <= 26 else label[:25] + "\u2026"]
+        for name in ("beta", "p", "r", "phi", "ny"):
+            try:
+                row.append(_fmt(readout.peak(name).value * _factor(name)))
+            except KeyError:
+                row.append("-")
+        eigen = _eigen_dutch(mode_set)
+        dutch = readout.dutch_roll
+        row.append(f"{_fmt(dutch.damping_ratio, 4) if dutch else '-'}  |  "
+                   f"{_fmt(eigen.damping_ratio, 4) if eigen else '-'}")
+        row.append(f"{_fmt(dutch.period, 4) if dutch else '-'}  |  "
+                   f"{_fmt(eigen.period, 4) if eigen else '-'}")
+        row.append(_fmt(readout.residual_bank_angle * 180.0 / math.pi))
+        cells.append(row)
+    table = table_axis.table(cellText=cells, colLabels=header, cellLoc="center", colLoc="center",
+                             colWidths=widths, bbox=[0.0, 0.28, 1.0, 0.72])
+    table.auto_set_font_size(False)
+    table.set_fontsize(7.5)
+    for (r, c), cell in table.get_celld().items():
+        cell.set_edgecolor(_GRID)
+        cell.set_linewidth(0.6)
+        if r == 0:
+            cell.set_facecolor("#e7ebef")
+            cell.set_text_props(color=_TEXT, fontweight="bold")
+        else:
+            cell.set_text_props(color=_TEXT if single else PALETTE[(r - 1) % len(PALETTE)])
+    read = [r.dutch_roll for r in readouts if r.dutch_roll is not None]
+    names = sorted({_PANELS.get(d.signal, (d.signal,))[0] for d in read})
+    how = ("logarithmic decrement on successive extrema of " + " / ".join(names)
+           + " after the input (circles)" if read else "too few extrema after the input for a read-out")
+    note = f"Dutch roll trace figures: {how}; eigen: from the model's eigenvalues. Shaded: controls moving."
+    table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=_MUTED,
+                    va="bottom")
+    if path is not None:
+        return save_figure(figure, path)
+    return figure
+
+
+def bode_figure(transfers, modes=None, path=None, omega=None, title=None):
+    """Bode magnitude and phase of transfer functions, with the mode frequencies marked.
+
+    Parameters
+    ----------
+    transfers : sequence of TransferFunction
+        Overlaid on one figure.
+    modes : ModeSet, optional
+        Marks the Dutch roll natural frequency and the roll and spiral
+        root magnitudes.
+    path : str or os.PathLike, optional
+        Write the figure there (atomically) and return the path.
+    omega : array_like, optional
+        Frequencies [rad/s]; default two decades around all roots.
+    title : str, optional
+        Name of the case, shown in the title.
+
+    Returns
+    -------
+    matplotlib.figure.Figure or the path written
+    """
+    from matplotlib.figure import Figure
+
+    from latdyn.transfer_functions import bode_data, frequency_grid
+
+    transfers = list(transfers)
+    if omega is None:
+        omega = frequency_grid([r for t in transfers for r in t.poles], points=600, decades=1.0)
+    controls = [name for name in ("rudder", "aileron") if any(t.input == name for t in transfers)]
+    controls += sorted({t.input for t in transfers} - set(controls))
+    figure = Figure(figsize=(11.0, 7.4), layout="constrained")
+    grid = figure.subplots(2, len(controls), sharex=True, squeeze=False, height_ratios=[1.2, 1.0])
+    marks = []
+    if modes is not None:
+        dutch = modes.get("dutch_roll")
+        if dutch is not None and dutch.natural_frequency:
+            marks.append((dutch.natural_frequency, "\u03c9 Dutch roll"))
+        for name, text in (("roll_subsidence", "1/T roll"), ("spiral", "1/T spiral"),
+                           ("roll_spiral", "\u03c9 roll-spiral")):
+            mode = modes.get(name)
+            if mode is not None and abs(mode.eigenvalue) > 0:
+                marks.append((abs(mode.eigenvalue), text))
+    for column, control in enumerate(controls):
+        magnitude_axis, phase_axis = grid[0, column], grid[1, column]
+        for axis in (magnitude_axis, phase_axis):
+            _style_axis(axis)
+            axis.set_xscale("log")
+            axis.set_xlim(omega[0], omega[-1])
+        chosen = [t for t in transfers if t.input == control]
+        for index, transfer in enumerate(chosen):
+            data = bode_data(transfer, omega)
+            colour = PALETTE[index % len(PALETTE)]
+            magnitude_axis.plot(data.omega, data.magnitude_db, color=colour, linewidth=1.5, label=data.name)
+            phase_axis.plot(data.omega, data.phase_deg, color=colour, linewidth=1.5)
+        for frequency, text in marks:
+            for axis in (magnitude_axis, phase_axis):
+                axis.axvline(frequency, color=_MUTED, linewidth=0.8, linestyle=(0, (2, 2)), zorder=1)
+            magnitude_axis.annotate(text, (frequency, 0.0), xycoords=("data", "axes fraction"),
+                                    xytext=(3, 4), textcoords="offset points", fontsize=7,
+                                    color=_MUTED, rotation=90, va="bottom")
+        magnitude_axis.set_title(f"{control} inputs", fontsize=9.5, color=_TEXT, loc="left")
+        magnitude_axis.legend(loc="upper right", fontsize=8, frameon=False)
+        phase_axis.set_xlabel("frequency \u03c9 [rad/s]", color=_TEXT, fontsize=9)
+        if column == 0:
+            magnitude_axis.set_ylabel("magnitude [dB]", color=_TEXT, fontsize=9)
+            phase_axis.set_ylabel("phase [deg]", color=_TEXT, fontsize=9)
+    figure.suptitle("Lateral-directional transfer functions" + (f": {title}" if title else ""),
+                    fontsize=11.5, color=_TEXT, fontweight="bold", x=0.01, ha="left")
+    figure.supxlabel("Magnitude of output per control deflection: rad per rad, (rad/s) per rad "
+                     "(the same in degrees). Dashed: mode frequencies (|root|).", fontsize=7.5,
+                     color=_MUTED, x=0.01, ha="left")
+    if path is not None:
+        return save_figure(figure, path)
+    return figure

@@ -1,0 +1,172 @@
+"""``latdyn respond``: outputs, comparisons, and one-line errors with exit status 2."""
+
+import math
+import pathlib
+import subprocess
+import sys
+
+import numpy as np
+import pytest
+
+from latdyn.cli import main
+from latdyn.responses import CSV_COLUMNS
+
+ROOT = pathlib.Path(__file__).resolve().parent.parent
+DEMO = str(ROOT / "aircraft" / "kestrel-k40.toml")
+DRONE = str(ROOT / "aircraft" / "skylark-sv2.toml")
+PNG_MAGIC = b"\x89PNG\r\n\x1a\n"
+
+
+def _table(path):
+    return np.loadtxt(path, delimiter=",", skiprows=1)
+
+
+def test_default_run_writes_csv_and_plot(tmp_path, capsys):
+    csv_path, plot_path = tmp_path / "doublet.csv", tmp_path / "doublet.png"
+    assert main(["respond", DEMO, "--csv", str(csv_path), "--plot", str(plot_path)]) == 0
+    out = capsys.readouterr().out
+    assert "rudder doublet 5 deg" in out
+    assert "Dutch roll from the trace:" in out and "Dutch roll from the eigenvalues:" in out
+    assert csv_path.read_text().splitlines()[0] == ",".join(CSV_COLUMNS)
+    assert plot_path.read_bytes()[:8] == PNG_MAGIC
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["doublet.csv", "doublet.png"]
+
+
+def test_csv_equals_the_library_response(tmp_path, capsys):
+    """The command adds no algorithm: its CSV is the library's simulate() in display units."""
+    from latdyn.aircraft import load_aircraft
+    from latdyn.inputs import default_inputs, make_input, switch_times, time_grid
+    from latdyn.model import lateral_model
+    from latdyn.modes import find_modes
+    from latdyn.responses import display_columns, simulate
+
+    out = tmp_path / "out.csv"
+    assert main(["respond", DEMO, "--condition", "cruise", "--input", "aileron-pulse",
+                 "--amplitude-deg", "3", "--csv", str(out)]) == 0
+    model = lateral_model(load_aircraft(DEMO), "cruise")
+    d = default_inputs(find_modes(model))
+    time = time_grid(d.duration, d.step, switch_times("aileron-pulse", d.half_period, d.start))
+    expected = display_columns(simulate(model, make_input("aileron-pulse", time, math.radians(3), d.half_period, d.start)))
+    table = _table(out)
+    for index, name in enumerate(CSV_COLUMNS):
+        np.testing.assert_allclose(table[:, index], expected[name], rtol=1e-9, atol=1e-12)
+
+
+OPTIONS = {
+    "step-with-sizes": (["--input", "rudder-step", "--duration", "12", "--dt", "0.02", "--start", "0.5"],
+                        601, "rudder step"),
+    "3211": (["--input", "3211", "--half-period", "1.2", "--duration", "15"], None, "rudder 3-2-1-1"),
+    "simultaneous": (["--input", "aileron-step", "--input", "rudder-pulse", "--duration", "8"], None,
+                     "aileron step 5 deg at 1 s + rudder pulse"),
+    "initial-disturbance": (["--input", "none", "--beta0-deg", "2", "--duration", "20"], None, "beta0 = 2 deg"),
+    "spiral-view": (["--spiral", "--input", "aileron-pulse"], None, "aileron pulse"),
+}
+
+
+@pytest.mark.parametrize("extra,rows,text", OPTIONS.values(), ids=list(OPTIONS))
+def test_options(extra, rows, text, tmp_path, capsys):
+    out = tmp_path / "r.csv"
+    assert main(["respond", DEMO, "--csv", str(out)] + extra) == 0
+    assert text in capsys.readouterr().out
+    table = _table(out)
+    if rows:
+        assert table.shape == (rows, len(CSV_COLUMNS))
+    if "--beta0-deg" in extra:
+        assert table[0, 3] == pytest.approx(2.0)
+        assert not np.any(table[:, 1:3])
+
+
+def test_spiral_view_is_longer_than_the_dutch_roll_view(tmp_path, capsys):
+    short, long = tmp_path / "short.csv", tmp_path / "long.csv"
+    main(["respond", DEMO, "--csv", str(short)])
+    main(["respond", DEMO, "--spiral", "--csv", str(long)])
+    assert _table(long)[-1, 0] >= 60.0 > _table(short)[-1, 0]
+
+
+def test_several_conditions_and_files_are_overlaid(tmp_path, capsys):
+    base = tmp_path / "cmp.csv"
+    plot = tmp_path / "cmp.png"
+    assert main(["respond", DEMO, DRONE, "--condition", "all", "--csv", str(base), "--plot", str(plot)]) == 0
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert "cmp.png" in names
+    assert "cmp-kestrel-k40-approach.csv" in names and "cmp-skylark-sv2-transit.csv" in names
+    assert len([n for n in names if n.endswith(".csv")]) == 6
+
+
+def test_input_file_round_trip(tmp_path, capsys):
+    """A response CSV read back as input reproduces the same response."""
+    first, second = tmp_path / "a.csv", tmp_path / "b.csv"
+    assert main(["respond", DEMO, "--duration", "10", "--csv", str(first)]) == 0
+    assert main(["respond", DEMO, "--input", str(first), "--duration", "10", "--csv", str(second)]) == 0
+    a, b = _table(first), _table(second)
+    np.testing.assert_allclose(b, a, rtol=1e-7, atol=1e-9)
+
+
+def test_transfer_functions_and_bode(tmp_path, capsys):
+    bode = tmp_path / "bode.png"
+    assert main(["respond", DEMO, "--transfer-functions", "--bode", str(bode)]) == 0
+    out = capsys.readouterr().out
+    for name in ("r/dr", "beta/dr", "phi/dr", "p/da", "phi/da", "beta/da"):
+        assert f"    {name} " in out
+    assert "omega_phi/omega_d" in out and "Dutch roll" in out
+    assert bode.read_bytes()[:8] == PNG_MAGIC
+
+
+def _fails(argv, capsys, tmp_path, message):
+    out = tmp_path / "never.csv"
+    status = main(argv + ["--csv", str(out)])
+    err = capsys.readouterr().err
+    assert status == 2
+    assert err.count("\n") == 1 and "Traceback" not in err
+    assert message in err, err
+    assert not out.exists()
+    return err
+
+
+ERRORS = {
+    "unknown-input": (["--input", "elevator-doublet"], 'command line: --input: expected one of rudder-doublet'),
+    "negative-dt": (["--dt", "-1"], "command line: --dt: expected a number > 0, found -1.0"),
+    "dt-longer-than-run": (["--dt", "50", "--duration", "10"], "--dt: expected a step smaller than the duration"),
+    "zero-half-period": (["--half-period", "0"], "--half-period: expected a number > 0"),
+    "unknown-condition": (["--condition", "cruise-climb"], 'kestrel-k40.toml: --condition: expected one of'),
+}
+
+
+@pytest.mark.parametrize("extra,message", ERRORS.values(), ids=list(ERRORS))
+def test_bad_options_are_one_line(extra, message, capsys, tmp_path):
+    _fails(["respond", DEMO] + extra, capsys, tmp_path, message)
+
+
+CSV_ERRORS = {
+    "bad-header": ("t,da,dr\n0,0,0\n", 'line 1 (header): expected the header "time, aileron, rudder"'),
+    "non-monotonic": ("time,aileron,rudder\n0,0,0\n2,0,1\n1,0,0\n", 'line 4, column "time": expected a time greater than 2 s'),
+    "non-numeric": ("time,aileron,rudder\n0,0,0\n1,0,five\n", 'line 3, column "rudder": expected a deflection [deg] as a finite number, found "five"'),
+}
+
+
+@pytest.mark.parametrize("text,message", CSV_ERRORS.values(), ids=list(CSV_ERRORS))
+def test_bad_input_file_is_one_line_naming_file_line_and_column(text, message, capsys, tmp_path):
+    path = tmp_path / "input.csv"
+    path.write_text(text)
+    err = _fails(["respond", DEMO, "--input", str(path)], capsys, tmp_path, message)
+    assert str(path) in err
+
+
+def test_output_into_a_missing_folder_is_one_line(tmp_path, capsys):
+    target = tmp_path / "no" / "such" / "plot.png"
+    assert main(["respond", DEMO, "--plot", str(target)]) == 2
+    err = capsys.readouterr().err
+    assert "plot.png: expected an output file in an existing, writable folder" in err
+    assert not (tmp_path / "no").exists()
+
+
+def test_large_response_is_flagged(capsys):
+    assert main(["respond", DRONE, "--input", "aileron-step", "--duration", "20"]) == 0
+    assert "beyond the 45 deg small-disturbance range" in capsys.readouterr().out
+
+
+def test_respond_does_not_import_matplotlib_until_plotting():
+    code = ("import sys; from latdyn.cli import main; main(['respond', %r, '--duration', '5']);"
+            "print('matplotlib' in sys.modules)") % DEMO
+    result = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert result.stdout.strip().endswith("False")
