@@ -240,12 +240,12 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     widths = [0.09, 0.09, 0.09, 0.09, 0.09, 0.16, 0.16, 0.09]
     if not single:
         header = ["case"] + header
-        widths = [0.18] + [w * 0.82 / sum(widths) for w in widths]
+        widths = [0.24] + [w * 0.76 / sum(widths) for w in widths]
     else:
         widths = [w / sum(widths) for w in widths]
     cells = []
     for response, readout, mode_set, label in zip(responses, readouts, modes, labels):
-        row = [] if single else [label if len(label) <= 26 else label[:25] + "\u2026"]
+        row = [] if single else [label if len(label) <= 34 else label[:33] + "\u2026"]
         for name in ("beta", "p", "r", "phi", "ny"):
             try:
                 row.append(_fmt(readout.peak(name).value * _factor(name)))
@@ -275,7 +275,8 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     names = sorted({_PANELS.get(d.signal, (d.signal,))[0] for d in read})
     how = ("logarithmic decrement on successive extrema of " + " / ".join(names)
            + " after the input (circles)" if read else "too few extrema after the input for a read-out")
-    note = f"Dutch roll trace figures: {how}; eigen: from the model's eigenvalues. Shaded: controls moving."
+    note = (f"Dutch roll trace figures: {how};\neigen: from the model's eigenvalues. "
+            "Shaded: controls moving.")
     table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=_MUTED,
                     va="bottom")
     if path is not None:
