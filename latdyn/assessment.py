@@ -132,7 +132,9 @@ class Assessment:
 
     @property
     def result(self) -> str:
-        """Level or pass/fail in words."""
+        """Level or pass/fail in words ("undecided" when something the criteria need is missing)."""
+        if self.level is None and self.passed is None and self.missing:
+            return "undecided"
         return level_words(self.level, self.passed)
 
     @property
@@ -431,8 +433,9 @@ def _assess_one(criteria, mode_name, mode, airplane_class, category, flight_phas
         spread = "pass or fail"
     else:
         spread = " to ".join(level_words(v) for v in (levels[0], levels[-1])) if levels else "not assessed"
+    words = " and ".join(item.split(" (")[0].replace("_", " ") for item in missing) or "what is missing"
     return Assessment(criteria.name, criteria.edition, mode_name, None, None, None, None, None, None, None,
-                      notes=(f"{spread} depending on what is missing",), missing=tuple(missing))
+                      notes=(f"{spread} depending on the {words} (not given)",), missing=tuple(missing))
 
 
 def _static_divergence(criteria, mode):

@@ -50,6 +50,7 @@ regulations and licensed engineering judgement govern.
 
 from __future__ import annotations
 
+import difflib
 import math
 import os
 import tomllib
@@ -438,7 +439,9 @@ class _Reader:
         for key in table:
             if key not in allowed:
                 full = f"{where}.{key}" if where else key
-                self.fail(full, "one of the keys " + ", ".join(allowed), "an unknown key")
+                close = difflib.get_close_matches(key, allowed, n=1)
+                self.fail(full, "one of the keys " + ", ".join(allowed),
+                          "an unknown key" + (f" (did you mean {close[0]}?)" if close else ""))
 
     def string(self, table, key, where, required=True):
         full = f"{where}.{key}" if where else key

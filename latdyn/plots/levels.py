@@ -48,9 +48,10 @@ def _notice(figure, extra=None):
     """The guidance-only notice under the figure (inside the layout, so nothing overlaps it)."""
     from latdyn.assessment import NOTICE
 
-    lines = textwrap.wrap(NOTICE, 150)
+    width = max(60, int(figure.get_figwidth() * 15))      # characters per line at 7 pt
+    lines = textwrap.wrap(NOTICE, width)
     if extra:
-        lines = textwrap.wrap(extra, 150) + lines
+        lines = textwrap.wrap(extra, width) + lines
     figure.supxlabel("\n".join(lines), fontsize=7, color=_MUTED, style="italic")
 
 

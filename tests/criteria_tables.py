@@ -1,0 +1,87 @@
+"""Handling-qualities criteria tables copied into the tests (outside references).
+
+Each table names its source and confidence.  [recalled]: from memory of the
+published table, agreed by two independent recollections but not read from
+the primary document -- verify against the original before relying on it.
+[published]: read from a stored copy of the source text.  None of these
+numbers is read from the package's data files: the tests compare the two.
+
+Classes: "II" stands for II-C and II-L.  Limits in SI: rad/s and seconds.
+None: the table gives no value ("-").
+"""
+
+CLASSES_ALL = ("I", "II-C", "II-L", "III", "IV")
+CATEGORIES_ALL = ("A", "B", "C")
+
+# MIL-F-8785C (5 November 1980), 3.3.1.1, Table VI, minimum Dutch roll frequency
+# and damping [recalled].  (level, categories, classes, sub-phases, min zeta_d,
+# min zeta_d*omega_nd [rad/s], min omega_nd [rad/s], row name)
+MIL_8785C_TABLE_VI = (
+    (1, ("A",), ("I", "IV"), None, 0.19, 0.35, 1.0, "L1 cat A class I IV"),
+    (1, ("A",), ("II-C", "II-L", "III"), None, 0.19, 0.35, 0.4, "L1 cat A class II III"),
+    (1, ("A",), ("IV",), ("combat", "ground_attack"), 0.4, None, 1.0, "L1 cat A combat ground-attack class IV"),
+    (1, ("B",), CLASSES_ALL, None, 0.08, 0.15, 0.4, "L1 cat B all classes"),
+    (1, ("C",), ("I", "II-C", "IV"), None, 0.08, 0.15, 1.0, "L1 cat C class I II-C IV"),
+    (1, ("C",), ("II-L", "III"), None, 0.08, 0.10, 0.4, "L1 cat C class II-L III"),
+    (2, CATEGORIES_ALL, CLASSES_ALL, None, 0.02, 0.05, 0.4, "L2 all"),
+    (3, CATEGORIES_ALL, CLASSES_ALL, None, 0.0, None, 0.4, "L3 all"),
+)
+
+# MIL-F-8785B (1969), Dutch roll table [recalled; a textbook reproduction of the
+# military table shows the same two cells that differ from 8785C: Category C,
+# Classes II-L and III, min zeta*omega 0.15; Level 3 min zeta 0.02].
+MIL_8785B_DUTCH_ROLL = (
+    (1, ("A",), ("I", "IV"), None, 0.19, 0.35, 1.0, "L1 cat A class I IV"),
+    (1, ("A",), ("II-C", "II-L", "III"), None, 0.19, 0.35, 0.4, "L1 cat A class II III"),
+    (1, ("A",), ("IV",), ("combat", "ground_attack"), 0.4, None, 1.0, "L1 cat A combat ground-attack class IV"),
+    (1, ("B",), CLASSES_ALL, None, 0.08, 0.15, 0.4, "L1 cat B all classes"),
+    (1, ("C",), ("I", "II-C", "IV"), None, 0.08, 0.15, 1.0, "L1 cat C class I II-C IV"),
+    (1, ("C",), ("II-L", "III"), None, 0.08, 0.15, 0.4, "L1 cat C class II-L III"),
+    (2, CATEGORIES_ALL, CLASSES_ALL, None, 0.02, 0.05, 0.4, "L2 all"),
+    (3, CATEGORIES_ALL, CLASSES_ALL, None, 0.02, None, 0.4, "L3 all"),
+)
+
+# Table VI notes [recalled]: (a) the larger zeta_d governs, but zeta_d = 0.7 is the
+# most required for Class III; (c) when omega_nd^2 |phi/beta|_d > 20 (rad/s)^2 the
+# least zeta_d*omega_nd rises by 0.014, 0.009, 0.005 (omega^2 |phi/beta| - 20).
+CLASS_III_DAMPING_CAP = 0.7
+PHI_TO_BETA_THRESHOLD = 20.0
+PHI_TO_BETA_COEFFICIENTS = (0.014, 0.009, 0.005)
+
+# MIL-F-8785C 3.3.1.2, Table VII, maximum roll-mode time constant [s] [recalled];
+# MIL-F-8785B's roll table is equal [recalled; textbook reproduction agrees].
+# (categories, classes, (Level 1, Level 2, Level 3), row name)
+MIL_8785C_TABLE_VII = (
+    (("A",), ("I", "IV"), (1.0, 1.4, 10.0), "cat A class I IV"),
+    (("A",), ("II-C", "II-L", "III"), (1.4, 3.0, 10.0), "cat A class II III"),
+    (("B",), CLASSES_ALL, (1.4, 3.0, 10.0), "cat B all classes"),
+    (("C",), ("I", "II-C", "IV"), (1.0, 1.4, 10.0), "cat C class I II-C IV"),
+    (("C",), ("II-L", "III"), (1.4, 3.0, 10.0), "cat C class II-L III"),
+)
+
+# MIL-F-8785C 3.3.1.3, Table VIII, minimum spiral time to double [s] [recalled].
+MIL_8785C_TABLE_VIII = (
+    (("A", "C"), CLASSES_ALL, (12.0, 8.0, 4.0), "cat A C all classes"),
+    (("B",), CLASSES_ALL, (20.0, 8.0, 4.0), "cat B all classes"),
+)
+
+# MIL-F-8785B spiral table, set by class [recalled; the textbook reproduction shows
+# exactly this table].
+MIL_8785B_SPIRAL = (
+    (("A",), ("I", "IV"), (12.0, 12.0, 4.0), "class I IV cat A"),
+    (("B", "C"), ("I", "IV"), (20.0, 12.0, 4.0), "class I IV cat B C"),
+    (CATEGORIES_ALL, ("II-C", "II-L", "III"), (20.0, 12.0, 4.0), "class II III all cats"),
+)
+
+# MIL-F-8785C 3.3.1.4, coupled roll-spiral oscillation [recalled]: least
+# zeta_RS*omega_RS [rad/s] per level; not permitted in Category A combat and
+# ground-attack phases.
+MIL_8785C_ROLL_SPIRAL = (0.5, 0.3, 0.15)
+
+# 14 CFR 23.181(b), edition of 1 January 2014 [published]: 1/10 amplitude in
+# 7 cycles below 18,000 ft, 13 cycles from 18,000 ft.  Before amendment 23-62
+# (2011): 7 cycles throughout [recalled].  14 CFR 25.181(b) [published]:
+# positively damped (zeta_d > 0), controls free.
+FT = 0.3048                       # exact definition of the international foot [m]
+CFR23_SPLIT_ALTITUDE = 18000 * FT  # [m]
+CFR23_CYCLES = {"below": 7, "above": 13}
