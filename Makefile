@@ -13,8 +13,13 @@ $(STAMP): pyproject.toml
 	$(BIN)/python -m pip install -q -e '.[test]'
 	touch $(STAMP)
 
+DEMO_BASE := aircraft/kestrel-k40.toml
+DEMO_VARIANTS := aircraft/kestrel-k40-tall-fin.toml aircraft/kestrel-k40-tip-tanks.toml
+
 demo: $(STAMP)
-	$(BIN)/latdyn modes aircraft/*.toml
+	$(BIN)/latdyn modes aircraft/skylark-sv2.toml
+	$(BIN)/latdyn assess $(DEMO_BASE) $(DEMO_VARIANTS)
+	$(BIN)/latdyn report $(DEMO_BASE) --compare $(DEMO_VARIANTS) -o reports/demo --force --progress
 
 test: $(STAMP)
 	$(BIN)/python -m pytest

@@ -47,6 +47,12 @@ __all__ = [
 #: Keys of a dimensional derivative set (SI, see :class:`DimensionalDerivatives`).
 DIMENSIONAL_NAMES = ("Y_v", "Y_p", "Y_r", "L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r",
                      "Y_da", "Y_dr", "L_da", "L_dr", "N_da", "N_dr")
+#: SI unit of each dimensional derivative.
+DIMENSIONAL_UNITS = {
+    "Y_v": "1/s", "Y_p": "m/s", "Y_r": "m/s", "L_beta": "1/s^2", "L_p": "1/s", "L_r": "1/s",
+    "N_beta": "1/s^2", "N_p": "1/s", "N_r": "1/s", "Y_da": "m/s^2", "Y_dr": "m/s^2",
+    "L_da": "1/s^2", "L_dr": "1/s^2", "N_da": "1/s^2", "N_dr": "1/s^2",
+}
 #: Keys of a non-dimensional derivative set.
 COEFFICIENT_NAMES = ("Cy_beta", "Cy_p", "Cy_r", "Cl_beta", "Cl_p", "Cl_r", "Cn_beta", "Cn_p",
                      "Cn_r", "Cy_da", "Cl_da", "Cn_da", "Cy_dr", "Cl_dr", "Cn_dr")

@@ -1,0 +1,71 @@
+"""``latdyn compare BASE VARIANT... [--criteria SET...] [--format table|markdown|csv|json]``."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+__all__ = ["add_arguments", "run", "render_comparisons"]
+
+
+def add_arguments(parser):
+    parser.add_argument("base", metavar="BASE", help="the base aircraft file")
+    parser.add_argument("variants", nargs="+", metavar="VARIANT", help="variant aircraft file(s)")
+    parser.add_argument("--criteria", nargs="+", metavar="SET",
+                        help="criteria sets (built-in names or files); default as for assess")
+    parser.add_argument("--format", choices=("table", "markdown", "csv", "json"), default="table")
+
+
+def render_comparisons(comparisons, style):
+    """Text of the comparisons in the table, markdown or csv style."""
+    from latdyn.assessment import NOTICE
+    from latdyn.compare import FIGURE_COLUMNS, INPUT_COLUMNS, LEVEL_COLUMNS, comparison_rows
+    from latdyn.tables import render
+
+    parts = []
+    for comparison in comparisons:
+        figures, levels, inputs = comparison_rows(comparison)
+        criteria = ", ".join(f"{c.name} ({c.edition})" for c in comparison.criteria)
+        head = [f"Comparison: {comparison.variant} ({comparison.variant_file})",
+                f"  against base: {comparison.base} ({comparison.base_file})",
+                NOTICE, f"Criteria: {criteria}"]
+        moves = [f"  {row['condition']}: {row['mode']} under {row['criteria']}: {row['base']} -> "
+                 f"{row['variant']} ({row['verdict']})"
+                 for row in levels if row["verdict"] in ("IMPROVED", "DEGRADED")]
+        head.append("Level changes:" if moves else "Level changes: none")
+        head += moves
+        if comparison.only_in_base or comparison.only_in_variant:
+            head.append("Conditions not compared: only in base " + (", ".join(comparison.only_in_base) or "-")
+                        + "; only in variant " + (", ".join(comparison.only_in_variant) or "-"))
+        if style == "markdown":
+            head = [head[0], "", head[1].strip(), "", f"> {NOTICE}", "", *head[3:]]
+        sections = [("Mode figures", FIGURE_COLUMNS, figures), ("Levels", LEVEL_COLUMNS, levels),
+                    ("Input differences", INPUT_COLUMNS, inputs)]
+        body = []
+        for title, columns, rows in sections:
+            if style == "csv":
+                body.append(f"# {title}\n" + render(columns, rows, "csv").rstrip("\n"))
+            else:
+                body.append((f"### {title}\n\n" if style == "markdown" else f"{title}:\n")
+                            + (render(columns, rows, style) if rows else "(none)"))
+        if style == "csv":
+            parts.append("\n".join("# " + line.strip() for line in head if line.strip()) + "\n"
+                         + "\n".join(body))
+        else:
+            parts.append("\n".join(head) + "\n\n" + "\n\n".join(body))
+    return "\n\n".join(parts) + "\n"
+
+
+def run(args):
+    from latdyn.aircraft import load_aircraft
+    from latdyn.compare import compare_many, comparison_document
+
+    base = load_aircraft(args.base)
+    variants = [load_aircraft(path) for path in args.variants]
+    comparisons = compare_many(base, variants, args.criteria)
+    if args.format == "json":
+        text = json.dumps(comparison_document(comparisons), indent=2, allow_nan=False) + "\n"
+    else:
+        text = render_comparisons(comparisons, args.format)
+    sys.stdout.write(text)
+    return 0

@@ -1,0 +1,32 @@
+"""``latdyn report FILE... [--compare VARIANT...] [-o reports/NAME] [--criteria SET...] [--force]``."""
+
+from __future__ import annotations
+
+import os
+import sys
+
+__all__ = ["add_arguments", "run"]
+
+
+def add_arguments(parser):
+    parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) analysed in full")
+    parser.add_argument("--compare", nargs="+", default=(), metavar="VARIANT",
+                        help="variant files compared with the first FILE")
+    parser.add_argument("-o", "--output", metavar="FOLDER",
+                        help="report folder (default reports/<first file's name>)")
+    parser.add_argument("--criteria", nargs="+", metavar="SET",
+                        help="criteria sets (built-in names or files); default as for assess")
+    parser.add_argument("--force", action="store_true", help="replace an existing report folder")
+    parser.add_argument("--progress", action="store_true", default=None,
+                        help="show the progress line even when stderr is not a terminal")
+
+
+def run(args):
+    from latdyn.report import write_report
+
+    output = args.output or os.path.join(
+        "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
+    folder = write_report(args.files, output, args.compare, args.criteria, args.force,
+                          progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]])
+    print(f"wrote {os.path.join(folder, 'index.html')}")
+    return 0

@@ -1,0 +1,376 @@
+"""Configuration comparison: what changed between a base aircraft and its variants.
+
+Per flight condition (matched by name): each mode's figures side by side
+with the change (absolute and per cent), the handling-quality level changes
+(improved / degraded), and the input differences that caused them — the
+derivatives as written in the files, the primed dimensional derivatives
+actually used, mass, inertia and flight condition.
+
+No new formulas here: figures come from :mod:`latdyn.modes`, levels from
+:mod:`latdyn.assessment`.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, fields
+
+from latdyn import __version__
+from latdyn.aircraft import Aircraft, NondimensionalDerivatives
+from latdyn.assessment import NOTICE, assess
+from latdyn.model import DIMENSIONAL_NAMES, DIMENSIONAL_UNITS, primed_derivatives
+from latdyn.results import analyse_aircraft
+
+__all__ = [
+    "FigureChange", "LevelChange", "InputChange", "ConditionComparison", "Comparison",
+    "compare", "compare_many", "comparison_document", "comparison_rows", "MODE_FIGURES",
+    "relative_change", "FIGURE_COLUMNS", "LEVEL_COLUMNS", "INPUT_COLUMNS",
+]
+
+#: (mode figure attribute, label, unit) compared for each mode.
+MODE_FIGURES = (
+    ("natural_frequency", "omega_n", "rad/s"),
+    ("damping_ratio", "zeta", "-"),
+    ("zeta_omega", "zeta*omega_n", "rad/s"),
+    ("period", "period", "s"),
+    ("time_constant", "time constant", "s"),
+    ("time_to_half", "time to half", "s"),
+    ("time_to_double", "time to double", "s"),
+    ("phi_to_beta", "|phi/beta|", "-"),
+    ("real_part", "Re(root)", "1/s"),
+)
+
+
+def relative_change(base, variant):
+    """(variant - base, per cent change of |base|), None where not defined.
+
+    Examples
+    --------
+    >>> relative_change(2.0, 2.5)
+    (0.5, 25.0)
+    >>> relative_change(None, 1.0)
+    (None, None)
+    >>> relative_change(0.0, 1.0)
+    (1.0, None)
+    """
+    if base is None or variant is None:
+        return None, None
+    change = variant - base
+    percent = 100.0 * change / abs(base) if base != 0 else None
+    return change, percent
+
+
+def _figure(mode, name):
+    if mode is None:
+        return None
+    if name == "zeta_omega":
+        if mode.natural_frequency is None or mode.damping_ratio is None:
+            return None
+        return mode.natural_frequency * mode.damping_ratio
+    if name == "real_part":
+        return float(mode.eigenvalue.real)
+    return getattr(mode, name)
+
+
+@dataclass(frozen=True)
+class FigureChange:
+    """One mode figure in the base and the variant; unpacks as (mode, figure, base, variant)."""
+
+    mode: str
+    figure: str
+    unit: str
+    base: float | None
+    variant: float | None
+    change: float | None
+    change_percent: float | None
+
+    def __iter__(self):
+        return iter((self.mode, self.figure, self.base, self.variant))
+
+    def as_dict(self):
+        return {f.name: getattr(self, f.name) for f in fields(self)}
+
+
+@dataclass(frozen=True)
+class LevelChange:
+    """A mode's level (or pass/fail) under one criteria set, base against variant."""
+
+    criteria: str
+    edition: str
+    mode: str
+    base_level: int | None
+    variant_level: int | None
+    base_pass: bool | None
+    variant_pass: bool | None
+    base_margin_fraction: float | None
+    variant_margin_fraction: float | None
+    verdict: str  # "improved", "degraded", "unchanged", "not assessed"
+
+    def as_dict(self):
+        return {f.name: getattr(self, f.name) for f in fields(self)}
+
+
+@dataclass(frozen=True)
+class InputChange:
+    """One input value that differs between base and variant (SI)."""
+
+    group: str   # "derivatives (as given)", "primed dimensional", "mass", "flight condition"
+    key: str
+    unit: str
+    base: float | str | None
+    variant: float | str | None
+    change: float | None
+    change_percent: float | None
+
+    def as_dict(self):
+        return {f.name: getattr(self, f.name) for f in fields(self)}
+
+
+@dataclass(frozen=True)
+class ConditionComparison:
+    """The comparison of one flight condition."""
+
+    name: str
+    base_pattern: str
+    variant_pattern: str
+    figures: tuple
+    levels: tuple
+    inputs: tuple
+
+    @property
+    def level_moves(self):
+        """Level changes that moved (improved or degraded)."""
+        return tuple(c for c in self.levels if c.verdict in ("improved", "degraded"))
+
+    def as_dict(self):
+        return {"name": self.name, "base_pattern": self.base_pattern,
+                "variant_pattern": self.variant_pattern,
+                "figures": [f.as_dict() for f in self.figures],
+                "levels": [c.as_dict() for c in self.levels],
+                "input_changes": [c.as_dict() for c in self.inputs]}
+
+
+@dataclass(frozen=True)
+class Comparison:
+    """Base against one variant; unpacks as (base, variant, conditions)."""
+
+    base: str
+    base_file: str
+    variant: str
+    variant_file: str
+    conditions: tuple
+    only_in_base: tuple
+    only_in_variant: tuple
+    criteria: tuple
+    notice: str = NOTICE
+
+    def __iter__(self):
+        return iter((self.base, self.variant, self.conditions))
+
+    def as_dict(self):
+        return {"base": {"aircraft": self.base, "file": self.base_file},
+                "variant": {"aircraft": self.variant, "file": self.variant_file},
+                "criteria": [{"name": c.name, "edition": c.edition} for c in self.criteria],
+                "conditions": [c.as_dict() for c in self.conditions],
+                "only_in_base": list(self.only_in_base),
+                "only_in_variant": list(self.only_in_variant)}
+
+
+def _severity(level, passed):
+    if level is not None:
+        return level
+    if passed is None:
+        return None
+    return 1 if passed else 2
+
+
+def _verdict(base, variant):
+    a = _severity(base.level, base.passed)
+    b = _severity(variant.level, variant.passed)
+    if a is None or b is None:
+        return "not assessed"
+    if b < a:
+        return "improved"
+    if b > a:
+        return "degraded"
+    return "unchanged"
+
+
+def _inputs_as_given(aircraft, condition):
+    derivatives = condition.derivatives
+    out = {}
+    names = [f.name for f in fields(derivatives) if f.name not in ("axes", "primed")]
+    label = "derivatives (as given)" if isinstance(derivatives, NondimensionalDerivatives) \
+        else "dimensional (as given)"
+    for name in names:
+        unit = "1/rad" if label.startswith("derivatives") else DIMENSIONAL_UNITS.get(name, "")
+        out[(label, name)] = (unit, getattr(derivatives, name))
+    out[(label, "axes")] = ("", derivatives.axes)
+    primed = primed_derivatives(aircraft, condition)
+    for name in DIMENSIONAL_NAMES:
+        out[("primed dimensional", name)] = (DIMENSIONAL_UNITS[name], getattr(primed, name))
+    if aircraft.mass is not None:
+        for name, unit in (("mass", "kg"), ("Ixx", "kg m^2"), ("Izz", "kg m^2"), ("Ixz", "kg m^2")):
+            out[("mass", name)] = (unit, getattr(aircraft.mass, name))
+    if aircraft.geometry is not None:
+        out[("geometry", "wing_area")] = ("m^2", aircraft.geometry.wing_area)
+        out[("geometry", "span")] = ("m", aircraft.geometry.span)
+    flight = condition.flight
+    for name, unit, value in (("speed", "m/s", flight.speed), ("altitude", "m", flight.altitude),
+                              ("density", "kg/m^3", flight.density),
+                              ("alpha", "deg", math.degrees(flight.alpha)),
+                              ("gamma", "deg", math.degrees(flight.gamma)),
+                              ("category", "", flight.category)):
+        out[("flight condition", name)] = (unit, value)
+    return out
+
+
+def _input_changes(base_aircraft, base_condition, variant_aircraft, variant_condition):
+    a = _inputs_as_given(base_aircraft, base_condition)
+    b = _inputs_as_given(variant_aircraft, variant_condition)
+    changes = []
+    for key in list(dict.fromkeys([*a, *b])):
+        unit, value_a = a.get(key, (b[key][0], None))
+        _, value_b = b.get(key, (unit, None))
+        if value_a == value_b:
+            continue
+        if isinstance(value_a, float) and isinstance(value_b, float) and \
+                math.isclose(value_a, value_b, rel_tol=1e-12, abs_tol=1e-15):
+            continue
+        numeric = isinstance(value_a, (int, float)) and isinstance(value_b, (int, float))
+        change, percent = relative_change(value_a, value_b) if numeric else (None, None)
+        changes.append(InputChange(key[0], key[1], unit, value_a, value_b, change, percent))
+    return tuple(changes)
+
+
+def compare(base: Aircraft, variant: Aircraft, criteria_sets=None) -> Comparison:
+    """Compare a variant with its base, condition by condition.
+
+    Parameters
+    ----------
+    base, variant : Aircraft
+    criteria_sets : iterable of str or CriteriaSet, optional
+        Default: those of :func:`latdyn.assessment.default_criteria` for the
+        base's airplane class.
+
+    Returns
+    -------
+    Comparison
+    """
+    from latdyn.assessment import default_criteria
+
+    sets = criteria_sets if criteria_sets is not None else default_criteria(base.airplane_class)
+    results_a = {r.condition.name: r for r in analyse_aircraft(base)}
+    results_b = {r.condition.name: r for r in analyse_aircraft(variant)}
+    levels_a = {c.name: c for c in assess(base, sets).conditions}
+    assessment_b = assess(variant, sets)
+    levels_b = {c.name: c for c in assessment_b.conditions}
+    conditions = []
+    for name, result_a in results_a.items():
+        result_b = results_b.get(name)
+        if result_b is None:
+            continue
+        figures = []
+        mode_names = list(dict.fromkeys([m.name for m in result_a.modes]
+                                        + [m.name for m in result_b.modes]))
+        for mode_name in mode_names:
+            mode_a, mode_b = result_a.modes.get(mode_name), result_b.modes.get(mode_name)
+            for figure, label, unit in MODE_FIGURES:
+                value_a, value_b = _figure(mode_a, figure), _figure(mode_b, figure)
+                if value_a is None and value_b is None:
+                    continue
+                change, percent = relative_change(value_a, value_b)
+                figures.append(FigureChange(mode_name, label, unit, value_a, value_b, change, percent))
+        level_changes = []
+        entries_b = {(x.criteria, x.mode): x for x in levels_b[name].assessments}
+        for entry_a in levels_a[name].assessments:
+            entry_b = entries_b.get((entry_a.criteria, entry_a.mode))
+            if entry_b is None:
+                continue
+            level_changes.append(LevelChange(
+                entry_a.criteria, entry_a.edition, entry_a.mode, entry_a.level, entry_b.level,
+                entry_a.passed, entry_b.passed, entry_a.margin_fraction, entry_b.margin_fraction,
+                _verdict(entry_a, entry_b)))
+        conditions.append(ConditionComparison(
+            name, result_a.modes.pattern, result_b.modes.pattern, tuple(figures),
+            tuple(level_changes),
+            _input_changes(base, result_a.condition, variant, result_b.condition)))
+    return Comparison(base.name, base.file, variant.name, variant.file, tuple(conditions),
+                      tuple(n for n in results_a if n not in results_b),
+                      tuple(n for n in results_b if n not in results_a),
+                      assessment_b.criteria)
+
+
+def compare_many(base: Aircraft, variants, criteria_sets=None) -> tuple:
+    """The base against each variant: a tuple of :class:`Comparison`."""
+    return tuple(compare(base, v, criteria_sets) for v in variants)
+
+
+def comparison_document(comparisons) -> dict:
+    """The JSON document of ``latdyn compare --format json``.
+
+    Layout: ``{"latdyn_version", "notice", "comparisons": [{"base": {"aircraft", "file"},
+    "variant": {...}, "criteria": [{"name", "edition"}], "conditions": [{"name",
+    "base_pattern", "variant_pattern", "figures": [{"mode", "figure", "unit", "base",
+    "variant", "change", "change_percent"}], "levels": [{"criteria", "edition", "mode",
+    "base_level", "variant_level", "base_pass", "variant_pass", "base_margin_fraction",
+    "variant_margin_fraction", "verdict"}], "input_changes": [{"group", "key", "unit",
+    "base", "variant", "change", "change_percent"}]}], "only_in_base", "only_in_variant"}]}``
+    """
+    return {"latdyn_version": __version__, "notice": NOTICE,
+            "comparisons": [c.as_dict() for c in comparisons]}
+
+
+FIGURE_COLUMNS = (("condition", "Condition"), ("mode", "Mode"), ("figure", "Figure"),
+                  ("unit", "Unit"), ("base", "Base"), ("variant", "Variant"),
+                  ("change", "Change"), ("change_percent", "Change [%]"))
+LEVEL_COLUMNS = (("condition", "Condition"), ("mode", "Mode"), ("criteria", "Criteria"),
+                 ("base", "Base"), ("variant", "Variant"), ("verdict", "Verdict"))
+INPUT_COLUMNS = (("condition", "Condition"), ("group", "Group"), ("key", "Key"), ("unit", "Unit"),
+                 ("base", "Base"), ("variant", "Variant"), ("change", "Change"),
+                 ("change_percent", "Change [%]"))
+
+
+def _text(value):
+    from latdyn.tables import format_number
+
+    if value is None:
+        return "-"
+    if isinstance(value, str):
+        return value
+    return format_number(value)
+
+
+def _signed(value, digits=4):
+    from latdyn.tables import format_number
+
+    if value is None:
+        return "-"
+    text = format_number(value, digits)
+    return text if text.startswith("-") else "+" + text
+
+
+def comparison_rows(comparison: Comparison):
+    """(figure rows, level rows, input rows) of a comparison, as text."""
+    from latdyn.assessment import level_words
+    from latdyn.tables import MODE_LABELS
+
+    figures, levels, inputs = [], [], []
+    for condition in comparison.conditions:
+        for item in condition.figures:
+            figures.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
+                            "figure": item.figure, "unit": item.unit, "base": _text(item.base),
+                            "variant": _text(item.variant), "change": _signed(item.change),
+                            "change_percent": _signed(item.change_percent, 3)})
+        for item in condition.levels:
+            verdict = item.verdict.upper() if item.verdict in ("improved", "degraded") else item.verdict
+            levels.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
+                           "criteria": item.criteria,
+                           "base": level_words(item.base_level, item.base_pass),
+                           "variant": level_words(item.variant_level, item.variant_pass),
+                           "verdict": verdict})
+        for item in condition.inputs:
+            inputs.append({"condition": condition.name, "group": item.group, "key": item.key,
+                           "unit": item.unit, "base": _text(item.base), "variant": _text(item.variant),
+                           "change": _signed(item.change), "change_percent": _signed(item.change_percent, 3)})
+    return figures, levels, inputs
