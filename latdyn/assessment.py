@@ -33,14 +33,14 @@ from latdyn.criteria import CATEGORIES, CLASSES, CriteriaSet, load_criteria
 from latdyn.levels import (PARAMETERS, SYMBOLS, UNITS, BandSelection, DutchRollLimits,
                            Grades, RollLimits, RollSpiralLimits, SpiralLimits, dutch_roll_grades,
                            grade, grade_mode, mode_levels, phi_to_beta_excess, roll_grades,
-                           roll_spiral_grades, select_bands, spiral_grades)
+                           roll_spiral_grades, select_bands, spiral_grades, stack_levels)
 
 __all__ = [
     "NOTICE", "PARAMETERS", "UNITS", "SYMBOLS", "DEFAULT_MILITARY", "DEFAULT_CIVIL",
     "Grades", "DutchRollLimits", "RollLimits", "SpiralLimits", "RollSpiralLimits",
     "BandSelection", "grade", "dutch_roll_grades", "roll_grades", "spiral_grades",
     "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
-    "phi_to_beta_excess", "Assessment", "ConditionAssessment", "AircraftAssessment",
+    "phi_to_beta_excess", "stack_levels", "Assessment", "ConditionAssessment", "AircraftAssessment",
     "assess_modes", "assess", "default_criteria", "level_words",
 ]
 

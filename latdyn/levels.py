@@ -27,7 +27,7 @@ __all__ = [
     "PARAMETERS", "UNITS", "SYMBOLS", "Grades", "DutchRollLimits", "RollLimits", "SpiralLimits",
     "RollSpiralLimits", "BandSelection", "grade", "dutch_roll_grades", "roll_grades",
     "spiral_grades", "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
-    "phi_to_beta_excess",
+    "phi_to_beta_excess", "stack_levels",
 ]
 
 #: Parameters a band can limit; ``Grades.governing`` indexes this tuple.
@@ -123,43 +123,68 @@ def grade(values, limits, parameters, senses, exclusive=False) -> Grades:
     values, limits, parameters, senses, exclusive = np.broadcast_arrays(
         np.asarray(values, dtype=float), np.asarray(limits, dtype=float),
         np.asarray(parameters), np.asarray(senses, dtype=float), np.asarray(exclusive, dtype=bool))
-    count = values.shape[-2]
-    applicable = ~np.isnan(limits)
-    with np.errstate(invalid="ignore"):
-        raw = senses * (values - limits)
-    margin = np.where(applicable, raw, np.inf)
-    undetermined = np.any(applicable & np.isnan(values), axis=(-2, -1))
-    with np.errstate(invalid="ignore"):
-        ok = np.where(exclusive, margin > 0.0, margin >= 0.0)
-    met = ok.all(axis=-1)
+    count, width = values.shape[-2:]
+    columns = [[(values[..., g, k], limits[..., g, k], parameters[..., g, k], senses[..., g, k],
+                 exclusive[..., g, k]) for k in range(width)] for g in range(count)]
+    return _grade_columns(columns, values.shape[:-2])
+
+
+def _grade_columns(columns, shape) -> Grades:
+    """:func:`grade` on constraints given per grade and per constraint.
+
+    ``columns[g][k] = (value, limit, parameter, sense, exclusive)``, each an
+    array broadcastable to ``shape`` (or a scalar).  The loops run over the
+    few grades and constraints, never over the cases.
+    """
+    count = len(columns)
+    met = np.empty(shape + (count,), bool)
+    level_margin = np.empty(shape + (count,))
+    undetermined = np.zeros(shape, bool)
+    best = []
+    with np.errstate(invalid="ignore", divide="ignore"):
+        for g, constraints in enumerate(columns):
+            met_g = np.ones(shape, bool)
+            chosen = None
+            for value, limit, parameter, sense, exclusive in constraints:
+                value = np.broadcast_to(np.asarray(value, dtype=float), shape)
+                limit = np.broadcast_to(np.asarray(limit, dtype=float), shape)
+                applicable = ~np.isnan(limit)
+                margin = np.where(applicable, sense * (value - limit), np.inf)
+                undetermined |= applicable & np.isnan(value)
+                ok = margin >= 0.0
+                exclusive = np.asarray(exclusive, dtype=bool)
+                if exclusive.any():
+                    ok &= ~(exclusive & (margin == 0.0))
+                met_g &= ok
+                scale = np.abs(limit)
+                positive = scale > 0.0
+                fraction = np.where(positive, margin / np.where(positive, scale, 1.0), np.nan)
+                normalised = np.where(positive, fraction, margin)
+                normalised = np.where(np.isnan(normalised), -np.inf, normalised)
+                entry = [normalised, value, np.where(applicable, limit, np.nan), margin, fraction,
+                         np.broadcast_to(np.asarray(parameter), shape)]
+                if chosen is None:
+                    chosen = entry
+                else:
+                    better = normalised < chosen[0]
+                    chosen = [np.where(better, new, old) for new, old in zip(entry, chosen)]
+            met[..., g] = met_g
+            level_margin[..., g] = chosen[0]
+            best.append(chosen)
     level = np.where(met.any(axis=-1), met.argmax(axis=-1) + 1, count + 1)
     level = np.where(undetermined, 0, level)
-    scale = np.abs(limits)
-    positive = applicable & (scale > 0.0)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        fraction = np.where(positive, margin / np.where(positive, scale, 1.0), np.nan)
-    normalised = np.where(applicable, np.where(positive, fraction, margin), np.inf)
-    normalised = np.where(np.isnan(normalised), -np.inf, normalised)
-    level_margin = normalised.min(axis=-1)
-    target = np.clip(level - 2, 0, count - 1)[..., None, None]
+    target = np.clip(level - 2, 0, count - 1)
 
-    def at_target(array):
-        return np.take_along_axis(array, np.broadcast_to(target, array.shape[:-2] + (1, array.shape[-1])),
-                                  axis=-2)[..., 0, :]
+    def pick(index):
+        return np.choose(target, [entry[index] for entry in best])
 
-    row = at_target(normalised)
-    k = row.argmin(axis=-1)[..., None]
-
-    def pick(array):
-        return np.take_along_axis(at_target(array), k, axis=-1)[..., 0]
-
-    governing = np.where(undetermined, -1, pick(parameters))
-    nan = np.full(level.shape, np.nan)
-    value = np.where(undetermined, nan, pick(values))
-    limit = np.where(undetermined, nan, pick(limits))
-    chosen_margin = np.where(undetermined, nan, pick(margin))
-    chosen_fraction = np.where(undetermined, nan, pick(fraction))
-    return Grades(level, met, level_margin, governing, value, limit, chosen_margin, chosen_fraction)
+    nan = np.nan
+    governing = np.where(undetermined, -1, pick(5))
+    value = np.where(undetermined, nan, pick(1))
+    limit = np.where(undetermined, nan, pick(2))
+    margin = np.where(undetermined, nan, pick(3))
+    fraction = np.where(undetermined, nan, pick(4))
+    return Grades(level, met, level_margin, governing, value, limit, margin, fraction)
 
 
 class DutchRollLimits(NamedTuple):
@@ -279,36 +304,41 @@ def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: Dut
     >>> g.level.tolist(), [PARAMETERS[i] for i in g.governing]
     ([2, 1], ['zeta_omega', 'damping_ratio'])
     """
-    zeta = np.asarray(damping_ratio, dtype=float)[..., None]
-    omega = np.asarray(natural_frequency, dtype=float)[..., None]
-    ratio = np.asarray(phi_to_beta, dtype=float)[..., None]
+    zeta = np.asarray(damping_ratio, dtype=float)
+    omega = np.asarray(natural_frequency, dtype=float)
+    ratio = np.asarray(phi_to_beta, dtype=float)
+    shape = np.broadcast_shapes(zeta.shape, omega.shape, ratio.shape)
+    zeta, omega = np.broadcast_to(zeta, shape), np.broadcast_to(omega, shape)
     min_zeta = np.asarray(limits.min_damping_ratio, dtype=float)
     min_zw = np.asarray(limits.min_zeta_omega, dtype=float)
     min_omega = np.asarray(limits.min_natural_frequency, dtype=float)
     coefficient = np.asarray(limits.phi_to_beta_coefficient, dtype=float)
+    exclusive = np.broadcast_to(np.asarray(limits.exclusive, dtype=bool), min_zeta.shape)
     cap = np.asarray(limits.damping_ratio_cap, dtype=float)
-    with np.errstate(invalid="ignore"):
+    count = min_zeta.shape[-1]
+    with np.errstate(invalid="ignore", divide="ignore"):
         excess = phi_to_beta_excess(omega, ratio, limits.phi_to_beta_threshold)
-        rise = np.where(coefficient > 0.0, coefficient * excess, 0.0)
-        zw_required = np.where(np.isnan(min_zw) & (rise > 0.0), 0.0, min_zw) + rise
-    with np.errstate(divide="ignore", invalid="ignore"):
-        zeta_from_zw = np.where(omega > 0.0, zw_required / np.where(omega > 0.0, omega, 1.0), np.inf)
-    zeta_from_zw = np.where(np.isnan(zw_required), np.nan, zeta_from_zw)
-    required = np.fmax(min_zeta, zeta_from_zw)
-    with np.errstate(invalid="ignore"):
-        capped = required > cap
-        use_zw = ~capped & ~np.isnan(zeta_from_zw) & (np.isnan(min_zeta) | (zeta_from_zw > min_zeta))
-    damping_value = np.where(use_zw, zeta * omega, zeta)
-    damping_limit = np.where(use_zw, zw_required, np.where(capped, cap, min_zeta))
-    damping_parameter = np.where(use_zw, _INDEX["zeta_omega"], _INDEX["damping_ratio"])
-    exclusive = np.asarray(limits.exclusive, dtype=bool) & ~use_zw & ~capped
-    values = np.stack(np.broadcast_arrays(damping_value, omega + 0.0 * damping_value), axis=-1)
-    limits_ = np.stack(np.broadcast_arrays(damping_limit, min_omega + 0.0 * damping_limit), axis=-1)
-    parameters = np.stack(np.broadcast_arrays(damping_parameter,
-                                              np.full(damping_parameter.shape, _INDEX["natural_frequency"])),
-                          axis=-1)
-    exclusive = np.stack(np.broadcast_arrays(exclusive, np.zeros(np.shape(exclusive), bool)), axis=-1)
-    return grade(values, limits_, parameters, 1.0, exclusive)
+        product = zeta * omega
+        positive = omega > 0.0
+        safe_omega = np.where(positive, omega, 1.0)
+        columns = []
+        for g in range(count):
+            c = coefficient[..., g]
+            rise = np.where(c > 0.0, c * excess, 0.0)
+            zw_required = np.where(np.isnan(min_zw[..., g]) & (rise > 0.0), 0.0, min_zw[..., g]) + rise
+            zeta_from_zw = np.where(positive, zw_required / safe_omega, np.inf)
+            zeta_from_zw = np.where(np.isnan(zw_required), np.nan, zeta_from_zw)
+            required = np.fmax(min_zeta[..., g], zeta_from_zw)
+            capped = required > cap
+            use_zw = ~capped & ~np.isnan(zeta_from_zw) & (np.isnan(min_zeta[..., g])
+                                                          | (zeta_from_zw > min_zeta[..., g]))
+            damping = (np.where(use_zw, product, zeta),
+                       np.where(use_zw, zw_required, np.where(capped, cap, min_zeta[..., g])),
+                       np.where(use_zw, _INDEX["zeta_omega"], _INDEX["damping_ratio"]), 1.0,
+                       exclusive[..., g] & ~use_zw & ~capped)
+            frequency = (omega, min_omega[..., g], _INDEX["natural_frequency"], 1.0, False)
+            columns.append([damping, frequency])
+    return _grade_columns(columns, shape)
 
 
 def roll_grades(roll_root, limits: RollLimits) -> Grades:
@@ -601,3 +631,55 @@ def mode_levels(criteria, mode, airplane_class, category, *, flight_phase=None, 
         criteria = load_criteria(criteria)
     selection = select_bands(criteria, mode, airplane_class, category, flight_phase, altitude)
     return grade_mode(selection, **values)
+
+
+def stack_levels(criteria, arrays, airplane_class, category, flight_phase=None, altitude=None) -> dict:
+    """Levels of every mode of a stack of models (:func:`latdyn.modes.analyse_stack` output).
+
+    The batched counterpart of the per-condition assessment, for design
+    studies: one :class:`Grades` per mode the criteria set covers, each of
+    shape (N,).  A mode the case does not have (roll and spiral where a
+    roll-spiral oscillation exists, and the reverse) grades 0 (not
+    assessable); a Dutch roll with real roots of opposite signs (a static
+    divergence, no damping ratio) grades beyond every band.
+
+    Parameters
+    ----------
+    criteria : CriteriaSet or str
+    arrays : latdyn.modes.ModeArrays
+    airplane_class, category, flight_phase : str or None
+    altitude : float or None
+        [m]
+
+    Returns
+    -------
+    dict of str to Grades
+
+    Examples
+    --------
+    >>> from latdyn.modes import analyse_stack
+    >>> A = np.array([[[-0.1113, 0.0, -1.0, 32.174 / 243.5], [-1.328, -0.951, 0.609, 0.0],
+    ...                [0.757, -0.124, -0.265, 0.0], [0.0, 1.0, 0.0, 0.0]]])
+    >>> grades = stack_levels("mil-f-8785c", analyse_stack(A), "III", "C")
+    >>> {mode: int(g.level[0]) for mode, g in grades.items()}
+    {'dutch_roll': 1, 'roll_subsidence': 1, 'spiral': 1, 'roll_spiral': 0}
+    """
+    from latdyn.modes import pair_figures
+
+    if not isinstance(criteria, CriteriaSet):
+        criteria = load_criteria(criteria)
+    out = {}
+    for mode in criteria.mode_names:
+        selection = select_bands(criteria, mode, airplane_class, category, flight_phase, altitude)
+        if mode in ("dutch_roll", "roll_spiral"):
+            roots = arrays.dutch_roll if mode == "dutch_roll" else arrays.roll_spiral
+            omega, zeta = pair_figures(roots[:, 0], roots[:, 1])
+            ratio = arrays.phi_to_beta if mode == "dutch_roll" else None
+            grades = grade_mode(selection, damping_ratio=zeta, natural_frequency=omega, phi_to_beta=ratio)
+            if mode == "dutch_roll":
+                divergence = np.isnan(zeta) & (roots.real.max(axis=1) > 0.0)
+                grades = grades._replace(level=np.where(divergence, criteria.grades + 1, grades.level))
+        else:
+            grades = grade_mode(selection, root=arrays.roll if mode == "roll_subsidence" else arrays.spiral)
+        out[mode] = grades
+    return out

@@ -346,3 +346,31 @@ def test_defaults_and_words():
     assert default_criteria(None) == ("14cfr23-181", "14cfr25-181")
     assert [level_words(n) for n in (1, 2, 3, 4)] == ["Level 1", "Level 2", "Level 3", "beyond Level 3"]
     assert "certification basis" in NOTICE and "guidance" in NOTICE.lower()
+
+
+def test_stack_levels_equal_the_condition_assessment(demo_files):
+    """The batched grading of a stack of models gives the levels of the per-condition assessment."""
+    from latdyn.aircraft import load_aircraft
+    from latdyn.levels import stack_levels
+    from latdyn.model import lateral_model
+    from latdyn.modes import analyse_stack
+
+    for path in demo_files:
+        aircraft = load_aircraft(path)
+        result = assess(aircraft, ["mil-f-8785c"])
+        for condition, assessed in zip(aircraft.conditions, result.conditions):
+            arrays = analyse_stack(lateral_model(aircraft, condition).A[None])
+            grades = stack_levels("mil-f-8785c", arrays, aircraft.airplane_class, condition.flight.category)
+            for entry in assessed.assessments:
+                assert int(grades[entry.mode].level[0]) == entry.level, (path.name, condition.name, entry.mode)
+
+
+def test_stack_levels_odd_patterns():
+    """Static divergence: beyond Level 3; coupled roll-spiral: roll and spiral not assessable (0)."""
+    from latdyn.levels import stack_levels
+    from latdyn.modes import analyse_stack
+
+    A = np.stack([constructed_matrix(real_dutch=(0.3, -1.0)), constructed_matrix(roll_spiral=(0.4, 1.0))])
+    grades = stack_levels("mil-f-8785c", analyse_stack(A), "IV", "B")
+    assert grades["dutch_roll"].level.tolist()[0] == 4
+    assert grades["roll_subsidence"].level.tolist()[1] == 0 and grades["roll_spiral"].level.tolist()[1] == 2
