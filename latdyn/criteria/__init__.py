@@ -36,7 +36,14 @@ File layout (format 1)::
     min_altitude = 5486.4             # [m]: band holds at and above
     max_altitude = 5486.4             # [m]: band holds below
     source = "<key of [sources]>"
-    # limits (per mode, see LIMIT_KEYS): a number, or a list of three numbers (Levels 1, 2, 3)
+    # limits (per mode, see LIMIT_KEYS): a number, or a list of three numbers (Levels 1, 2, 3):
+    #   dutch_roll:      min_damping_ratio, min_zeta_omega [rad/s], min_natural_frequency [rad/s];
+    #                    or cycles_to_amplitude_ratio = 7 (with amplitude_ratio = 0.1, the default),
+    #                    turned into min_damping_ratio = k / sqrt(1 + k^2), k = ln(1/ratio) / (2 pi N);
+    #                    exclusive = true: zeta_d must exceed min_damping_ratio
+    #   roll_subsidence: max_time_constant [s]
+    #   spiral:          min_time_to_double [s]
+    #   roll_spiral:     min_zeta_omega [rad/s]
 
 Mode-wide rules: ``[dutch_roll.phi_to_beta_rule]`` (threshold, coefficients
 per level, source), ``[dutch_roll.damping_ratio_cap]`` (classes, value,
