@@ -22,6 +22,9 @@ COMMANDS = (
     ("modes", "Dutch roll, roll subsidence and spiral modes of each flight condition"),
     ("assess", "handling-qualities levels of each mode against military and civil criteria"),
     ("respond", "time responses to rudder and aileron inputs, read-outs and transfer functions"),
+    ("sweep", "parameter sweeps: mode figures and levels on a grid, level-boundary crossings"),
+    ("sensitivity", "ranked sensitivities of the mode figures to each derivative and mass property"),
+    ("uncertainty", "Monte Carlo: probability of each level and percentiles of the mode figures"),
 )
 
 

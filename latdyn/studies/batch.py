@@ -1,0 +1,415 @@
+"""Batched engine: models, modes, figures and levels of N cases of one condition at once.
+
+A *case set* is one flight condition of an aircraft with some of its inputs
+replaced by arrays (a sweep grid, Monte Carlo samples).  The pipeline is
+the single-aircraft one, called on arrays:
+
+    inputs -> latdyn.model.primed_values -> latdyn.model.lateral_matrices
+           -> latdyn.modes.analyse_stack -> pair_figures / root_figures
+           -> latdyn.levels.select_bands + grade_mode
+
+so one case of a batch gives exactly the numbers ``latdyn modes`` and
+``latdyn assess`` give for it.  Large batches run in chunks
+(:data:`CHUNK` cases at a time) so memory stays bounded; a progress bar
+(tqdm) shows on long runs.
+
+Inputs a case set can vary (SI units and radians; :func:`parameter_names`):
+the condition's derivatives (non-dimensional or dimensional, as the file
+gives them), ``mass``, ``Ixx``, ``Izz``, ``Ixz`` (in the file's inertia
+axes), ``speed`` (true airspeed), ``density``, ``altitude`` (sets the
+density from the 1976 standard atmosphere, true airspeed held), ``alpha``,
+``gamma``, ``wing_area``, ``span``, and ``fin.area_ratio``,
+``fin.arm_ratio`` (see :mod:`latdyn.studies.fin`).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, fields
+
+import numpy as np
+
+from latdyn.aircraft import NondimensionalDerivatives
+from latdyn.model import (COEFFICIENT_NAMES, DIMENSIONAL_NAMES, equation_angles,
+                          lateral_matrices, primed_values)
+from latdyn.modes import ModeArrays, analyse_stack, pair_figures, root_figures
+
+__all__ = [
+    "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "case_inputs",
+    "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
+    "condition_set",
+]
+
+#: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
+CHUNK = 16384
+
+#: Figures computed for every case (attribute names of :class:`Figures`), with units.
+FIGURES = {
+    "dutch_roll_frequency": "rad/s", "dutch_roll_damping": "-", "phi_to_beta": "-",
+    "roll_root": "1/s", "roll_time_constant": "s", "spiral_root": "1/s",
+    "spiral_time_to_double": "s", "spiral_time_to_half": "s",
+    "roll_spiral_frequency": "rad/s", "roll_spiral_damping": "-",
+}
+
+_MASS_KEYS = ("mass", "Ixx", "Izz", "Ixz")
+_FLIGHT_KEYS = ("speed", "density", "altitude", "alpha", "gamma", "wing_area", "span")
+_FIN_KEYS = ("fin.area_ratio", "fin.arm_ratio")
+
+
+@dataclass(frozen=True)
+class CaseSet:
+    """One condition of an aircraft with some inputs given as arrays.
+
+    Attributes
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+    condition : latdyn.aircraft.Condition
+    overrides : dict
+        Input name (:func:`parameter_names`) to a float or an array of shape
+        (N,) [SI units, rad].
+    size : int
+        N, the number of cases.
+    """
+
+    aircraft: object
+    condition: object
+    overrides: dict
+    size: int
+
+    def chunk(self, start, stop) -> "CaseSet":
+        """The cases start..stop-1 as a case set of their own."""
+        sliced = {k: (v[start:stop] if np.ndim(v) else v) for k, v in self.overrides.items()}
+        return CaseSet(self.aircraft, self.condition, sliced, stop - start)
+
+
+def condition_set(aircraft, condition, overrides=None) -> CaseSet:
+    """A :class:`CaseSet` from a condition (or its name) and input arrays.
+
+    Raises
+    ------
+    KeyError
+        An input name the condition cannot vary (see :func:`parameter_names`).
+    ValueError
+        Arrays of different lengths.
+    """
+    if isinstance(condition, str):
+        condition = aircraft.condition(condition)
+    overrides = {k: np.asarray(v, dtype=float) for k, v in (overrides or {}).items()}
+    allowed = parameter_names(aircraft, condition)
+    for key in overrides:
+        if key not in allowed:
+            raise KeyError(f"{key} cannot be varied here; one of {', '.join(allowed)}")
+    sizes = {v.shape[0] for v in overrides.values() if v.ndim}
+    if len(sizes) > 1:
+        raise ValueError(f"input arrays of different lengths {sorted(sizes)}")
+    if any(v.ndim > 1 for v in overrides.values()):
+        raise ValueError("input arrays must be one-dimensional")
+    return CaseSet(aircraft, condition, overrides, sizes.pop() if sizes else 1)
+
+
+def parameter_names(aircraft, condition) -> tuple:
+    """Input names a case set of this condition can vary."""
+    nondimensional = isinstance(condition.derivatives, NondimensionalDerivatives)
+    names = list(COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES)
+    if aircraft.mass is not None:
+        names += [k for k in _MASS_KEYS if k != "mass" or aircraft.mass.mass is not None]
+    names += [k for k in _FLIGHT_KEYS
+              if k not in ("wing_area", "span") or aircraft.geometry is not None]
+    if aircraft.fin is not None and nondimensional and aircraft.geometry is not None:
+        names += list(_FIN_KEYS)
+    return tuple(names)
+
+
+def case_inputs(cases: CaseSet) -> dict:
+    """Every input of the case set, nominal values with the overrides applied [SI, rad]."""
+    from latdyn.atmosphere import standard_atmosphere
+    from latdyn.studies.fin import fin_increments
+
+    aircraft, condition = cases.aircraft, cases.condition
+    derivatives, flight = condition.derivatives, condition.flight
+    nondimensional = isinstance(derivatives, NondimensionalDerivatives)
+    names = COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES
+    values = {name: getattr(derivatives, name) for name in names}
+    m, g = aircraft.mass, aircraft.geometry
+    values.update(
+        mass=m.mass if m else None, Ixx=m.Ixx if m else None, Izz=m.Izz if m else None,
+        Ixz=m.Ixz if m else None, speed=flight.speed, density=flight.density,
+        altitude=flight.altitude, alpha=flight.alpha, gamma=flight.gamma,
+        wing_area=g.wing_area if g else None, span=g.span if g else None)
+    values.update(cases.overrides)
+    if "altitude" in cases.overrides and "density" not in cases.overrides:
+        values["density"] = standard_atmosphere(values["altitude"]).density
+    ratios = [cases.overrides.get(key) for key in _FIN_KEYS]
+    if any(r is not None for r in ratios):
+        from latdyn.aircraft import Geometry
+
+        geometry = Geometry(values["wing_area"], values["span"])
+        increments = fin_increments(aircraft.fin, geometry, values["alpha"], derivatives.axes,
+                                    1.0 if ratios[0] is None else ratios[0],
+                                    1.0 if ratios[1] is None else ratios[1])
+        for name, increment in increments.items():
+            values[name] = values[name] + increment
+    values["nondimensional"] = nondimensional
+    return values
+
+
+def case_matrices(cases: CaseSet) -> np.ndarray:
+    """State matrices (N, 4, 4) of the case set (:func:`latdyn.model.lateral_matrices`)."""
+    v = case_inputs(cases)
+    condition = cases.condition
+    derivatives = condition.derivatives
+    mass = cases.aircraft.mass
+    nondimensional = v["nondimensional"]
+    names = COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES
+    primed = primed_values({name: v[name] for name in names}, nondimensional,
+                           getattr(derivatives, "primed", False), derivatives.axes,
+                           mass.axes if mass is not None else None, v["alpha"], v["wing_area"],
+                           v["span"], v["mass"], v["Ixx"], v["Izz"], v["Ixz"], v["density"],
+                           v["speed"])
+    alpha_equations, theta = equation_angles(derivatives.axes, v["alpha"], v["gamma"])
+    A, _ = lateral_matrices(primed, v["speed"], alpha_equations, theta)
+    return np.broadcast_to(A, (cases.size, 4, 4))
+
+
+@dataclass(frozen=True)
+class Figures:
+    """Mode figures of N cases (arrays of shape (N,); NaN where they do not apply).
+
+    Attributes
+    ----------
+    pattern : ndarray of int
+        Index into :data:`latdyn.modes.PATTERNS`.
+    dutch_roll : ndarray of complex, (N, 2)
+    roll, spiral : ndarray of float
+        Real roots [1/s].
+    roll_spiral : ndarray of complex, (N, 2)
+    dutch_roll_frequency [rad/s], dutch_roll_damping [-], phi_to_beta [-],
+    roll_root [1/s], roll_time_constant [s], spiral_root [1/s],
+    spiral_time_to_double [s], spiral_time_to_half [s],
+    roll_spiral_frequency [rad/s], roll_spiral_damping [-] : ndarray
+    """
+
+    pattern: np.ndarray
+    dutch_roll: np.ndarray
+    roll: np.ndarray
+    spiral: np.ndarray
+    roll_spiral: np.ndarray
+    dutch_roll_frequency: np.ndarray
+    dutch_roll_damping: np.ndarray
+    phi_to_beta: np.ndarray
+    roll_root: np.ndarray
+    roll_time_constant: np.ndarray
+    spiral_root: np.ndarray
+    spiral_time_to_double: np.ndarray
+    spiral_time_to_half: np.ndarray
+    roll_spiral_frequency: np.ndarray
+    roll_spiral_damping: np.ndarray
+
+    def __iter__(self):
+        return iter((self.dutch_roll_frequency, self.dutch_roll_damping, self.roll_time_constant,
+                     self.spiral_root))
+
+    def __len__(self):
+        return len(self.pattern)
+
+
+def mode_figures(modes: ModeArrays) -> Figures:
+    """Figures of a stack of modes (:func:`latdyn.modes.pair_figures`, :func:`root_figures`)."""
+    dr_frequency, dr_damping = pair_figures(modes.dutch_roll[:, 0], modes.dutch_roll[:, 1])
+    rs_frequency, rs_damping = pair_figures(modes.roll_spiral[:, 0], modes.roll_spiral[:, 1])
+    roll_tc, _, _ = root_figures(modes.roll)
+    _, spiral_half, spiral_double = root_figures(modes.spiral)
+    return Figures(modes.pattern, modes.dutch_roll, modes.roll, modes.spiral, modes.roll_spiral,
+                   dr_frequency, dr_damping, modes.phi_to_beta, modes.roll, roll_tc, modes.spiral,
+                   spiral_double, spiral_half, rs_frequency, rs_damping)
+
+
+def _grade_subset(selection, mode, figures, index):
+    from latdyn.levels import grade_mode
+
+    take = (lambda a: a) if index is None else (lambda a: a[index])
+    if mode == "dutch_roll":
+        return grade_mode(selection, damping_ratio=take(figures.dutch_roll_damping),
+                          natural_frequency=take(figures.dutch_roll_frequency),
+                          phi_to_beta=take(figures.phi_to_beta))
+    if mode == "roll_spiral":
+        return grade_mode(selection, damping_ratio=take(figures.roll_spiral_damping),
+                          natural_frequency=take(figures.roll_spiral_frequency))
+    root = figures.roll if mode == "roll_subsidence" else figures.spiral
+    return grade_mode(selection, root=take(root))
+
+
+def _grade(criteria, mode, figures, airplane_class, category, flight_phase, altitude):
+    """Grades of one criteria set and mode over the batch; None where no band covers it."""
+    from latdyn.levels import Grades, select_bands
+
+    breaks = criteria.mode(mode).altitude_breaks()
+    n = len(figures)
+    altitude = None if altitude is None else np.broadcast_to(np.asarray(altitude, float), (n,))
+    if not breaks or altitude is None:
+        probe = None if altitude is None else float(altitude[0])
+        selection = select_bands(criteria, mode, airplane_class, category, flight_phase, probe)
+        if selection.undefined:
+            return None
+        grades = _grade_subset(selection, mode, figures, None)
+    else:
+        bins = np.searchsorted(np.asarray(breaks), altitude, side="right")
+        pieces = {}
+        for value in np.unique(bins):
+            index = np.flatnonzero(bins == value)
+            selection = select_bands(criteria, mode, airplane_class, category, flight_phase,
+                                     float(altitude[index[0]]))
+            pieces[int(value)] = (index, None if selection.undefined
+                                  else _grade_subset(selection, mode, figures, index))
+        sample = next((g for _, g in pieces.values() if g is not None), None)
+        if sample is None:
+            return None
+        fields = []
+        for position, field in enumerate(sample):
+            out = np.zeros((n,) + field.shape[1:], field.dtype)
+            if out.dtype.kind == "f":
+                out[...] = np.nan
+            for index, graded in pieces.values():
+                if graded is not None:
+                    out[index] = graded[position]
+            fields.append(out)
+        grades = Grades(*fields)
+    level = grades.level
+    if mode == "dutch_roll":
+        # real Dutch roll roots of opposite signs: a static divergence, beyond every band
+        product = (figures.dutch_roll[:, 0] * figures.dutch_roll[:, 1]).real
+        diverges = product < 0
+        if diverges.any():
+            worst = criteria.grades + 1
+            level = np.where(diverges, worst, level)
+    return grades._replace(level=level)
+
+
+def assess_figures(figures: Figures, criteria_sets, airplane_class, category, flight_phase=None,
+                   altitude=None) -> dict:
+    """Levels of every mode of a batch against criteria sets.
+
+    Parameters
+    ----------
+    figures : Figures
+    criteria_sets : iterable of CriteriaSet
+    airplane_class, category, flight_phase : str or None
+    altitude : float or array or None
+        Geopotential altitude of each case [m].
+
+    Returns
+    -------
+    dict
+        (criteria name, mode) -> :class:`latdyn.levels.Grades` (level 0 where
+        the mode is absent or not assessable); modes no band covers for this
+        class and category are left out.  Levels are guidance only
+        (:data:`latdyn.assessment.NOTICE`).
+    """
+    out = {}
+    for criteria in criteria_sets:
+        for mode in criteria.mode_names:
+            grades = _grade(criteria, mode, figures, airplane_class, category, flight_phase,
+                            altitude)
+            if grades is not None:
+                out[(criteria.name, mode)] = grades
+    return out
+
+
+@dataclass(frozen=True)
+class BatchResult:
+    """Figures and levels of a case set; unpacks as (figures, levels).
+
+    Attributes
+    ----------
+    figures : Figures
+    levels : dict
+        (criteria name, mode) -> Grades.
+    """
+
+    figures: Figures
+    levels: dict
+
+    def __iter__(self):
+        return iter((self.figures, self.levels))
+
+
+def _concatenate(parts):
+    """Join chunk results: a Figures dataclass or a Grades named tuple, field by field."""
+    first = parts[0]
+    if isinstance(first, tuple):
+        return type(first)(*[np.concatenate(column) for column in zip(*parts)])
+    names = [f.name for f in fields(first)]
+    return type(first)(*[np.concatenate([getattr(p, name) for p in parts]) for name in names])
+
+
+def _load_sets(criteria_sets):
+    from latdyn.criteria import CriteriaSet, load_criteria
+
+    return tuple(c if isinstance(c, CriteriaSet) else load_criteria(c) for c in criteria_sets)
+
+
+def _chunk_result(cases, criteria_sets, phase, path=False):
+    A = case_matrices(cases)
+    if path:
+        from latdyn.mode_tracking import track_modes
+
+        figures = mode_figures(track_modes(A))
+    else:
+        figures = mode_figures(analyse_stack(A))
+    flight = cases.condition.flight
+    altitude = cases.overrides.get("altitude", flight.altitude)
+    levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,
+                            phase, altitude) if criteria_sets else {}
+    return BatchResult(figures, levels)
+
+
+def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,
+                  progress=False):
+    """Yield (start, stop, BatchResult) chunk by chunk (bounded memory for any N).
+
+    Parameters
+    ----------
+    cases : CaseSet
+    criteria_sets : iterable of CriteriaSet or str
+    flight_phase : str, optional
+    chunk : int
+        Cases per chunk [-].
+    progress : bool
+        Show a tqdm progress bar on stderr.
+    """
+    sets = _load_sets(criteria_sets)
+    starts = range(0, cases.size, chunk)
+    if progress:
+        from tqdm import tqdm
+
+        starts = tqdm(starts, total=len(starts), unit="chunk", desc=cases.condition.name,
+                      leave=False, disable=None)
+    for start in starts:
+        stop = min(start + chunk, cases.size)
+        yield start, stop, _chunk_result(cases.chunk(start, stop), sets, flight_phase)
+
+
+def run_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,
+              progress=False, path=False) -> BatchResult:
+    """Figures and levels of every case (chunked; results concatenated).
+
+    With ``path=True`` the cases are a path (a one-parameter sweep, in
+    order) and the mode names follow the roots along it
+    (:func:`latdyn.mode_tracking.track_modes`); then there is one chunk.
+
+    Examples
+    --------
+    >>> import pathlib
+    >>> from latdyn.aircraft import load_aircraft
+    >>> root = pathlib.Path(__file__).resolve().parents[2]
+    >>> aircraft = load_aircraft(root / "aircraft" / "kestrel-k40.toml")
+    >>> cases = condition_set(aircraft, "approach", {"Cn_beta": [0.05, 0.09, 0.15]})
+    >>> result = run_batch(cases, ["mil-f-8785c"])
+    >>> result.figures.dutch_roll_frequency.round(3).tolist()
+    [1.158, 1.413, 1.722]
+    """
+    if path:
+        return _chunk_result(cases, _load_sets(criteria_sets), flight_phase, path=True)
+    parts = [r for _, _, r in iterate_batch(cases, criteria_sets, flight_phase, chunk, progress)]
+    figures = _concatenate([p.figures for p in parts])
+    levels = {key: _concatenate([p.levels[key] for p in parts]) for key in parts[0].levels}
+    return BatchResult(figures, levels)

@@ -1,0 +1,139 @@
+"""Study keys: what a user may vary, as typed on the command line, to the batch input names.
+
+A key is a derivative (``Cn_beta`` or ``condition.derivatives.Cn_beta``;
+``N_r`` or ``condition.dimensional.N_r``), a mass property (``mass``,
+``Ixx``, ``Izz``, ``Ixz``, optionally ``mass.Ixx``), ``speed``,
+``altitude``, ``density``, ``alpha_deg``, ``gamma_deg`` (optionally with
+``condition.``), ``wing_area``, ``span`` (optionally ``geometry.``), or
+``fin.area_ratio`` / ``fin.arm_ratio``.  Values are in the units of the
+aircraft file (its ``units`` word) and degrees for the angles; they are
+converted to SI and radians here, at the edge.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from latdyn import units
+from latdyn.aircraft_file import SCHEMA, read_tree
+from latdyn.errors import InputError
+
+__all__ = ["StudyKey", "resolve_key", "file_units", "UNIT_WORDS"]
+
+_PREFIXES = ("condition.derivatives.", "condition.dimensional.", "condition.", "mass.",
+             "geometry.")
+_ANGLES = {"alpha_deg": "alpha", "gamma_deg": "gamma"}
+
+#: Printed unit of each dimension in SI and US files.
+UNIT_WORDS = {
+    "none": ("", ""), "length": ("m", "ft"), "area": ("m^2", "ft^2"), "mass": ("kg", "slug"),
+    "inertia": ("kg m^2", "slug ft^2"), "density": ("kg/m^3", "slug/ft^3"),
+    "speed": ("m/s", "ft/s"), "acceleration": ("m/s^2", "ft/s^2"), "degree": ("deg", "deg"),
+}
+
+
+@dataclass(frozen=True)
+class StudyKey:
+    """A resolved study key.
+
+    Attributes
+    ----------
+    text : str
+        The key as typed.
+    name : str
+        Batch input name (:func:`latdyn.studies.batch.parameter_names`).
+    dimension : str
+        Physical dimension (:data:`latdyn.units.DIMENSION_FACTORS`) or "degree".
+    units : str
+        "SI" or "US": the units of values typed for this key.
+    """
+
+    text: str
+    name: str
+    dimension: str
+    units: str
+
+    def to_si(self, value):
+        """A typed value (file units, degrees) in SI units and radians."""
+        if self.dimension == "degree":
+            return units.rad(value)
+        return units.to_si(value, self.dimension, self.units)
+
+    def from_si(self, value):
+        """An SI value in the typed units."""
+        if self.dimension == "degree":
+            return units.deg(value)
+        return units.from_si(value, self.dimension, self.units)
+
+    @property
+    def unit(self) -> str:
+        """Unit word of typed values ("" for a ratio or coefficient)."""
+        si, us = UNIT_WORDS[self.dimension]
+        return us if self.units == "US" else si
+
+    @property
+    def label(self) -> str:
+        """The key with its unit, for headings."""
+        return f"{self.text} [{self.unit}]" if self.unit else self.text
+
+
+def file_units(aircraft) -> str:
+    """"SI" or "US": the units the aircraft file is written in."""
+    if not aircraft.file:
+        return "SI"
+    return read_tree(aircraft.file)["__units__"]
+
+
+def _dimension(name):
+    if name in _ANGLES.values():
+        return "degree"
+    for table in (SCHEMA["condition"]["dimensional"], SCHEMA["condition"], SCHEMA["mass"],
+                  SCHEMA["geometry"]):
+        if name in table and isinstance(table[name], str):
+            return table[name]
+    return "none"
+
+
+def resolve_key(text, allowed, file, option="--vary", units_word="SI", condition=None) -> StudyKey:
+    """Resolve a typed key against the input names a condition can vary.
+
+    Parameters
+    ----------
+    text : str
+        The key as typed.
+    allowed : iterable of str
+        :func:`latdyn.studies.batch.parameter_names` of the condition.
+    file : str
+        Aircraft file, for the error message.
+    option : str
+        Option name, for the error message.
+    units_word : str
+        "SI" or "US".
+
+    Raises
+    ------
+    InputError
+        A key the condition cannot vary.
+
+    Examples
+    --------
+    >>> resolve_key("condition.derivatives.Cn_beta", ["Cn_beta"], "a.toml").name
+    'Cn_beta'
+    >>> key = resolve_key("alpha_deg", ["alpha"], "a.toml")
+    >>> key.name, round(key.to_si(90.0), 6)
+    ('alpha', 1.570796)
+    """
+    name = text.strip()
+    for prefix in _PREFIXES:
+        if name.startswith(prefix):
+            name = name[len(prefix):]
+            break
+    name = _ANGLES.get(name, name)
+    if name in ("alpha", "gamma") and not text.strip().endswith("_deg"):
+        name = "?"  # angles are typed in degrees only
+    allowed = tuple(allowed)
+    if name not in allowed:
+        shown = [next((k for k, v in _ANGLES.items() if v == a), a) for a in allowed]
+        raise InputError(file, option, "a key this condition can vary (" + ", ".join(shown) + ")",
+                         f'"{text}"', condition)
+    return StudyKey(text.strip(), name, _dimension(name), units_word)

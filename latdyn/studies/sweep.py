@@ -1,0 +1,394 @@
+"""Parameter sweeps: mode figures and levels on a grid, and where each level boundary is crossed.
+
+One or two parameters vary over a grid (``KEY=START:STOP:COUNT``); the
+cases run through the batched engine (:mod:`latdyn.studies.batch`).  A level
+boundary crossing is found by root-finding on the continuous level margin
+(:attr:`latdyn.levels.Grades.level_margin`) between neighbouring grid
+points whose margins have opposite signs: Brent's method
+(``scipy.optimize.brentq``; R. P. Brent, *Algorithms for Minimization
+without Derivatives*, Prentice-Hall, 1973, chapter 4) on the margin of the
+full pipeline at one case, so the value is not read off the grid.
+
+Levels are guidance only (:data:`latdyn.assessment.NOTICE`).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from latdyn.errors import InputError
+from latdyn.studies.batch import condition_set, parameter_names, run_batch
+from latdyn.studies.keys import StudyKey, file_units, resolve_key
+
+__all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
+           "find_crossings", "boundary_name", "MAX_POINTS", "level_text", "sweep_rows",
+           "sweep_document"]
+
+#: Largest grid (points per condition) a sweep accepts [-].
+MAX_POINTS = 1_000_000
+
+
+def parse_range(text, file=""):
+    """Split ``KEY=START:STOP:COUNT`` into (key, start, stop, count).
+
+    Raises
+    ------
+    InputError
+        Not of that form, non-finite numbers, COUNT below 2 or too large.
+
+    Examples
+    --------
+    >>> parse_range("Cn_beta=0.05:0.15:11")
+    ('Cn_beta', 0.05, 0.15, 11)
+    """
+    expected = "KEY=START:STOP:COUNT (for example Cn_beta=0.05:0.15:21)"
+    key, sep, rest = text.partition("=")
+    parts = rest.split(":")
+    if not sep or not key.strip() or len(parts) != 3:
+        raise InputError(file, "--vary", expected, f'"{text}"')
+    try:
+        start, stop = float(parts[0]), float(parts[1])
+        count = int(parts[2])
+    except ValueError:
+        raise InputError(file, "--vary", expected, f'"{text}"') from None
+    if not (math.isfinite(start) and math.isfinite(stop)) or start == stop:
+        raise InputError(file, "--vary", "finite START and STOP that differ", f'"{text}"')
+    if not 2 <= count <= MAX_POINTS:
+        raise InputError(file, "--vary", f"COUNT from 2 to {MAX_POINTS}", f'"{text}"')
+    return key.strip(), start, stop, count
+
+
+@dataclass(frozen=True)
+class SweepAxis:
+    """One swept parameter: its key and grid values (typed units)."""
+
+    key: StudyKey
+    values: np.ndarray
+
+
+@dataclass(frozen=True)
+class Crossing:
+    """Where one mode crosses one level boundary of one criteria set.
+
+    Attributes
+    ----------
+    condition, criteria, mode : str
+    boundary : str
+        "level 1", "level 2", "level 3" or "pass".
+    parameter : str
+        The swept key as typed.
+    value : float
+        Parameter value at the crossing [typed units].
+    inside : str
+        "above" or "below": the side of ``value`` inside the boundary.
+    at : dict or None
+        Two-parameter sweeps: the other parameter's value on this grid line.
+    """
+
+    condition: str
+    criteria: str
+    mode: str
+    boundary: str
+    parameter: str
+    value: float
+    inside: str
+    at: dict | None = None
+
+    def as_dict(self) -> dict:
+        out = {"condition": self.condition, "criteria": self.criteria, "mode": self.mode,
+               "boundary": self.boundary, "parameter": self.parameter, "value": self.value,
+               "inside": self.inside}
+        if self.at is not None:
+            out["at"] = self.at
+        return out
+
+    def words(self, unit="") -> str:
+        """One line: 'dutch roll meets level 1 at Cn_beta >= 0.0831'."""
+        sign = ">=" if self.inside == "above" else "<="
+        where = "" if not self.at else " (" + ", ".join(f"{k} = {v:.6g}" for k, v in self.at.items()) + ")"
+        return (f"{self.condition}: {self.mode.replace('_', ' ')} within {self.boundary} of "
+                f"{self.criteria} at {self.parameter} {sign} {self.value:.6g}"
+                f"{' ' + unit if unit else ''}{where}")
+
+
+@dataclass(frozen=True)
+class ConditionSweep:
+    """The grid results of one condition; unpacks as (condition, result, crossings).
+
+    Attributes
+    ----------
+    condition : latdyn.aircraft.Condition
+    result : latdyn.studies.batch.BatchResult
+        Cases in grid order (first parameter slowest).
+    crossings : tuple of Crossing
+    """
+
+    condition: object
+    result: object
+    crossings: tuple
+
+    def __iter__(self):
+        return iter((self.condition, self.result, self.crossings))
+
+
+@dataclass(frozen=True)
+class SweepResult:
+    """A whole sweep.
+
+    Attributes
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+    axes : tuple of SweepAxis
+    criteria : tuple of CriteriaSet
+    conditions : tuple of ConditionSweep
+    """
+
+    aircraft: object
+    axes: tuple
+    criteria: tuple
+    conditions: tuple
+
+    @property
+    def crossings(self) -> tuple:
+        return tuple(c for item in self.conditions for c in item.crossings)
+
+    @property
+    def shape(self) -> tuple:
+        return tuple(len(axis.values) for axis in self.axes)
+
+    def grid(self):
+        """Parameter values of every case, (N, number of axes) [typed units]."""
+        mesh = np.meshgrid(*[axis.values for axis in self.axes], indexing="ij")
+        return np.stack([m.ravel() for m in mesh], axis=1)
+
+
+def boundary_name(criteria, grade_index) -> str:
+    """Name of a grade's boundary: "level 1".. or "pass" for a pass/fail set."""
+    return "pass" if criteria.assessment == "pass_fail" else f"level {grade_index + 1}"
+
+
+def _overrides(axes, columns):
+    return {axis.key.name: axis.key.to_si(np.asarray(column, float))
+            for axis, column in zip(axes, columns)}
+
+
+def _margin_function(aircraft, condition, axes, moving, fixed, criteria, mode, grade_index):
+    def margin(x):
+        columns = [[x] if k == moving else [fixed[k]] for k in range(len(axes))]
+        cases = condition_set(aircraft, condition, _overrides(axes, columns))
+        grades = run_batch(cases, [criteria]).levels.get((criteria.name, mode))
+        return float(grades.level_margin[0, grade_index]) if grades is not None else math.nan
+    return margin
+
+
+def _crossings_on_line(values, margins, margin_at):
+    """Roots of the margin between neighbours of opposite sign (Brent's method)."""
+    from scipy.optimize import brentq
+
+    out = []
+    for i in range(len(values) - 1):
+        a, b = margins[i], margins[i + 1]
+        if not (np.isfinite(a) and np.isfinite(b)) or a * b > 0 or (a == 0 and b == 0):
+            continue
+        if a == 0:
+            if i > 0 and np.isfinite(margins[i - 1]) and margins[i - 1] * b < 0:
+                out.append((values[i], b > 0))
+            continue
+        if b == 0:
+            out.append((values[i + 1], a < 0))
+            continue
+        x0, x1 = values[i], values[i + 1]
+        try:
+            fa, fb = margin_at(x0), margin_at(x1)
+            if not (np.isfinite(fa) and np.isfinite(fb)) or fa * fb > 0:
+                continue
+            root = brentq(margin_at, x0, x1, xtol=1e-12 * max(abs(x0), abs(x1), 1e-300),
+                          rtol=4 * np.finfo(float).eps, maxiter=200)
+        except (ValueError, RuntimeError):
+            continue
+        # inside the band on the side where the margin is positive
+        out.append((root, (b > 0) == (x1 > x0)))
+    return out
+
+
+def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
+    """Every level-boundary crossing along the first parameter of a sweep grid.
+
+    For two parameters, along the first one on each grid line of the second.
+
+    Returns
+    -------
+    tuple of Crossing
+    """
+    shape = tuple(len(a.values) for a in axes)
+    out = []
+    for criteria in criteria_sets:
+        for mode in criteria.mode_names:
+            grades = result.levels.get((criteria.name, mode))
+            if grades is None:
+                continue
+            margins = grades.level_margin.reshape(shape + grades.level_margin.shape[-1:])
+            lines = [()] if len(axes) == 1 else [(j,) for j in range(shape[1])]
+            for line in lines:
+                fixed = {1: float(axes[1].values[line[0]])} if line else {}
+                at = {axes[1].key.text: fixed[1]} if line else None
+                for g in range(margins.shape[-1]):
+                    series = margins[(slice(None),) + line + (g,)]
+                    function = _margin_function(aircraft, condition, axes, 0, fixed, criteria,
+                                                mode, g)
+                    for value, above in _crossings_on_line(axes[0].values, series, function):
+                        out.append(Crossing(condition.name, criteria.name, mode,
+                                            boundary_name(criteria, g), axes[0].key.text,
+                                            float(value), "above" if above else "below", at))
+    return tuple(out)
+
+
+def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) -> SweepResult:
+    """Sweep one or two parameters over a grid for each condition (or the named one).
+
+    Parameters
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+    ranges : sequence of (key, start, stop, count)
+        One or two ranges (:func:`parse_range`); values in the file's units
+        and degrees.
+    condition : str, optional
+        Only this condition.
+    criteria_sets : iterable of CriteriaSet or str, optional
+        Default: :func:`latdyn.assessment.default_criteria` of the aircraft.
+    progress : bool
+        Progress bar on long runs.
+
+    Returns
+    -------
+    SweepResult
+
+    Raises
+    ------
+    InputError
+        A key the condition cannot vary, more than two ranges, a grid too large.
+    """
+    from latdyn.assessment import default_criteria
+    from latdyn.studies.batch import _load_sets
+
+    if not 1 <= len(ranges) <= 2:
+        raise InputError(aircraft.file, "--vary", "one or two --vary ranges", f"{len(ranges)}")
+    if math.prod(r[3] for r in ranges) > MAX_POINTS:
+        raise InputError(aircraft.file, "--vary", f"at most {MAX_POINTS} grid points",
+                         f"{math.prod(r[3] for r in ranges)}")
+    sets = _load_sets(criteria_sets if criteria_sets is not None
+                      else default_criteria(aircraft.airplane_class))
+    chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
+    words = file_units(aircraft)
+    items = []
+    axes = None
+    for item in chosen:
+        allowed = parameter_names(aircraft, item)
+        axes = tuple(SweepAxis(resolve_key(key, allowed, aircraft.file, units_word=words,
+                                           condition=item.name),
+                               np.linspace(start, stop, count))
+                     for key, start, stop, count in ranges)
+        if len({axis.key.name for axis in axes}) != len(axes):
+            raise InputError(aircraft.file, "--vary", "two different keys", "the same key twice")
+        mesh = np.meshgrid(*[axis.values for axis in axes], indexing="ij")
+        cases = condition_set(aircraft, item, _overrides(axes, [m.ravel() for m in mesh]))
+        result = run_batch(cases, sets, progress=progress, path=len(axes) == 1)
+        crossings = find_crossings(aircraft, item, axes, result, sets)
+        items.append(ConditionSweep(item, result, crossings))
+    return SweepResult(aircraft, axes, sets, tuple(items))
+
+
+# ------------------------------------------------------------------ outputs
+_SHOWN = (("dutch_roll_frequency", "DR omega_n [rad/s]"), ("dutch_roll_damping", "DR zeta [-]"),
+          ("roll_time_constant", "T_R [s]"), ("spiral_time_to_double", "spiral T_2 [s]"),
+          ("spiral_time_to_half", "spiral T_half [s]"),
+          ("roll_spiral_frequency", "RS omega_n [rad/s]"), ("roll_spiral_damping", "RS zeta [-]"))
+_MODE_SHORT = {"dutch_roll": "DR", "roll_subsidence": "roll", "spiral": "spiral",
+               "roll_spiral": "RS"}
+
+
+def level_text(criteria, level) -> str:
+    """A batch level as a short word: 1, 2, 3, >3, pass, fail, or - (not assessed)."""
+    level = int(level)
+    if level == 0:
+        return "-"
+    if criteria.assessment == "pass_fail":
+        return "pass" if level == 1 else "fail"
+    return ">3" if level > 3 else str(level)
+
+
+def _json_number(value):
+    value = float(value)
+    return value if math.isfinite(value) else None
+
+
+def sweep_rows(result: SweepResult):
+    """(columns, rows) of the sweep table: one row per condition and grid point."""
+    from latdyn.tables import format_number
+
+    columns = [("condition", "Condition")]
+    columns += [(f"p{k}", axis.key.label) for k, axis in enumerate(result.axes)]
+    shown = [(key, heading) for key, heading in _SHOWN
+             if any(np.isfinite(getattr(c.result.figures, key)).any() for c in result.conditions)]
+    columns += shown
+    columns += [(f"levels:{c.name}", f"{c.name} levels") for c in result.criteria]
+    grid = result.grid()
+    rows = []
+    for item in result.conditions:
+        figures = item.result.figures
+        for i in range(len(grid)):
+            row = {"condition": item.condition.name}
+            for k in range(len(result.axes)):
+                row[f"p{k}"] = f"{grid[i, k]:.6g}"
+            for key, _ in shown:
+                row[key] = format_number(float(getattr(figures, key)[i]))
+            for criteria in result.criteria:
+                parts = [f"{_MODE_SHORT[mode]} {level_text(criteria, grades.level[i])}"
+                         for (name, mode), grades in item.result.levels.items()
+                         if name == criteria.name and int(grades.level[i]) != 0]
+                row[f"levels:{criteria.name}"] = ", ".join(parts) or "-"
+            rows.append(row)
+    return columns, rows
+
+
+def sweep_document(result: SweepResult) -> dict:
+    """The ``latdyn sweep --format json`` document (figures SI; parameters in typed units)."""
+    from latdyn import __version__
+    from latdyn.assessment import NOTICE
+
+    grid = result.grid()
+    conditions = []
+    for item in result.conditions:
+        figures = item.result.figures
+        points = []
+        for i in range(len(grid)):
+            levels = {}
+            for (name, mode), grades in item.result.levels.items():
+                criteria = next(c for c in result.criteria if c.name == name)
+                word = level_text(criteria, grades.level[i])
+                value = None if word == "-" else (word if criteria.assessment == "pass_fail"
+                                                  else int(grades.level[i]))
+                levels.setdefault(name, {})[mode] = value
+            points.append({
+                "parameters": {axis.key.text: float(grid[i, k]) for k, axis in enumerate(result.axes)},
+                "pattern": int(figures.pattern[i]),
+                **{key: _json_number(getattr(figures, key)[i]) for key, _ in _SHOWN},
+                "phi_to_beta": _json_number(figures.phi_to_beta[i]),
+                "roll_root": _json_number(figures.roll_root[i]),
+                "spiral_root": _json_number(figures.spiral_root[i]),
+                "levels": levels,
+            })
+        conditions.append({"name": item.condition.name, "category": item.condition.flight.category,
+                           "points": points})
+    return {
+        "latdyn_version": __version__, "aircraft": result.aircraft.name,
+        "file": result.aircraft.file, "notice": NOTICE,
+        "parameters": [{"key": a.key.text, "unit": a.key.unit, "values": a.values.tolist()}
+                       for a in result.axes],
+        "criteria": [c.name for c in result.criteria],
+        "conditions": conditions,
+        "crossings": [c.as_dict() for c in result.crossings],
+    }

@@ -1,0 +1,306 @@
+"""Uncertainty: Monte Carlo over uncertain derivatives and mass properties.
+
+Each uncertain input is the nominal value plus an independent random
+error: normal with standard deviation ``amount`` or uniform on
+[-amount, +amount]; ``amount`` is absolute (SI) or relative to |nominal|.
+Samples come from a numpy ``Generator`` (PCG64) seeded from the user's seed
+and the condition name, so a run is reproducible and a condition's samples
+do not depend on which other conditions run.  The samples go through the
+batched engine (:mod:`latdyn.studies.batch`); the result per condition and
+mode is the fraction of samples at each level (the level probability, with
+binomial standard error sqrt(p (1 - p) / n)) and percentiles of the mode
+figures.
+
+Levels are guidance only (:data:`latdyn.assessment.NOTICE`).
+"""
+
+from __future__ import annotations
+
+import math
+import zlib
+from dataclasses import dataclass
+
+import numpy as np
+
+from latdyn.aircraft import DISTRIBUTIONS, Uncertainty
+from latdyn.errors import InputError
+from latdyn.studies.batch import FIGURES, condition_set, parameter_names, run_batch
+from latdyn.studies.keys import file_units, resolve_key
+
+__all__ = ["parse_uncertainty", "condition_uncertainties", "draw_samples", "ConditionUncertainty",
+           "UncertaintyResult", "uncertainty", "level_probabilities", "figure_percentiles",
+           "PERCENTILES", "uncertainty_document", "MAX_SAMPLES"]
+
+#: Percentiles reported for every figure [%].
+PERCENTILES = (5.0, 50.0, 95.0)
+#: Most samples per condition [-].
+MAX_SAMPLES = 10_000_000
+_MASS = ("mass", "Ixx", "Izz", "Ixz")
+
+
+def parse_uncertainty(words, file=""):
+    """Parse ``KEY=±20%`` or ``KEY=±0.01`` with an optional distribution word.
+
+    Parameters
+    ----------
+    words : str or list of str
+        The option's words, for example ``["Cn_r=±20%", "uniform"]``.
+
+    Returns
+    -------
+    tuple
+        (key, kind, amount, distribution); amount a fraction for "relative",
+        in the file's units for "absolute".
+
+    Examples
+    --------
+    >>> parse_uncertainty(["Cn_r=±20%"])
+    ('Cn_r', 'relative', 0.2, 'normal')
+    >>> parse_uncertainty("Cn_beta=+-0.01 uniform")
+    ('Cn_beta', 'absolute', 0.01, 'uniform')
+    """
+    if isinstance(words, str):
+        words = words.split()
+    text = " ".join(words)
+    expected = ("KEY=±AMOUNT or KEY=±PERCENT% with an optional normal or uniform "
+                "(for example Cn_r=±20% or Cn_beta=±0.01 uniform)")
+    if not words or len(words) > 2:
+        raise InputError(file, "--vary", expected, f'"{text}"')
+    distribution = words[1].lower() if len(words) == 2 else "normal"
+    if distribution not in DISTRIBUTIONS:
+        raise InputError(file, "--vary", expected, f'"{text}"')
+    key, sep, amount = words[0].partition("=")
+    amount = amount.strip()
+    for sign in ("±", "+/-", "+-"):
+        if amount.startswith(sign):
+            amount = amount[len(sign):]
+            break
+    else:
+        raise InputError(file, "--vary", expected, f'"{text}"')
+    relative = amount.endswith("%")
+    try:
+        value = float(amount[:-1] if relative else amount)
+    except ValueError:
+        raise InputError(file, "--vary", expected, f'"{text}"') from None
+    if not sep or not key.strip() or not math.isfinite(value) or value < 0:
+        raise InputError(file, "--vary", expected, f'"{text}"')
+    return key.strip(), "relative" if relative else "absolute", value / 100 if relative else value, \
+        distribution
+
+
+def condition_uncertainties(aircraft, condition, given=()) -> tuple:
+    """The uncertainties that apply to a condition: the file's, then the given ones (which win).
+
+    Parameters
+    ----------
+    given : iterable of tuple
+        :func:`parse_uncertainty` results (absolute amounts in the file's units).
+
+    Returns
+    -------
+    tuple of latdyn.aircraft.Uncertainty
+        Keys resolved to batch input names, absolute amounts in SI.
+    """
+    allowed = [k for k in parameter_names(aircraft, condition)
+               if k in _MASS or k in _derivative_names(condition)]
+    out = {}
+    words = file_units(aircraft) if given else "SI"
+    for item in aircraft.uncertainties:
+        if item.key in allowed:  # file entries for the other derivative kind do not apply here
+            out[item.key] = item
+    for key_text, kind, amount, distribution in given:
+        key = resolve_key(key_text, allowed, aircraft.file, "--vary", words, condition.name)
+        si_amount = key.to_si(amount) if kind == "absolute" else amount
+        out[key.name] = Uncertainty(key.name, kind, float(si_amount), distribution)
+    return tuple(out[k] for k in sorted(out))
+
+
+def _derivative_names(condition):
+    from latdyn.model import COEFFICIENT_NAMES, DIMENSIONAL_NAMES
+    from latdyn.aircraft import NondimensionalDerivatives
+
+    if isinstance(condition.derivatives, NondimensionalDerivatives):
+        return COEFFICIENT_NAMES
+    return DIMENSIONAL_NAMES
+
+
+def _nominal(aircraft, condition, name):
+    if name in _MASS:
+        return float(getattr(aircraft.mass, name))
+    return float(getattr(condition.derivatives, name))
+
+
+def _generator(seed, condition_name):
+    return np.random.default_rng([int(seed), zlib.crc32(condition_name.encode("utf-8"))])
+
+
+def draw_samples(aircraft, condition, uncertainties, samples, seed) -> dict:
+    """Sampled inputs {name: (samples,) array [SI]} of one condition.
+
+    Normal: nominal + s N(0, 1); uniform: nominal + U(-s, s), with s the
+    amount (absolute) or amount |nominal| (relative).  Inputs are drawn in
+    name order from one Generator, so the same seed gives the same samples.
+    """
+    rng = _generator(seed, condition.name)
+    out = {}
+    for item in sorted(uncertainties, key=lambda u: u.key):
+        nominal = _nominal(aircraft, condition, item.key)
+        scale = item.amount * abs(nominal) if item.kind == "relative" else item.amount
+        if item.distribution == "normal":
+            error = rng.standard_normal(samples)
+        else:
+            error = rng.uniform(-1.0, 1.0, samples)
+        out[item.key] = nominal + scale * error
+    return out
+
+
+def level_probabilities(criteria, levels) -> dict:
+    """Fractions of the samples at each level (they sum to 1).
+
+    Keys: "level 1", "level 2", "level 3", "beyond level 3" (levels sets) or
+    "pass", "fail" (pass/fail sets), and "not assessed".
+    """
+    levels = np.asarray(levels)
+    n = max(levels.size, 1)
+    if criteria.assessment == "pass_fail":
+        names = {1: "pass", 2: "fail"}
+    else:
+        names = {1: "level 1", 2: "level 2", 3: "level 3", 4: "beyond level 3"}
+    out = {word: float(np.count_nonzero(levels == value)) / n for value, word in names.items()}
+    out["not assessed"] = float(np.count_nonzero(~np.isin(levels, list(names)))) / n
+    return out
+
+
+def figure_percentiles(values) -> dict:
+    """Percentiles (:data:`PERCENTILES`), mean and the fraction of samples where the figure exists."""
+    values = np.asarray(values, dtype=float)
+    finite = values[np.isfinite(values)]
+    out = {"available": float(finite.size) / max(values.size, 1)}
+    if finite.size:
+        for p, v in zip(PERCENTILES, np.percentile(finite, PERCENTILES)):
+            out[f"p{p:g}"] = float(v)
+        out["mean"] = float(finite.mean())
+    else:
+        out.update({f"p{p:g}": None for p in PERCENTILES})
+        out["mean"] = None
+    return out
+
+
+@dataclass(frozen=True)
+class ConditionUncertainty:
+    """Monte Carlo result of one condition; unpacks as (condition, probabilities, percentiles).
+
+    Attributes
+    ----------
+    condition : latdyn.aircraft.Condition
+    uncertainties : tuple of Uncertainty
+    figures : latdyn.studies.batch.Figures
+        Every sample's figures.
+    probabilities : dict
+        (criteria name, mode) -> :func:`level_probabilities`.
+    percentiles : dict
+        Figure name -> :func:`figure_percentiles`.
+    """
+
+    condition: object
+    uncertainties: tuple
+    figures: object
+    probabilities: dict
+    percentiles: dict
+
+    def __iter__(self):
+        return iter((self.condition, self.probabilities, self.percentiles))
+
+
+@dataclass(frozen=True)
+class UncertaintyResult:
+    """A whole Monte Carlo run."""
+
+    aircraft: object
+    samples: int
+    seed: int
+    criteria: tuple
+    conditions: tuple
+
+
+def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, criteria_sets=None,
+                progress=False) -> UncertaintyResult:
+    """Level probabilities and figure percentiles under the derivatives' uncertainty.
+
+    Parameters
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+    given : iterable of tuple
+        Command-line uncertainties (:func:`parse_uncertainty`), added to the
+        file's [uncertainty] tables (and replacing the same keys).
+    samples : int
+        Samples per condition [-].
+    seed : int, optional
+        Seed; None draws one (reported in the result, to repeat the run).
+    condition : str, optional
+    criteria_sets : iterable, optional
+        Default :func:`latdyn.assessment.default_criteria`.
+    progress : bool
+
+    Returns
+    -------
+    UncertaintyResult
+
+    Raises
+    ------
+    InputError
+        No uncertainty given, a bad key or sample count.
+    """
+    from latdyn.assessment import default_criteria
+    from latdyn.studies.batch import _load_sets
+
+    if not 1 <= samples <= MAX_SAMPLES:
+        raise InputError(aircraft.file, "--samples", f"a whole number from 1 to {MAX_SAMPLES}",
+                         str(samples))
+    if seed is None:
+        seed = int(np.random.SeedSequence().entropy % (2**63))
+    if seed < 0:
+        raise InputError(aircraft.file, "--seed", "a whole number >= 0", str(seed))
+    sets = _load_sets(criteria_sets if criteria_sets is not None
+                      else default_criteria(aircraft.airplane_class))
+    chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
+    items = []
+    for item in chosen:
+        specs = condition_uncertainties(aircraft, item, given)
+        if not specs:
+            raise InputError(aircraft.file, "uncertainty",
+                             "an [uncertainty.KEY] table in the file or --vary KEY=±AMOUNT",
+                             "no uncertainty for this condition's derivatives", item.name)
+        drawn = draw_samples(aircraft, item, specs, samples, seed)
+        result = run_batch(condition_set(aircraft, item, drawn), sets, progress=progress)
+        probabilities = {}
+        for (name, mode), grades in result.levels.items():
+            criteria = next(c for c in sets if c.name == name)
+            probabilities[(name, mode)] = level_probabilities(criteria, grades.level)
+        percentiles = {name: figure_percentiles(getattr(result.figures, name))
+                       for name in FIGURES}
+        items.append(ConditionUncertainty(item, specs, result.figures, probabilities, percentiles))
+    return UncertaintyResult(aircraft, samples, seed, sets, tuple(items))
+
+
+def uncertainty_document(result: UncertaintyResult) -> dict:
+    """The ``latdyn uncertainty --format json`` document (SI)."""
+    from latdyn import __version__
+    from latdyn.assessment import NOTICE
+
+    return {
+        "latdyn_version": __version__, "aircraft": result.aircraft.name,
+        "file": result.aircraft.file, "notice": NOTICE, "samples": result.samples,
+        "seed": result.seed, "criteria": [c.name for c in result.criteria],
+        "conditions": [{
+            "name": item.condition.name, "category": item.condition.flight.category,
+            "uncertainties": [{"key": u.key, "kind": u.kind, "amount": u.amount,
+                               "distribution": u.distribution} for u in item.uncertainties],
+            "levels": [{"criteria": name, "mode": mode, "probabilities": p,
+                        "standard_error": {k: math.sqrt(v * (1 - v) / result.samples)
+                                           for k, v in p.items()}}
+                       for (name, mode), p in item.probabilities.items()],
+            "figures": {name: {"unit": FIGURES[name], **values}
+                        for name, values in item.percentiles.items()},
+        } for item in result.conditions],
+    }
