@@ -23,13 +23,15 @@ from latdyn.errors import InputError, describe_value
 __all__ = [
     "Geometry", "MassProperties", "FlightCondition", "NondimensionalDerivatives",
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
-    "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES",
+    "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES", "FLIGHT_PHASES",
     "Fin", "Uncertainty", "DISTRIBUTIONS",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
 CATEGORIES = ("A", "B", "C")
 AXES = ("body", "stability")
+#: Sub-phases of Category A named by MIL-F-8785C for its combat and ground-attack bands.
+FLIGHT_PHASES = ("combat", "ground_attack")
 
 
 @dataclass(frozen=True)
@@ -101,6 +103,9 @@ class FlightCondition:
         Flight-path angle [rad].
     description : str or None
         Free text.
+    flight_phase : str or None
+        Sub-phase within the category for bands that hold only in some
+        phases, "combat" or "ground_attack" (MIL-F-8785C Category A).
     """
 
     name: str
@@ -113,6 +118,7 @@ class FlightCondition:
     alpha: float = 0.0
     gamma: float = 0.0
     description: str | None = None
+    flight_phase: str | None = None
 
     @property
     def dynamic_pressure(self) -> float:
@@ -455,6 +461,12 @@ def _altitude_limits_text(leaf_units):
 
 def _flight(entry, name, context):
     category = _word(entry, "category", "condition.category", context, CATEGORIES, required=False)
+    flight_phase = _word(entry, "flight_phase", "condition.flight_phase", context, FLIGHT_PHASES,
+                         required=False)
+    if flight_phase is not None and category != "A":
+        context.fail("condition.flight_phase", 'category = "A" with a combat or ground-attack phase',
+                     f"category {describe_value(category) if category else 'not given'}",
+                     entry["flight_phase"])
     altitude = _number(entry, "altitude", "condition.altitude", context, "length", required=False)
     if altitude is not None and not (atmosphere.MIN_ALTITUDE <= altitude <= atmosphere.MAX_ALTITUDE):
         leaf = entry["altitude"]
@@ -500,6 +512,7 @@ def _flight(entry, name, context):
         mach=mach, speed_of_sound=speed_of_sound, alpha=angles["alpha_deg"],
         gamma=angles["gamma_deg"],
         description=description.value if isinstance(description, Leaf) else None,
+        flight_phase=flight_phase,
     )
 
 

@@ -48,7 +48,8 @@ SCHEMA = {
     "mass": {"mass": "mass", "Ixx": "inertia", "Iyy": "inertia", "Izz": "inertia",
              "Ixz": "inertia", "inertia_axes": None},
     "condition": {
-        "name": None, "description": None, "category": None, "altitude": "length",
+        "name": None, "description": None, "category": None, "flight_phase": None,
+        "altitude": "length",
         "density": "density", "speed": "speed", "mach": "none",
         "alpha_deg": "none", "gamma_deg": "none",
         "derivatives": {"axes": None, **{key: "none" for key in NONDIMENSIONAL_KEYS}},

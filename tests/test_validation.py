@@ -230,3 +230,32 @@ def test_extends_keeps_each_files_units(write_file):
     aircraft = load_aircraft(variant)
     assert aircraft.mass.mass == pytest.approx(925.0 * 14.593902937)
     assert aircraft.mass.Ixx == pytest.approx(1.1e5)
+
+
+@pytest.mark.parametrize("old,new,pattern", [
+    ('category = "C"', 'category = "A"\nflight_phase = "dogfight"',
+     r'condition\.flight_phase: expected "combat" or "ground_attack", found "dogfight"'),
+    ('category = "C"', 'category = "C"\nflight_phase = "combat"',
+     r'condition\.flight_phase: expected category = "A" with a combat or ground-attack phase, found category "C"'),
+], ids=["flight-phase-word", "flight-phase-outside-category-A"])
+def test_flight_phase_rules(old, new, pattern, write_file):
+    with pytest.raises(InputError, match=pattern):
+        load_aircraft(write_file("phase.toml", edit(old, new)))
+
+
+def test_flight_phase_reaches_the_assessment(write_file):
+    """MIL-F-8785C Table VI (recalled): Class IV, Category A combat and ground-attack phases,
+    Level 1 needs zeta_d >= 0.4, against 0.19 otherwise."""
+    from latdyn.assessment import assess
+
+    text = edit('airplane_class = "II-L"', 'airplane_class = "IV"',
+                edit('category = "C"', 'category = "A"\nflight_phase = "combat"'))
+    combat = assess(load_aircraft(write_file("combat.toml", text)))
+    plain = assess(load_aircraft(write_file("plain.toml", text.replace('flight_phase = "combat"\n', ""))))
+
+    def dutch(result):
+        return next(a for a in result.conditions[0].assessments if a.mode == "dutch_roll")
+
+    assert dutch(combat).governing == "damping_ratio" and dutch(combat).limit == pytest.approx(0.4)
+    assert dutch(plain).limit != pytest.approx(0.4)
+    assert combat.conditions[0].flight_phase == "combat"
