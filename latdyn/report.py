@@ -215,6 +215,19 @@ def _flight_rows(result):
     return [{"key": k, "quantity": q, "unit": u, "value": v} for k, q, u, v in rows]
 
 
+def _mass_rows(aircraft):
+    rows = []
+    if aircraft.mass is not None:
+        m = aircraft.mass
+        rows += [("Mass", "kg", m.mass), ("Ixx", "kg m^2", m.Ixx), ("Izz", "kg m^2", m.Izz),
+                 ("Ixz (integral of x z dm)", "kg m^2", m.Ixz), ("Inertia axes", "-", m.axes)]
+    if aircraft.geometry is not None:
+        g = aircraft.geometry
+        rows += [("Wing area S", "m^2", g.wing_area), ("Span b", "m", g.span),
+                 ("Mean chord", "m", g.mean_chord)]
+    return [{"quantity": q, "unit": u, "value": v} for q, u, v in rows]
+
+
 def _derivative_rows(result):
     """One row per derivative: as given in the file, and the primed dimensional one used."""
     from latdyn.aircraft import NondimensionalDerivatives
@@ -341,7 +354,7 @@ def _close(figure):
 
 
 def _save(report, folder, figure, name):
-    from latdyn.plots.levels import save_both
+    from latdyn.plots import save_both
 
     os.makedirs(os.path.join(folder, "figures"), exist_ok=True)
     save_both(figure, os.path.join(folder, "figures", name + ".png"))
@@ -466,6 +479,9 @@ def build_report(files, variants=(), criteria_sets=None, folder=None, progress=N
         report.add(Heading(2, aircraft.name, slug),
                    Paragraph(f"File {aircraft.file}; airplane class {aircraft.airplane_class or 'not given'}."
                              + (f" {aircraft.description}." if aircraft.description else "")))
+        report.add(Table(f"{slug}-mass-geometry", "Mass, inertia and geometry (SI, as read from the file)",
+                         (("quantity", "Quantity"), ("unit", "Unit"), ("value", "Value")),
+                         tuple(_mass_rows(aircraft))))
         _save(report, folder, s_plane_map(assessment), f"{slug}-s-plane")
         report.add(Figure(f"{slug}-s-plane", "Roots of every condition in the s-plane."))
         level_sets = [c for c in assessment.criteria if c.assessment == "levels"

@@ -4,4 +4,46 @@ One module per kind of figure; each function draws onto a new figure and
 returns it, or writes it atomically when given a path.
 """
 
-__all__ = []
+import os
+
+__all__ = ["save_figure", "save_both"]
+
+
+def save_figure(figure, path, dpi=150):
+    """Write a figure atomically (temporary file in the same folder, then rename).
+
+    Parameters
+    ----------
+    figure : matplotlib.figure.Figure
+    path : str or os.PathLike
+        Output file; the format follows the suffix (``.png``, ``.pdf``, ``.svg``).
+    dpi : int
+        Resolution of raster formats [dots per inch].
+
+    Returns
+    -------
+    path
+    """
+    from latdyn.output_files import atomic_path
+
+    with atomic_path(path) as temporary:
+        figure.savefig(temporary, dpi=dpi, facecolor="white")
+    return path
+
+
+def save_both(figure, path, dpi=150):
+    """Write a figure to ``path`` and, when it ends in .png or .svg, to the other format too.
+
+    Returns
+    -------
+    list of str
+        The paths written.
+    """
+    path = os.fspath(path)
+    base, suffix = os.path.splitext(path)
+    targets = [path]
+    if suffix.lower() in (".png", ".svg"):
+        targets.append(base + (".svg" if suffix.lower() == ".png" else ".png"))
+    for target in targets:
+        save_figure(figure, target, dpi)
+    return targets

@@ -23,8 +23,10 @@ import textwrap
 
 import numpy as np
 
+from latdyn.plots import save_both
+
 __all__ = ["LEVEL_COLOURS", "LEVEL_INK", "dutch_roll_chart", "roll_spiral_chart", "s_plane_map",
-           "write_assessment_figures", "save_both"]
+           "write_assessment_figures"]
 
 #: Region fills by level (1, 2, 3, 4 = beyond Level 3): sage, straw, apricot, rose.
 LEVEL_COLOURS = {1: "#d3e9d6", 2: "#f2e4b8", 3: "#f2c9a9", 4: "#e8aeae"}
@@ -381,27 +383,6 @@ def _finish(figure, path):
     if path is None:
         return figure
     return save_both(figure, path)[0]
-
-
-def save_both(figure, path, dpi=150):
-    """Write a figure atomically to ``path`` and, when it ends in .png or .svg, to the other format too.
-
-    Returns
-    -------
-    list of str
-        The paths written.
-    """
-    from latdyn.output_files import atomic_path
-
-    path = os.fspath(path)
-    base, suffix = os.path.splitext(path)
-    targets = [path]
-    if suffix.lower() in (".png", ".svg"):
-        targets.append(base + (".svg" if suffix.lower() == ".png" else ".png"))
-    for target in targets:
-        with atomic_path(target) as temporary:
-            figure.savefig(temporary, dpi=dpi, facecolor="white")
-    return targets
 
 
 def _slug(result):

@@ -18,7 +18,9 @@ import math
 
 import numpy as np
 
-__all__ = ["PALETTE", "time_history_figure", "bode_figure", "save_figure"]
+from latdyn.plots import save_figure
+
+__all__ = ["PALETTE", "time_history_figure", "bode_figure"]
 
 #: Case colours, in order (deep blue, burnt orange, sea green, violet, ochre, slate).
 PALETTE = ("#22416b", "#c4572f", "#2a8c7a", "#8a5a9e", "#b8912a", "#5b6770")
@@ -71,24 +73,6 @@ def _eigen_dutch(modes):
     if dutch is None or not dutch.oscillatory:
         return None
     return dutch
-
-
-def save_figure(figure, path, dpi=150):
-    """Write a figure atomically (temporary file in the same folder, then rename).
-
-    Parameters
-    ----------
-    figure : matplotlib.figure.Figure
-    path : str or os.PathLike
-        Output file; the format follows the suffix (``.png``, ``.pdf``, ``.svg``).
-    dpi : int
-        Resolution of raster formats [dots per inch].
-    """
-    from latdyn.output_files import atomic_path
-
-    with atomic_path(path) as temporary:
-        figure.savefig(temporary, dpi=dpi, facecolor="white")
-    return path
 
 
 def time_history_figure(responses, readouts=None, modes=None, labels=None, title=None,
