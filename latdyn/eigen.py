@@ -19,8 +19,10 @@ solved for the whole stack at once:
    kept only where it lowers |p(lambda)|; conjugate pairs are kept exactly
    conjugate.
 4. Right eigenvectors from the adjugate of (A - lambda I), which has rank
-   one at a simple root: its column of largest norm is the eigenvector
-   (Golub and Van Loan, section 7.1; common practice).
+   one at a simple root: its columns are multiples of the eigenvector
+   (Golub and Van Loan, section 7.1; common practice).  Only the columns
+   of the sideslip and bank rows are formed; a root where both are small
+   against |p'(lambda)| goes to LAPACK.
 
 Cases the quartic route cannot resolve to full accuracy (roots closer than
 :data:`SEPARATION` of the spectral scale, polynomial coefficients not
@@ -41,6 +43,8 @@ SEPARATION = 1e-4
 #: above which a case goes to LAPACK [-].
 COEFFICIENT_TOLERANCE = 1e-10
 NEWTON_STEPS = 2
+#: Least norm of the chosen adjugate column, as a share of |p'(lambda)| [-].
+ADJUGATE_SHARE = 0.05
 
 
 def _minors(A):
@@ -238,11 +242,14 @@ def quartic_roots(coefficients):
     return np.ascontiguousarray(roots.T), np.ascontiguousarray(pair.T)
 
 
-def _adjugate_vectors(A, roots):
+def _adjugate_vectors(A, roots, rows=(0, 1, 2, 3)):
     """Right eigenvectors from the adjugate of (A - lambda I), unit 2-norm.
 
-    Works in a (component, root, case) layout so that every array operation
-    runs over contiguous memory.
+    Only the adjugate columns of ``rows`` are formed (column i of adj(M) is
+    built from the cofactors of row i of M); the one of largest norm is
+    taken.  Works in a (component, root, case) layout so that every array
+    operation runs over contiguous memory.  Returns the vectors and the
+    norm of the chosen column.
     """
     a = np.ascontiguousarray(np.moveaxis(A, 0, -1))  # (4, 4, n) real
     lam = np.ascontiguousarray(roots.T)  # (4 roots, n)
@@ -255,7 +262,7 @@ def _adjugate_vectors(A, roots):
     cols = ((1, 2, 3), (0, 2, 3), (0, 1, 3), (0, 1, 2))
     shape = lam.shape
     best = None
-    for i in range(4):
+    for i in rows:
         # cofactors of row i: the 3x3 minor expanded along its first (i = 0, 1)
         # or last (i = 2, 3) row, signs +, -, +; then (-1)^(i+j)
         row, minors = (m[1 - i], bottom) if i < 2 else (m[5 - i], top)
@@ -312,7 +319,13 @@ def eig_stack(A):
     coefficients = characteristic_coefficients(A)
     with np.errstate(all="ignore"):
         values, _ = quartic_roots(coefficients)
-        vectors, length = _adjugate_vectors(A, values)
+        # adjugate columns of the sideslip and bank rows only; at a simple root
+        # column i of adj(lambda I - A) = p'(lambda) w_i v / (w^T v), so a column
+        # norm of at least ADJUGATE_SHARE |p'(lambda)| means |w_i| / |w^T v| is
+        # not small and the column is accurate; other cases go to LAPACK
+        vectors, length = _adjugate_vectors(A, values, rows=(0, 3))
+        _, slope = _evaluate(*np.ascontiguousarray(coefficients.T)[:, :, None], values)
+        resolved = length >= ADJUGATE_SHARE * np.abs(slope)
         scale = np.max(np.abs(values), axis=1)
         gaps = np.where(np.eye(4, dtype=bool), np.inf,
                         np.abs(values[:, :, None] - values[:, None, :]))
@@ -329,7 +342,7 @@ def eig_stack(A):
         powers = np.maximum(scale, np.finfo(float).tiny)[:, None] ** np.arange(1, 5)
         mismatch = np.max(np.abs(rebuilt - coefficients) / powers, axis=1)
         good = (separated & (mismatch < COEFFICIENT_TOLERANCE)
-                & np.all(np.isfinite(vectors), axis=(1, 2)) & np.all(length > 0, axis=1))
+                & np.all(np.isfinite(vectors), axis=(1, 2)) & np.all(resolved, axis=1))
     bad = ~good
     if bad.any():
         values[bad], vectors[bad] = np.linalg.eig(A[bad])
