@@ -1,7 +1,7 @@
 """Figures of the design studies: sweep curves and root locus, level maps, uncertainty scatter.
 
 matplotlib is imported inside the functions; figures are built without
-pyplot and written atomically (:func:`latdyn.plots.levels.save_both`).
+pyplot and written atomically (:func:`latdyn.plots.save_both`).
 Every figure that shows a level carries the guidance-only notice
 (:data:`latdyn.assessment.NOTICE`).
 """
@@ -41,7 +41,7 @@ def companion_path(path, tag) -> str:
 
 
 def _save(figure, path):
-    from latdyn.plots.levels import save_both
+    from latdyn.plots import save_both
 
     return save_both(figure, path)
 
