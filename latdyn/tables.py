@@ -9,7 +9,8 @@ import io
 import math
 
 __all__ = [
-    "MODE_LABELS", "MODE_COLUMNS", "mode_rows", "render", "render_text", "render_markdown",
+    "MODE_LABELS", "MODE_COLUMNS", "SHAPE_COLUMNS", "mode_rows", "shape_rows", "render",
+    "render_text", "render_markdown",
     "render_csv", "format_number", "format_root",
 ]
 
@@ -105,6 +106,43 @@ def mode_rows(modes):
             "phi_to_beta": format_number(mode.phi_to_beta, 3),
             "status": _status(mode),
         })
+    return rows
+
+
+#: (key, heading) of the mode-shape table.
+SHAPE_COLUMNS = (
+    ("mode", "Mode"), ("reference", "Relative to"),
+    ("beta", "beta [rad] (phase deg)"), ("p", "p [rad/s] (phase deg)"),
+    ("r", "r [rad/s] (phase deg)"), ("phi", "phi [rad] (phase deg)"),
+)
+
+
+def shape_rows(modes):
+    """Rows of the mode shapes: each state's magnitude and phase relative to the reference state.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from latdyn.modes import modes_from_matrix
+    >>> A = np.array([[-0.1113, 0.0, -1.0, 0.1321], [-1.328, -0.951, 0.609, 0.0],
+    ...               [0.757, -0.124, -0.265, 0.0], [0.0, 1.0, 0.0, 0.0]])
+    >>> shape_rows(modes_from_matrix(A))[0]["reference"]
+    'beta'
+    """
+    import math as _math
+
+    rows = []
+    for mode in modes:
+        shape = mode.mode_shape
+        if shape is None:
+            continue
+        row = {"mode": MODE_LABELS[mode.name], "reference": shape.normalised_to}
+        for state in ("beta", "p", "r", "phi"):
+            magnitude = shape.magnitude[state]
+            phase = _math.degrees(shape.phase[state])
+            row[state] = f"{format_number(magnitude, 3)} ({phase:+.0f})" if mode.oscillatory \
+                else f"{'-' if abs(phase) > 90 else '+'}{format_number(magnitude, 3)}"
+        rows.append(row)
     return rows
 
 

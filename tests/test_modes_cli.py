@@ -69,3 +69,14 @@ def test_modes_imports_neither_matplotlib_nor_control(demo_files):
             "sys.exit(3 if bad else 0)") % str(demo_files[0])
     run = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
     assert run.returncode == 0, run.stderr
+
+
+def test_shapes_option_prints_the_mode_shapes(demo_files, capsys):
+    """Dutch roll shape relative to beta (magnitude 1, phase 0); |phi/beta| equals the table's."""
+    assert main(["modes", str(demo_files[0]), "--condition", "cruise", "--shapes"]) == 0
+    out = capsys.readouterr().out
+    shape = next(line for line in out.splitlines() if line.startswith("Dutch roll") and "beta " in line)
+    cells = shape.split()
+    assert cells[2:5] == ["beta", "1.00", "(+0)"]
+    table = next(line for line in out.splitlines() if line.startswith("Dutch roll") and "stable" in line)
+    assert table.split()[-2] == cells[-2]  # |phi/beta| from the same eigenvector

@@ -13,6 +13,8 @@ def add_arguments(parser):
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     parser.add_argument("--json", action="store_true",
                         help="print the JSON document (SI units) instead of tables")
+    parser.add_argument("--shapes", action="store_true",
+                        help="also print the mode shapes (eigenvector magnitudes and phases)")
 
 
 def condition_heading(result):
@@ -38,7 +40,7 @@ def condition_heading(result):
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.results import analyse_aircraft, modes_document
-    from latdyn.tables import MODE_COLUMNS, mode_rows, render_text
+    from latdyn.tables import MODE_COLUMNS, SHAPE_COLUMNS, mode_rows, render_text, shape_rows
 
     aircraft_list = [load_aircraft(path) for path in args.files]
     if args.condition:
@@ -56,6 +58,10 @@ def run(args):
             lines += ["", condition_heading(result),
                       f"  roots: {result.modes.pattern}",
                       render_text(MODE_COLUMNS, mode_rows(result.modes))]
+            if args.shapes:
+                lines += ["  mode shapes (real modes: signed magnitude; oscillations: magnitude "
+                          "and phase in degrees):",
+                          render_text(SHAPE_COLUMNS, shape_rows(result.modes))]
         for warning in aircraft.warnings:
             lines.append(f"warning: {warning}")
         texts.append("\n".join(lines))
