@@ -15,57 +15,81 @@ solved for the whole stack at once:
    and non-negative (R. W. D. Nickalls, "The quartic equation: invariants
    and Euler's solution revealed", *The Mathematical Gazette* 93, 2009,
    pp. 66-75; the factorisation is classical, common practice).
-3. Each root polished by Newton steps on the undepressed quartic, a step
-   kept only where it lowers |p(lambda)|; conjugate pairs are kept exactly
-   conjugate.
-4. Right eigenvectors from the adjugate of (A - lambda I), which has rank
+3. Each root polished by one Newton step on the undepressed quartic; of a
+   complex pair only the upper root is polished and the lower one is its
+   exact conjugate, real roots stay exactly real.
+4. Eigenvector components from the adjugate of (A - lambda I), which has rank
    one at a simple root: its columns are multiples of the eigenvector
-   (Golub and Van Loan, section 7.1; common practice).  Only the columns
-   of the sideslip and bank rows are formed; a root where both are small
-   against |p'(lambda)| goes to LAPACK.
+   (Golub and Van Loan, section 7.1; common practice).  Every cofactor of
+   A - lambda I is a polynomial in lambda of degree 3 at most, with
+   coefficients from A alone: they are formed once per matrix and evaluated
+   at the four roots by Horner's rule.  Only the columns of the sideslip and
+   bank rows are used; a root where the sideslip and bank components of both
+   are small against |p'(lambda)| goes to LAPACK.
+
+Complex numbers are carried as real and imaginary parts in real arrays
+(numpy's complex loops are several times slower than its real ones), in a
+(component, case) layout so every operation runs over contiguous memory.
 
 Cases the quartic route cannot resolve to full accuracy (roots closer than
 :data:`SEPARATION` of the spectral scale, polynomial coefficients not
 reproduced by the roots, non-finite values) are passed to
 ``numpy.linalg.eig`` (LAPACK ``geev``), so every returned root is either a
 polished simple root or LAPACK's.
+
+Roots are returned in *factor layout*: slots (0, 1) and (2, 3) each hold
+either a complex pair, upper root first and the lower its exact conjugate,
+or two real roots (LAPACK's roots are put in the same layout).
 """
 
 from __future__ import annotations
 
+from typing import NamedTuple
+
 import numpy as np
 
-__all__ = ["characteristic_coefficients", "quartic_roots", "eig_stack", "SEPARATION"]
+__all__ = ["characteristic_coefficients", "quartic_roots", "eig_stack", "eig_components",
+           "EigenComponents", "SEPARATION"]
 
 #: Roots closer than this fraction of the spectral scale go to LAPACK [-].
 SEPARATION = 1e-4
 #: Relative mismatch of the polynomial coefficients rebuilt from the roots
 #: above which a case goes to LAPACK [-].
 COEFFICIENT_TOLERANCE = 1e-10
-NEWTON_STEPS = 2
-#: Least norm of the chosen adjugate column, as a share of |p'(lambda)| [-].
+#: Least size of the sideslip and bank components of the chosen adjugate
+#: column, as a share of |p'(lambda)| [-].
 ADJUGATE_SHARE = 0.05
 
 
-def _minors(A):
-    """2x2 minors of rows (0, 1) and of rows (2, 3), keyed by column pair."""
-    a = [[A[..., i, j] for j in range(4)] for i in range(4)]
-    pairs = ((0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3))
-    top = {(i, j): a[0][i] * a[1][j] - a[0][j] * a[1][i] for i, j in pairs}
-    bottom = {(i, j): a[2][i] * a[3][j] - a[2][j] * a[3][i] for i, j in pairs}
-    return a, top, bottom
+def _entries(A):
+    """(4, 4, ...) contiguous copy of (..., 4, 4) matrices: entry (i, j) of all of them in a row."""
+    return np.ascontiguousarray(np.moveaxis(np.asarray(A, dtype=float), (-2, -1), (0, 1)))
 
 
-def _det3(a, rows, cols):
-    (r0, r1, r2), (k0, k1, k2) = rows, cols
-    return (a[r0][k0] * (a[r1][k1] * a[r2][k2] - a[r1][k2] * a[r2][k1])
-            - a[r0][k1] * (a[r1][k0] * a[r2][k2] - a[r1][k2] * a[r2][k0])
-            + a[r0][k2] * (a[r1][k0] * a[r2][k1] - a[r1][k1] * a[r2][k0]))
+def _coefficients(a):
+    """c1..c4 of det(lambda I - A) from entries in (4, 4, ...) layout."""
+    def minor(rows, i, j):  # 2x2 minor of two rows and columns i, j
+        r0, r1 = rows
+        return a[r0, i] * a[r1, j] - a[r0, j] * a[r1, i]
 
+    top = {(i, j): minor((0, 1), i, j) for i, j in ((0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3))}
+    bottom = {(i, j): minor((2, 3), i, j) for i, j in ((0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3))}
 
-def _det4(top, bottom):
-    return (top[0, 1] * bottom[2, 3] - top[0, 2] * bottom[1, 3] + top[0, 3] * bottom[1, 2]
-            + top[1, 2] * bottom[0, 3] - top[1, 3] * bottom[0, 2] + top[2, 3] * bottom[0, 1])
+    def det3(rows):
+        r0, r1, r2 = rows
+        k0, k1, k2 = rows
+        return (a[r0, k0] * (a[r1, k1] * a[r2, k2] - a[r1, k2] * a[r2, k1])
+                - a[r0, k1] * (a[r1, k0] * a[r2, k2] - a[r1, k2] * a[r2, k0])
+                + a[r0, k2] * (a[r1, k0] * a[r2, k1] - a[r1, k1] * a[r2, k0]))
+
+    c1 = -(a[0, 0] + a[1, 1] + a[2, 2] + a[3, 3])
+    c2 = (top[0, 1] + bottom[2, 3]
+          + a[0, 0] * a[2, 2] - a[0, 2] * a[2, 0] + a[0, 0] * a[3, 3] - a[0, 3] * a[3, 0]
+          + a[1, 1] * a[2, 2] - a[1, 2] * a[2, 1] + a[1, 1] * a[3, 3] - a[1, 3] * a[3, 1])
+    c3 = -(det3((0, 1, 2)) + det3((0, 1, 3)) + det3((0, 2, 3)) + det3((1, 2, 3)))
+    c4 = (top[0, 1] * bottom[2, 3] - top[0, 2] * bottom[1, 3] + top[0, 3] * bottom[1, 2]
+          + top[1, 2] * bottom[0, 3] - top[1, 3] * bottom[0, 2] + top[2, 3] * bottom[0, 1])
+    return c1, c2, c3, c4
 
 
 def characteristic_coefficients(A):
@@ -94,89 +118,145 @@ def characteristic_coefficients(A):
     >>> characteristic_coefficients(np.diag([1.0, 2.0, 3.0, 4.0])).tolist()
     [-10.0, 35.0, -50.0, 24.0]
     """
-    A = np.asarray(A, dtype=float)
-    a, top, bottom = _minors(A)
-    c1 = -(a[0][0] + a[1][1] + a[2][2] + a[3][3])
-    c2 = (top[0, 1] + bottom[2, 3]
-          + a[0][0] * a[2][2] - a[0][2] * a[2][0] + a[0][0] * a[3][3] - a[0][3] * a[3][0]
-          + a[1][1] * a[2][2] - a[1][2] * a[2][1] + a[1][1] * a[3][3] - a[1][3] * a[3][1])
-    c3 = -sum(_det3(a, rows, rows) for rows in ((0, 1, 2), (0, 1, 3), (0, 2, 3), (1, 2, 3)))
-    c4 = _det4(top, bottom)
-    return np.stack([c1, c2, c3, c4], axis=-1)
+    return np.stack(_coefficients(_entries(A)), axis=-1)
 
 
 def _largest_cubic_root(b, c, d):
-    """Largest real root of U^3 + b U^2 + c U + d (real coefficients, arrays)."""
+    """Largest real root of U^3 + b U^2 + c U + d (real coefficients, arrays).
+
+    Cardano's formula where the cubic has one real root, the trigonometric
+    form where it has three (computed only for those cases), then two Newton
+    steps on the cubic.
+    """
     # depressed cubic t^3 + P t + Q with U = t - b/3
     shift = b / 3.0
     P = c - b * shift
-    Q = d - c * shift + 2.0 * shift**3
-    half_q = Q / 2.0
+    Q = d - c * shift + 2.0 * shift * shift * shift
+    half_q = 0.5 * Q
     third_p = P / 3.0
-    disc = half_q**2 + third_p**3
+    disc = half_q * half_q + third_p * third_p * third_p
     with np.errstate(invalid="ignore", divide="ignore"):
         # one real root (disc > 0): Cardano with the sign chosen against cancellation
-        root_disc = np.sqrt(np.maximum(disc, 0.0))
-        s = np.cbrt(-half_q - np.copysign(root_disc, half_q))
-        one = np.where(s != 0.0, s - third_p / s, 0.0)
-        # three real roots (disc <= 0): trigonometric form, the largest
-        m = np.sqrt(np.maximum(-third_p, 0.0))
-        cos_arg = np.clip(np.where(m > 0, -half_q / np.where(m > 0, m, 1.0) ** 3, 0.0), -1, 1)
-        three = 2.0 * m * np.cos(np.arccos(cos_arg) / 3.0)
-    U = np.where(disc > 0, one, three) - shift
-    for _ in range(2):  # Newton polish on the cubic
-        f = ((U + b) * U + c) * U + d
-        df = (3.0 * U + 2.0 * b) * U + c
-        with np.errstate(invalid="ignore", divide="ignore"):
-            step = np.where(df != 0, f / df, 0.0)
-        U = np.where(np.isfinite(step), U - step, U)
+        s = np.cbrt(-half_q - np.copysign(np.sqrt(np.maximum(disc, 0.0)), half_q))
+        t = np.where(s != 0.0, s - third_p / s, 0.0)
+        three = np.flatnonzero(~(disc > 0))
+        if three.size:
+            # three real roots (disc <= 0): trigonometric form, the largest
+            m = np.sqrt(np.maximum(-third_p[three], 0.0))
+            positive = m > 0
+            safe = np.where(positive, m, 1.0)
+            cos_arg = np.clip(np.where(positive, -half_q[three] / (safe * safe * safe), 0.0), -1, 1)
+            t[three] = 2.0 * m * np.cos(np.arccos(cos_arg) / 3.0)
+        U = t - shift
+        for _ in range(2):  # Newton polish on the cubic
+            f = ((U + b) * U + c) * U + d
+            df = (3.0 * U + 2.0 * b) * U + c
+            step = f / df
+            U = np.where(np.isfinite(step), U - step, U)
     return U
 
 
-def _quadratic(linear, constant):
-    """Roots of x^2 + linear x + constant: (first, second, complex flag)."""
+def _quadratic_factors(c1, c2, c3, c4):
+    """The quartic as (x^2 + L_0 x + K_0)(x^2 + L_1 x + K_1): L and K of shape (2, ...)."""
+    # scale x = s z so the coefficients are of order one
+    s = np.maximum(np.maximum(np.abs(c1), np.sqrt(np.abs(c2))),
+                   np.maximum(np.cbrt(np.abs(c3)), np.sqrt(np.sqrt(np.abs(c4)))))
+    s[~(s > 0)] = 1.0
+    inverse = 1.0 / s
+    inverse2 = inverse * inverse
+    a = c1 * inverse
+    b = c2 * inverse2
+    cc = c3 * (inverse2 * inverse)
+    d = c4 * (inverse2 * inverse2)
+    # depressed quartic y^4 + p y^2 + q y + r, z = y - a/4
+    a4 = 0.25 * a
+    a4_2 = a4 * a4
+    p = b - 6.0 * a4_2
+    q = cc - 2.0 * b * a4 + 8.0 * a4_2 * a4
+    r = d - cc * a4 + b * a4_2 - 3.0 * a4_2 * a4_2
+    U = np.maximum(_largest_cubic_root(2.0 * p, p * p - 4.0 * r, -q * q), 0.0)
+    u = np.sqrt(U)
+    total = p + U
+    use_q = U > 1e-10
+    with np.errstate(divide="ignore", invalid="ignore"):
+        difference = np.where(use_q, q / u, 0.0)
+    # (y^2 + u y + v)(y^2 - u y + w): v + w = p + U, w - v = q / u, v w = r
+    disc = np.sqrt(np.maximum(total * total - 4.0 * r, 0.0))
+    v = 0.5 * np.where(use_q, total - difference, total - disc)
+    w = 0.5 * np.where(use_q, total + difference, total + disc)
+    # back to x: y^2 + u y + v with y = x/s + a/4
+    s2 = s * s
+    ua4 = u * a4
+    linear = np.stack([(u + 2.0 * a4) * s, (2.0 * a4 - u) * s])
+    constant = np.stack([(v + ua4 + a4_2) * s2, (w - ua4 + a4_2) * s2])
+    return linear, constant
+
+
+def _newton_complex(c, re, im):
+    """One Newton step on x^4 + c1 x^3 + c2 x^2 + c3 x + c4 at x = re + i im.
+
+    p and p' by Horner's rule (b_k = b_(k-1) x + c_k, d_k = d_(k-1) x + b_(k-1)),
+    in real arithmetic.  Returns the new (re, im) and p'(x) as (re, im).
+    """
+    c1, c2, c3, c4 = c
+    br, bi = re + c1, im                                        # b1 = x + c1
+    dr, di = re + br, im + bi                                   # d2 = x + b1
+    br, bi = br * re - bi * im + c2, br * im + bi * re          # b2
+    dr, di = dr * re - di * im + br, dr * im + di * re + bi     # d3
+    br, bi = br * re - bi * im + c3, br * im + bi * re          # b3
+    dr, di = dr * re - di * im + br, dr * im + di * re + bi     # p'
+    fr, fi = br * re - bi * im + c4, br * im + bi * re          # p
+    size = dr * dr + di * di
+    return re - (fr * dr + fi * di) / size, im - (fi * dr - fr * di) / size, dr, di
+
+
+def _newton_real(c, x):
+    """One Newton step on the quartic at real x; returns the new x and p'(x)."""
+    c1, c2, c3, c4 = c
+    b = x + c1
+    d = x + b
+    b = b * x + c2
+    d = d * x + b
+    b = b * x + c3
+    d = d * x + b
+    return x - (b * x + c4) / d, d
+
+
+def _factor_roots(c):
+    """Polished roots of the quartic with coefficients c = (c1, c2, c3, c4), per quadratic factor.
+
+    Returns (re, im, slope_re, slope_im, pair): re and im (4, ...) in factor
+    layout, p'(lambda) at each root (the lower root of a pair has the
+    conjugate slope), and pair (2, ...): whether each factor is a complex pair.
+    """
+    linear, constant = _quadratic_factors(*c)
     disc = linear * linear - 4.0 * constant
-    is_complex = disc < 0
+    pair = disc < 0
     root_disc = np.sqrt(np.abs(disc))
-    # real roots, the stable way: q = -(linear + sign(linear) sqrt(disc)) / 2
+    # real roots the stable way: q = -(L + sign(L) sqrt(disc)) / 2, then K / q
     q = -0.5 * (linear + np.copysign(root_disc, linear))
-    with np.errstate(invalid="ignore", divide="ignore"):
-        other = np.where(q != 0, constant / q, 0.0)
-    upper = -0.5 * linear + 0.5j * root_disc
-    first = np.where(is_complex, upper, q + 0j)
-    second = np.where(is_complex, np.conj(upper), other + 0j)
-    return first, second, is_complex
-
-
-def _evaluate(c1, c2, c3, c4, x):
-    f = (((x + c1) * x + c2) * x + c3) * x + c4
-    df = ((4.0 * x + 3.0 * c1) * x + 2.0 * c2) * x + c3
-    return f, df
-
-
-def _polish(coefficients, roots, steps):
-    """Newton steps on the quartic, each kept only where it lowers |p|."""
-    f, df = _evaluate(*coefficients, roots)
-    size = np.abs(f)
-    for _ in range(steps):
-        with np.errstate(divide="ignore", invalid="ignore"):
-            trial = roots - f / df
-        f_trial, df_trial = _evaluate(*coefficients, trial)
-        size_trial = np.abs(f_trial)
-        better = size_trial < size  # False for NaN
-        roots = np.where(better, trial, roots)
-        f = np.where(better, f_trial, f)
-        df = np.where(better, df_trial, df)
-        size = np.where(better, size_trial, size)
-    return roots
+    other = np.where(q != 0, constant / q, 0.0)
+    half = -0.5 * linear
+    first_re, first_im, first_dr, first_di = _newton_complex(
+        c, np.where(pair, half, q), np.where(pair, 0.5 * root_disc, 0.0))
+    second, second_d = _newton_real(c, other)
+    first_im = np.where(pair, np.abs(first_im), 0.0)
+    first_di = np.where(pair, first_di, 0.0)
+    re = np.stack([first_re[0], np.where(pair[0], first_re[0], second[0]),
+                   first_re[1], np.where(pair[1], first_re[1], second[1])])
+    im = np.stack([first_im[0], -first_im[0], first_im[1], -first_im[1]])
+    slope_re = np.stack([first_dr[0], np.where(pair[0], first_dr[0], second_d[0]),
+                         first_dr[1], np.where(pair[1], first_dr[1], second_d[1])])
+    slope_im = np.stack([first_di[0], -first_di[0], first_di[1], -first_di[1]])
+    return re, im, slope_re, slope_im, pair
 
 
 def quartic_roots(coefficients):
     """Roots of monic real quartics x^4 + c1 x^3 + c2 x^2 + c3 x + c4, vectorised.
 
     Factoring into two real quadratics through the Descartes resolvent cubic
-    (Nickalls, *The Mathematical Gazette* 93, 2009, pp. 66-75), then Newton
-    polish on the quartic itself.
+    (Nickalls, *The Mathematical Gazette* 93, 2009, pp. 66-75), then a Newton
+    step on the quartic itself.
 
     Parameters
     ----------
@@ -199,98 +279,254 @@ def quartic_roots(coefficients):
     [1.0, 2.0, 3.0, 4.0]
     """
     c = np.ascontiguousarray(np.asarray(coefficients, dtype=float).T)  # (4, N)
-    c1, c2, c3, c4 = c
-    # scale x = s z so the coefficients are of order one
-    s = np.maximum(np.maximum(np.abs(c1), np.sqrt(np.abs(c2))),
-                   np.maximum(np.cbrt(np.abs(c3)), np.sqrt(np.sqrt(np.abs(c4)))))
-    s[~(s > 0)] = 1.0
-    inverse = 1.0 / s
-    a = c1 * inverse
-    b = c2 * inverse**2
-    cc = c3 * inverse**3
-    d = c4 * inverse**4
-    # depressed quartic y^4 + p y^2 + q y + r, z = y - a/4
-    a4 = 0.25 * a
-    a4_2 = a4 * a4
-    p = b - 6.0 * a4_2
-    q = cc - 2.0 * b * a4 + 8.0 * a4_2 * a4
-    r = d - cc * a4 + b * a4_2 - 3.0 * a4_2 * a4_2
-    U = np.maximum(_largest_cubic_root(2.0 * p, p * p - 4.0 * r, -q * q), 0.0)
-    u = np.sqrt(U)
-    total = p + U
-    use_q = U > 1e-10
-    with np.errstate(divide="ignore", invalid="ignore"):
-        difference = np.where(use_q, q / u, 0.0)
-    # (y^2 + u y + v)(y^2 - u y + w): v + w = p + U, w - v = q / u, v w = r
-    disc = np.sqrt(np.maximum(total * total - 4.0 * r, 0.0))
-    v = 0.5 * np.where(use_q, total - difference, total - disc)
-    w = 0.5 * np.where(use_q, total + difference, total + disc)
-    # back to x: y^2 + u y + v with y = x/s + a/4
-    s2 = s * s
-    f1, s1, k1 = _quadratic((u + 2.0 * a4) * s, (v + u * a4 + a4_2) * s2)
-    f2, s2_, k2 = _quadratic((2.0 * a4 - u) * s, (w - u * a4 + a4_2) * s2)
-    roots = np.stack([f1, s1, f2, s2_])  # (4, N)
-    roots = _polish(c[:, None, :], roots, NEWTON_STEPS)
-    # keep pairs exactly conjugate and real roots exactly real
-    pair = np.stack([k1, k2])
-    upper = roots[0::2]
-    paired = np.empty_like(roots)
-    paired[0::2] = upper
-    paired[1::2] = np.conj(upper)
-    pair4 = np.repeat(pair, 2, axis=0)
-    roots = np.where(pair4, paired, roots.real + 0j)
-    return np.ascontiguousarray(roots.T), np.ascontiguousarray(pair.T)
+    with np.errstate(all="ignore"):
+        re, im, _, _, pair = _factor_roots(c)
+    return _complex_rows(re, im), np.ascontiguousarray(pair.T)
 
 
-def _adjugate_vectors(A, roots, rows=(0, 1, 2, 3)):
-    """Right eigenvectors from the adjugate of (A - lambda I), unit 2-norm.
+def _complex_rows(re, im):
+    """(N, k) complex array from real and imaginary parts of shape (k, N)."""
+    out = np.empty(re.shape[::-1], dtype=complex)
+    out.real = re.T
+    out.imag = im.T
+    return out
 
-    Only the adjugate columns of ``rows`` are formed (column i of adj(M) is
-    built from the cofactors of row i of M); the one of largest norm is
-    taken.  Works in a (component, root, case) layout so that every array
-    operation runs over contiguous memory.  Returns the vectors and the
-    norm of the chosen column.
+
+# ------------------------------------------------------------ eigenvectors
+def _product(p, q):
+    """Product of two polynomials given as coefficient lists, lowest power first."""
+    out = [0.0] * (len(p) + len(q) - 1)
+    for i, x in enumerate(p):
+        for j, y in enumerate(q):
+            out[i + j] = out[i + j] + x * y
+    return out
+
+
+def _combine(*terms):
+    """Sum of polynomials given as (sign, coefficient list) pairs."""
+    out = [0.0] * max(len(p) for _, p in terms)
+    for sign, p in terms:
+        for k, x in enumerate(p):
+            out[k] = out[k] + x if sign > 0 else out[k] - x
+    return out
+
+
+def _cofactor_polynomial(a, i, j):
+    """Cofactor (i, j) of A - lambda I as a polynomial in lambda, coefficients lowest power first.
+
+    C_ij = (-1)^(i+j) det of A - lambda I without row i and column j, the
+    3x3 determinant expanded along its first row (entries on the diagonal of
+    A - lambda I are a_kk - lambda, the others a_kl).
     """
-    a = np.ascontiguousarray(np.moveaxis(A, 0, -1))  # (4, 4, n) real
-    lam = np.ascontiguousarray(roots.T)  # (4 roots, n)
-    m = [[a[i, j] for j in range(4)] for i in range(4)]
-    for i in range(4):
-        m[i][i] = a[i, i] - lam  # (4, n) complex; off-diagonal entries stay real (n,)
-    pairs = ((0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3))
-    top = {(i, j): m[0][i] * m[1][j] - m[0][j] * m[1][i] for i, j in pairs}
-    bottom = {(i, j): m[2][i] * m[3][j] - m[2][j] * m[3][i] for i, j in pairs}
-    cols = ((1, 2, 3), (0, 2, 3), (0, 1, 3), (0, 1, 2))
-    shape = lam.shape
-    best = None
-    for i in rows:
-        # cofactors of row i: the 3x3 minor expanded along its first (i = 0, 1)
-        # or last (i = 2, 3) row, signs +, -, +; then (-1)^(i+j)
-        row, minors = (m[1 - i], bottom) if i < 2 else (m[5 - i], top)
-        column = []
-        for j, (k0, k1, k2) in enumerate(cols):
-            value = (row[k0] * minors[k1, k2] - row[k1] * minors[k0, k2]
-                     + row[k2] * minors[k0, k1])
-            column.append(np.broadcast_to(value if (i + j) % 2 == 0 else -value, shape))
-        column = np.stack(column)  # (4 components, 4 roots, n)
-        norm = np.einsum("kij,kij->ij", column.real, column.real) + np.einsum(
-            "kij,kij->ij", column.imag, column.imag)
-        if best is None:
-            best, best_norm = column, norm
+    rows = [r for r in range(4) if r != i]
+    cols = [k for k in range(4) if k != j]
+    e = [[[a[r, k], -1.0] if r == k else [a[r, k]] for k in cols] for r in rows]
+
+    def minor(k0, k1):  # of the last two rows
+        return _combine((1, _product(e[1][k0], e[2][k1])), (-1, _product(e[1][k1], e[2][k0])))
+
+    sign = -1 if (i + j) % 2 else 1
+    return _combine((sign, _product(e[0][0], minor(1, 2))), (-sign, _product(e[0][1], minor(0, 2))),
+                    (sign, _product(e[0][2], minor(0, 1))))
+
+
+def _horner(coefficients, re, im):
+    """Real polynomial (coefficients lowest power first) at x = re + i im: (real, imaginary).
+
+    ``im`` None: x is real and the imaginary part returned is None.
+    """
+    high = coefficients[::-1]
+    vr = high[0] * re + high[1]
+    vi = None if im is None else high[0] * im
+    for c in high[2:]:
+        if im is None:
+            vr = vr * re + c
         else:
-            take = norm > best_norm
-            best = np.where(take, column, best)
-            best_norm = np.where(take, norm, best_norm)
-    length = np.sqrt(best_norm)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        best = best / length
-    return np.ascontiguousarray(np.moveaxis(best, -1, 0)), length.T  # (n, 4, 4), (n, 4)
+            vr, vi = vr * re - vi * im + c, vr * im + vi * re
+    return vr, vi
+
+
+def _squared(z):
+    re, im = z
+    return re * re if im is None else re * re + im * im
+
+
+def _choose(take, first, second):
+    """Where ``take``, the (re, im) pair ``second``, else ``first``."""
+    (r0, i0), (r1, i1) = first, second
+    return np.where(take, r1, r0), (None if i0 is None else np.where(take, i1, i0))
+
+
+class EigenComponents(NamedTuple):
+    """Roots of a stack of 4x4 matrices with the sideslip and bank components of their eigenvectors.
+
+    Every array is (4, N), root slot first (factor layout, see the module
+    notes), so that each slot of all the cases is one contiguous row.
+
+    Attributes
+    ----------
+    real, imag : numpy.ndarray
+        Real and imaginary parts of the eigenvalues.
+    sideslip_real, sideslip_imag, bank_real, bank_imag : numpy.ndarray
+        Components 0 and 3 (sideslip and bank of a lateral model) of a right
+        eigenvector of each root, both of one arbitrary scale per root.
+    vectors : numpy.ndarray of complex, (N, 4, 4), or None
+        Unit right eigenvectors (column k for slot k) when asked for.
+    entry_scale : numpy.ndarray, (N,)
+        Largest |a_ij| of each matrix [units of A].
+    """
+
+    real: np.ndarray
+    imag: np.ndarray
+    sideslip_real: np.ndarray
+    sideslip_imag: np.ndarray
+    bank_real: np.ndarray
+    bank_imag: np.ndarray
+    vectors: np.ndarray | None = None
+    entry_scale: np.ndarray | None = None
+
+    @property
+    def values(self) -> np.ndarray:
+        """Eigenvalues (N, 4) complex."""
+        return _complex_rows(self.real, self.imag)
+
+
+def eig_components(A, vectors=False) -> EigenComponents:
+    """Eigenvalues of a stack of real 4x4 matrices with the sideslip and bank eigenvector components.
+
+    The vectorised quartic route of this module, with ``numpy.linalg.eig``
+    for the cases it cannot resolve (near-multiple roots, roots that do not
+    reproduce the polynomial, eigenvector columns too small to trust,
+    non-finite values).  Whether a case goes to LAPACK does not depend on
+    ``vectors``, so the roots and components are the same either way.
+
+    Parameters
+    ----------
+    A : array_like
+        (N, 4, 4) real matrices.
+    vectors : bool
+        Also return the unit right eigenvectors.
+
+    Returns
+    -------
+    EigenComponents
+
+    Examples
+    --------
+    >>> A = np.array([[[0.0, 1.0, 0, 0], [-4.0, -0.4, 0, 0], [0, 0, -3.0, 0], [0, 0, 1.0, -0.5]]])
+    >>> roots = eig_components(A)
+    >>> roots.real[:, 0].round(12).tolist(), roots.imag[:, 0].round(12).tolist()
+    ([-0.2, -0.2, -0.5, -3.0], [1.989974874213, -1.989974874213, 0.0, 0.0])
+    """
+    A = np.asarray(A, dtype=float)
+    if A.ndim != 3 or A.shape[1:] != (4, 4):
+        raise ValueError("eig_components expects an (N, 4, 4) stack")
+    a = _entries(A)
+    c = _coefficients(a)
+    with np.errstate(all="ignore"):
+        re, im, slope_re, slope_im, pair = _factor_roots(c)
+        polynomials = {(i, k): _cofactor_polynomial(a, i, k) for i in (0, 3) for k in (0, 3)}
+        # the upper root of each factor (complex) and the second root (real, where the factor is real)
+        upper = {key: _horner(p, re[0::2], im[0::2]) for key, p in polynomials.items()}
+        lower = {key: _horner(p, re[1::2], None) for key, p in polynomials.items()}
+        # column i of adj(A - lambda I) = p'(lambda) w_i v / (w^T v): where the sideslip and
+        # bank components of the larger of the two columns reach ADJUGATE_SHARE |p'(lambda)|,
+        # |w_i| / |w^T v| is not small and the column is accurate; other cases go to LAPACK
+        resolved = np.ones(A.shape[0], bool)
+        takes, components = [], []
+        for roots, slots in ((upper, slice(0, None, 2)), (lower, slice(1, None, 2))):
+            size0 = _squared(roots[0, 0]) + _squared(roots[0, 3])
+            size3 = _squared(roots[3, 0]) + _squared(roots[3, 3])
+            take = size3 > size0
+            enough = np.maximum(size0, size3) >= ADJUGATE_SHARE**2 * (
+                slope_re[slots] ** 2 + slope_im[slots] ** 2)
+            if roots is lower:
+                enough |= pair  # the lower root of a pair is the conjugate of the upper one
+            resolved &= enough.all(axis=0)
+            takes.append(take)
+            components.append((_choose(take, roots[0, 0], roots[3, 0]),
+                               _choose(take, roots[0, 3], roots[3, 3])))
+        (beta_upper, phi_upper), (beta_lower, phi_lower) = components
+        beta_re, beta_im = _slots(pair, beta_upper, beta_lower)
+        phi_re, phi_im = _slots(pair, phi_upper, phi_lower)
+        # separation: the smallest distance between two roots against the spectral scale
+        scale2 = (re * re + im * im).max(axis=0)
+        gap2 = np.full(A.shape[0], np.inf)
+        for i, j in ((0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3)):
+            dr, di = re[i] - re[j], im[i] - im[j]
+            gap2 = np.minimum(gap2, dr * dr + di * di)
+        separated = gap2 > SEPARATION**2 * scale2
+        # the roots must give back the coefficients (Vieta, factor by factor)
+        total = re[0::2] + re[1::2]
+        product = re[0::2] * re[1::2] - im[0::2] * im[1::2]
+        rebuilt = (-(total[0] + total[1]), product[0] + product[1] + total[0] * total[1],
+                   -(total[0] * product[1] + total[1] * product[0]), product[0] * product[1])
+        scale = np.maximum(np.sqrt(scale2), np.finfo(float).tiny)
+        mismatch = np.zeros(A.shape[0])
+        power = np.ones(A.shape[0])
+        for rebuilt_k, c_k in zip(rebuilt, c):
+            power = power * scale
+            mismatch = np.maximum(mismatch, np.abs(rebuilt_k - c_k) / power)
+        finite = np.isfinite(beta_re + beta_im + phi_re + phi_im).all(axis=0)
+        good = separated & (mismatch < COEFFICIENT_TOLERANCE) & finite & resolved
+    unit = _unit_vectors(a, re, im, pair, takes) if vectors else None
+    bad = np.flatnonzero(~good)
+    if bad.size:
+        lapack_values, lapack_vectors = np.linalg.eig(A[bad])
+        # factor layout: complex pairs (LAPACK gives them upper root first) before real roots
+        order = np.argsort(lapack_values.imag == 0, axis=1, kind="stable")
+        lapack_values = np.take_along_axis(lapack_values, order, axis=1).T
+        lapack_vectors = np.take_along_axis(lapack_vectors, order[:, None, :], axis=2)
+        re[:, bad], im[:, bad] = lapack_values.real, lapack_values.imag
+        beta_re[:, bad], beta_im[:, bad] = lapack_vectors[:, 0, :].real.T, lapack_vectors[:, 0, :].imag.T
+        phi_re[:, bad], phi_im[:, bad] = lapack_vectors[:, 3, :].real.T, lapack_vectors[:, 3, :].imag.T
+        if vectors:
+            unit[bad] = lapack_vectors
+    return EigenComponents(re, im, beta_re, beta_im, phi_re, phi_im, unit,
+                           np.abs(a).max(axis=(0, 1)))
+
+
+def _slots(pair, upper, lower):
+    """(4, N) real and imaginary parts in factor layout from the upper and lower roots' values.
+
+    The lower slot of a pair takes the conjugate of the upper slot's value.
+    """
+    (upper_re, upper_im), (lower_re, _) = upper, lower
+    re = np.empty((4,) + upper_re.shape[1:])
+    im = np.empty_like(re)
+    re[0::2] = upper_re
+    im[0::2] = upper_im
+    re[1::2] = np.where(pair, upper_re, lower_re)
+    im[1::2] = np.where(pair, -upper_im, 0.0)
+    return re, im
+
+
+def _unit_vectors(a, re, im, pair, takes):
+    """Unit right eigenvectors (N, 4, 4) from the chosen adjugate columns of the sideslip and bank rows."""
+    n = re.shape[1]
+    out_re = np.empty((4, 4, n))  # (component, root slot, case)
+    out_im = np.empty((4, 4, n))
+    polynomials = {(i, k): _cofactor_polynomial(a, i, k) for i in (0, 3) for k in range(4)}
+    with np.errstate(all="ignore"):
+        for k in range(4):
+            upper = _choose(takes[0], *(_horner(polynomials[i, k], re[0::2], im[0::2]) for i in (0, 3)))
+            lower = _choose(takes[1], *(_horner(polynomials[i, k], re[1::2], None) for i in (0, 3)))
+            out_re[k], out_im[k] = _slots(pair, upper, lower)
+        length = np.sqrt((out_re * out_re + out_im * out_im).sum(axis=0))
+        out_re /= length
+        out_im /= length
+    vectors = np.empty((n, 4, 4), dtype=complex)
+    vectors.real = np.moveaxis(out_re, -1, 0)
+    vectors.imag = np.moveaxis(out_im, -1, 0)
+    return vectors
 
 
 def eig_stack(A):
     """Eigenvalues and right eigenvectors of a stack of real 4x4 matrices.
 
     The vectorised quartic route of this module, with ``numpy.linalg.eig``
-    for the cases it cannot resolve (near-multiple roots, non-finite input).
+    for the cases it cannot resolve (near-multiple roots, non-finite input);
+    :func:`eig_components` with the vectors.
 
     Parameters
     ----------
@@ -300,7 +536,7 @@ def eig_stack(A):
     Returns
     -------
     values : numpy.ndarray of complex
-        (N, 4) eigenvalues; complex pairs exactly conjugate.
+        (N, 4) eigenvalues in factor layout; complex pairs exactly conjugate.
     vectors : numpy.ndarray of complex
         (N, 4, 4): column k is the unit right eigenvector of ``values[:, k]``.
 
@@ -313,37 +549,5 @@ def eig_stack(A):
     >>> bool(np.allclose(A[0] @ vectors[0], vectors[0] * values[0], atol=1e-12))
     True
     """
-    A = np.asarray(A, dtype=float)
-    if A.ndim != 3 or A.shape[1:] != (4, 4):
-        raise ValueError("eig_stack expects an (N, 4, 4) stack")
-    coefficients = characteristic_coefficients(A)
-    with np.errstate(all="ignore"):
-        values, _ = quartic_roots(coefficients)
-        # adjugate columns of the sideslip and bank rows only; at a simple root
-        # column i of adj(lambda I - A) = p'(lambda) w_i v / (w^T v), so a column
-        # norm of at least ADJUGATE_SHARE |p'(lambda)| means |w_i| / |w^T v| is
-        # not small and the column is accurate; other cases go to LAPACK
-        vectors, length = _adjugate_vectors(A, values, rows=(0, 3))
-        _, slope = _evaluate(*np.ascontiguousarray(coefficients.T)[:, :, None], values)
-        resolved = length >= ADJUGATE_SHARE * np.abs(slope)
-        scale = np.max(np.abs(values), axis=1)
-        gaps = np.where(np.eye(4, dtype=bool), np.inf,
-                        np.abs(values[:, :, None] - values[:, None, :]))
-        separated = gaps.min(axis=(1, 2)) > SEPARATION * scale
-        # the roots must give back the coefficients (Vieta)
-        e = values
-        rebuilt = np.stack([
-            -(e[:, 0] + e[:, 1] + e[:, 2] + e[:, 3]),
-            e[:, 0] * e[:, 1] + e[:, 0] * e[:, 2] + e[:, 0] * e[:, 3]
-            + e[:, 1] * e[:, 2] + e[:, 1] * e[:, 3] + e[:, 2] * e[:, 3],
-            -(e[:, 0] * e[:, 1] * e[:, 2] + e[:, 0] * e[:, 1] * e[:, 3]
-              + e[:, 0] * e[:, 2] * e[:, 3] + e[:, 1] * e[:, 2] * e[:, 3]),
-            e[:, 0] * e[:, 1] * e[:, 2] * e[:, 3]], axis=1).real
-        powers = np.maximum(scale, np.finfo(float).tiny)[:, None] ** np.arange(1, 5)
-        mismatch = np.max(np.abs(rebuilt - coefficients) / powers, axis=1)
-        good = (separated & (mismatch < COEFFICIENT_TOLERANCE)
-                & np.all(np.isfinite(vectors), axis=(1, 2)) & np.all(resolved, axis=1))
-    bad = ~good
-    if bad.any():
-        values[bad], vectors[bad] = np.linalg.eig(A[bad])
-    return values, vectors
+    result = eig_components(A, vectors=True)
+    return result.values, result.vectors

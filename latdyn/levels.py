@@ -120,70 +120,96 @@ def grade(values, limits, parameters, senses, exclusive=False) -> Grades:
     >>> g.level.tolist(), g.margin.round(3).tolist()
     ([1, 2, 4], [0.11, -0.09, -0.1])
     """
-    values, limits, parameters, senses, exclusive = np.broadcast_arrays(
-        np.asarray(values, dtype=float), np.asarray(limits, dtype=float),
-        np.asarray(parameters), np.asarray(senses, dtype=float), np.asarray(exclusive, dtype=bool))
-    count, width = values.shape[-2:]
-    columns = [[(values[..., g, k], limits[..., g, k], parameters[..., g, k], senses[..., g, k],
-                 exclusive[..., g, k]) for k in range(width)] for g in range(count)]
-    return _grade_columns(columns, values.shape[:-2])
+    arrays = [np.asarray(values, dtype=float), np.asarray(limits, dtype=float),
+              np.asarray(parameters), np.asarray(senses, dtype=float),
+              np.asarray(exclusive, dtype=bool)]
+    full = np.broadcast_shapes(*(a.shape for a in arrays), (1, 1))
+    arrays = [a.reshape((1,) * (len(full) - a.ndim) + a.shape) for a in arrays]
+    count, width = full[-2:]
+
+    def column(a, g, k):  # no broadcasting to the batch shape: scalars stay scalars
+        return a[..., g if a.shape[-2] > 1 else 0, k if a.shape[-1] > 1 else 0]
+
+    columns = [[tuple(column(a, g, k) for a in arrays) for k in range(width)]
+               for g in range(count)]
+    return _grade_columns(columns, full[:-2])
+
+
+def _where(condition, yes, no):
+    """``np.where``, without a pass over the batch where the condition is one value for all."""
+    if np.ndim(condition) == 0:
+        return yes if condition else no
+    return np.where(condition, yes, no)
 
 
 def _grade_columns(columns, shape) -> Grades:
     """:func:`grade` on constraints given per grade and per constraint.
 
     ``columns[g][k] = (value, limit, parameter, sense, exclusive)``, each an
-    array broadcastable to ``shape`` (or a scalar).  The loops run over the
-    few grades and constraints, never over the cases.
+    array broadcastable to ``shape`` or a scalar (band limits usually are:
+    they stay scalars, so a constraint costs a few passes over the batch).
+    The loops run over the few grades and constraints, never over the cases.
     """
     count = len(columns)
     met = np.empty(shape + (count,), bool)
     level_margin = np.empty(shape + (count,))
     undetermined = np.zeros(shape, bool)
-    best = []
-    with np.errstate(invalid="ignore", divide="ignore"):
+    entries = []  # per grade: (value, limit, margin, fraction, parameter) of each constraint
+    chosen = []  # per grade: index of the constraint with the smallest normalised margin
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         for g, constraints in enumerate(columns):
             met_g = np.ones(shape, bool)
-            chosen = None
-            for value, limit, parameter, sense, exclusive in constraints:
-                value = np.broadcast_to(np.asarray(value, dtype=float), shape)
-                limit = np.broadcast_to(np.asarray(limit, dtype=float), shape)
+            smallest = which = None
+            grade_entries = []
+            for k, (value, limit, parameter, sense, exclusive) in enumerate(constraints):
+                value = np.asarray(value, dtype=float)
+                limit = np.asarray(limit, dtype=float)
                 applicable = ~np.isnan(limit)
-                margin = np.where(applicable, sense * (value - limit), np.inf)
-                undetermined |= applicable & np.isnan(value)
+                margin = _where(applicable, sense * (value - limit), np.inf)
+                missing = applicable & np.isnan(value)
+                if np.any(missing):
+                    undetermined |= missing
                 ok = margin >= 0.0
                 exclusive = np.asarray(exclusive, dtype=bool)
                 if exclusive.any():
-                    ok &= ~(exclusive & (margin == 0.0))
+                    ok = ok & ~(exclusive & (margin == 0.0))
                 met_g &= ok
                 scale = np.abs(limit)
                 positive = scale > 0.0
-                fraction = np.where(positive, margin / np.where(positive, scale, 1.0), np.nan)
-                normalised = np.where(positive, fraction, margin)
+                fraction = _where(positive, margin / _where(positive, scale, 1.0), np.nan)
+                normalised = _where(positive, fraction, margin)
                 normalised = np.where(np.isnan(normalised), -np.inf, normalised)
-                entry = [normalised, value, np.where(applicable, limit, np.nan), margin, fraction,
-                         np.broadcast_to(np.asarray(parameter), shape)]
-                if chosen is None:
-                    chosen = entry
+                grade_entries.append((value, _where(applicable, limit, np.nan), margin, fraction,
+                                      parameter))
+                if smallest is None:
+                    smallest, which = normalised, 0
                 else:
-                    better = normalised < chosen[0]
-                    chosen = [np.where(better, new, old) for new, old in zip(entry, chosen)]
+                    better = normalised < smallest
+                    smallest = np.where(better, normalised, smallest)
+                    which = np.where(better, k, which)
             met[..., g] = met_g
-            level_margin[..., g] = chosen[0]
-            best.append(chosen)
-    level = np.where(met.any(axis=-1), met.argmax(axis=-1) + 1, count + 1)
+            level_margin[..., g] = smallest
+            entries.append(grade_entries)
+            chosen.append(which)
+    # the first grade met; G + 1 where none is
+    level = np.full(shape, count + 1)
+    for g in reversed(range(count)):
+        level = np.where(met[..., g], g + 1, level)
     level = np.where(undetermined, 0, level)
     target = np.clip(level - 2, 0, count - 1)
-
-    def pick(index):
-        return np.choose(target, [entry[index] for entry in best])
-
+    # the governing constraint's figures at the next-better boundary
     nan = np.nan
-    governing = np.where(undetermined, -1, pick(5))
-    value = np.where(undetermined, nan, pick(1))
-    limit = np.where(undetermined, nan, pick(2))
-    margin = np.where(undetermined, nan, pick(3))
-    fraction = np.where(undetermined, nan, pick(4))
+    governing, value, limit, margin, fraction = (np.full(shape, -1), np.full(shape, nan),
+                                                 np.full(shape, nan), np.full(shape, nan),
+                                                 np.full(shape, nan))
+    for g in range(count):
+        for k, (value_k, limit_k, margin_k, fraction_k, parameter_k) in enumerate(entries[g]):
+            here = (target == g) & (chosen[g] == k) & ~undetermined
+            governing = np.where(here, parameter_k, governing)
+            value = np.where(here, value_k, value)
+            limit = np.where(here, limit_k, limit)
+            margin = np.where(here, margin_k, margin)
+            fraction = np.where(here, fraction_k, fraction)
     return Grades(level, met, level_margin, governing, value, limit, margin, fraction)
 
 
@@ -430,13 +456,15 @@ def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimit
     ([1, 4], ['zeta_omega', 'permitted'])
     """
     zw = np.asarray(damping_ratio, dtype=float) * np.asarray(natural_frequency, dtype=float)
-    allowed = np.broadcast_to(np.asarray(permitted, dtype=float), zw.shape)
+    allowed = np.asarray(permitted, dtype=float)
     minimum = np.asarray(limits.min_zeta_omega, dtype=float)
-    values = np.stack([zw, allowed], axis=-1)[..., None, :]
-    minimum = np.broadcast_to(minimum, zw.shape + minimum.shape[-1:])
-    forbidden = np.where(allowed[..., None] > 0.0, np.nan, 1.0) + 0.0 * minimum
-    limit = np.stack([minimum, forbidden], axis=-1)
-    return grade(values, limit, [_INDEX["zeta_omega"], _INDEX["permitted"]], 1.0)
+    shape = np.broadcast_shapes(zw.shape, allowed.shape, minimum.shape[:-1])
+    # "permitted": a constraint allowed >= 1 that holds only where the phase forbids the mode
+    forbidden = np.where(allowed > 0.0, np.nan, 1.0)
+    columns = [[(zw, minimum[..., g], _INDEX["zeta_omega"], 1.0, False),
+                (allowed, forbidden, _INDEX["permitted"], 1.0, False)]
+               for g in range(minimum.shape[-1])]
+    return _grade_columns(columns, shape)
 
 
 # ============================================================ band selection

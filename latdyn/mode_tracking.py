@@ -100,6 +100,7 @@ def track_modes(A, arrays: ModeArrays | None = None) -> ModeArrays:
     spiral = arrays.spiral.copy()
     roll_spiral = arrays.roll_spiral.copy()
     vectors = arrays.vectors.copy()
+    phi_to_beta = arrays.phi_to_beta.copy()
     if len(A) < 2:
         return arrays
     previous = _slots(pattern[0], dutch[0], roll[0], spiral[0], roll_spiral[0])
@@ -115,6 +116,8 @@ def track_modes(A, arrays: ModeArrays | None = None) -> ModeArrays:
             pattern[i] = new_pattern
             dutch[i] = new_dutch
             vectors[i, :, 0] = _vector(A[i], new_dutch[0])
+            with np.errstate(divide="ignore", invalid="ignore"):
+                phi_to_beta[i] = abs(vectors[i, 3, 0]) / abs(vectors[i, 0, 0])
             if new_pattern in (1, 3):
                 roll[i] = spiral[i] = np.nan
                 roll_spiral[i] = rest
@@ -128,7 +131,7 @@ def track_modes(A, arrays: ModeArrays | None = None) -> ModeArrays:
                 vectors[i, :, 3] = np.nan
             current = new_dutch + tuple(rest)
         previous = current
-    return ModeArrays(pattern, dutch, roll, spiral, roll_spiral, vectors)
+    return ModeArrays(pattern, dutch, roll, spiral, roll_spiral, vectors, phi_to_beta)
 
 
 def analyse_path(A) -> ModeArrays:

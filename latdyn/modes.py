@@ -37,7 +37,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from latdyn.eigen import eig_stack
+from latdyn.eigen import eig_components
 
 __all__ = [
     "MODE_NAMES", "PATTERNS", "Mode", "ModeShape", "ModeSet", "ModeArrays",
@@ -75,9 +75,13 @@ class ModeArrays:
         Spiral root [1/s]; NaN where a roll-spiral oscillation exists.
     roll_spiral : numpy.ndarray of complex, (N, 2)
         Roll-spiral roots (upper first); NaN where none.
-    vectors : numpy.ndarray of complex, (N, 4, 4)
+    vectors : numpy.ndarray of complex, (N, 4, 4), or None
         Eigenvectors (columns) of the Dutch roll (upper or least stable root),
-        roll, spiral and roll-spiral (upper root), NaN where absent.
+        roll, spiral and roll-spiral (upper root), NaN where absent; None
+        where the analysis was asked for the roots and figures only.
+    phi_to_beta : numpy.ndarray, (N,)
+        |phi/beta| of the Dutch roll eigenvector [-] (from ``vectors`` when
+        not given).
     """
 
     pattern: np.ndarray
@@ -85,24 +89,75 @@ class ModeArrays:
     roll: np.ndarray
     spiral: np.ndarray
     roll_spiral: np.ndarray
-    vectors: np.ndarray
+    vectors: np.ndarray | None = None
+    phi_to_beta: np.ndarray | None = None
+
+    def __post_init__(self):
+        if self.phi_to_beta is None and self.vectors is not None:
+            v = self.vectors[:, :, 0]
+            with np.errstate(divide="ignore", invalid="ignore"):
+                object.__setattr__(self, "phi_to_beta", np.abs(v[:, 3]) / np.abs(v[:, 0]))
 
     def __iter__(self):
         return iter((self.pattern, self.dutch_roll, self.roll, self.spiral, self.roll_spiral))
 
-    @property
-    def phi_to_beta(self) -> np.ndarray:
-        """|phi/beta| of the Dutch roll eigenvector, (N,)."""
-        v = self.vectors[:, :, 0]
-        with np.errstate(divide="ignore", invalid="ignore"):
-            return np.abs(v[:, 3]) / np.abs(v[:, 0])
+
+def _pairs(first_re, first_im, second_re, second_im):
+    """(N, 2) complex array of two roots given by real and imaginary parts."""
+    out = np.empty((len(first_re), 2), dtype=complex)
+    parts = out.view(float)
+    parts[:, 0], parts[:, 1], parts[:, 2], parts[:, 3] = first_re, first_im, second_re, second_im
+    return out
 
 
-def _take(values, index):
-    return np.take_along_axis(values, index[:, None], axis=1)[:, 0]
+def _name_slots(re, content, is_complex):
+    """Root slots (factor layout) of each mode and the pattern, for N cases.
+
+    Returns pattern, Dutch roll first and second slot, roll, spiral and
+    roll-spiral (upper root) slot; a slot of an absent mode is arbitrary.
+    """
+    n = re.shape[1]
+    cols = np.arange(n)
+
+    def at(rows, slot):
+        return np.take(rows, slot * n + cols)
+
+    first_pair, second_pair = is_complex[0], is_complex[2]
+    # exactly one pair: the pair in slots (0, 1) or (2, 3), two real roots in the others
+    pair = np.where(first_pair, 0, 2)
+    real_a = 2 - pair
+    real_b = real_a + 1
+    re_a, re_b = at(re, real_a), at(re, real_b)
+    odd = at(content, pair) < np.minimum(at(content, real_a), at(content, real_b))
+    # usual: the pair is the Dutch roll; of the real roots the faster is roll, the slower spiral
+    faster = np.where(np.abs(re_a) >= np.abs(re_b), real_a, real_b)
+    # odd: the pair is a roll-spiral oscillation, the real roots an over-damped Dutch roll
+    least = np.where(re_a >= re_b, real_a, real_b)
+    dutch = np.where(odd, least, pair)
+    dutch_second = np.where(odd, 2 * real_a + 1 - least, pair + 1)
+    roll = faster
+    spiral = 2 * real_a + 1 - faster
+    roll_spiral = pair
+    pattern = np.where(odd, 3, 0)
+    # two pairs: the one with more sideslip is the Dutch roll
+    two = np.flatnonzero(first_pair & second_pair)
+    if two.size:
+        first = np.where(content[0, two] >= content[2, two], 0, 2)
+        dutch[two], dutch_second[two], roll_spiral[two], pattern[two] = first, first + 1, 2 - first, 1
+    # four real roots: the two with the most sideslip form an over-damped Dutch roll
+    none = np.flatnonzero(~(first_pair | second_pair))
+    if none.size:
+        order = np.argsort(-content[:, none], axis=0, kind="stable")
+        sub = re[:, none]
+        value = [np.take_along_axis(sub, order[k:k + 1], axis=0)[0] for k in range(4)]
+        least = np.where(value[0] >= value[1], order[0], order[1])
+        dutch[none], dutch_second[none] = least, order[0] + order[1] - least
+        faster = np.where(np.abs(value[2]) >= np.abs(value[3]), order[2], order[3])
+        roll[none], spiral[none], pattern[none] = faster, order[2] + order[3] - faster, 2
+    return pattern, dutch, dutch_second, roll, spiral, roll_spiral, at
 
 
-def analyse_stack(A, imag_tolerance=1e-7) -> ModeArrays:
+def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
     """Find and name the lateral-directional modes of N models at once.
 
     Parameters
@@ -115,6 +170,9 @@ def analyse_stack(A, imag_tolerance=1e-7) -> ModeArrays:
         A root whose imaginary part is below this fraction of the matrix
         norm is taken as real (a double real root computes as a pair with a
         tiny imaginary part) [-].
+    vectors : bool
+        Also give the modes' eigenvectors (mode shapes); without them the
+        roots, patterns and |phi/beta| are the same, only faster.
 
     Returns
     -------
@@ -140,94 +198,42 @@ def analyse_stack(A, imag_tolerance=1e-7) -> ModeArrays:
     A = np.asarray(A, dtype=float)[..., :4, :4]
     if A.ndim != 3:
         raise ValueError("analyse_stack expects an (N, 4, 4) stack of state matrices")
-    n = A.shape[0]
-    values, vectors = eig_stack(A)
-    scale = np.maximum(np.abs(A).max(axis=(1, 2)), np.finfo(float).tiny)
-    tolerance = imag_tolerance * scale[:, None]
-    is_complex = np.abs(values.imag) > tolerance
-    values = np.where(is_complex, values, values.real + 0j)
-    vectors = np.where(is_complex[:, None, :], vectors, vectors.real + 0j)
+    roots = eig_components(A, vectors=vectors)
+    re, im = roots.real, roots.imag
+    beta_re, beta_im, phi_re, phi_im = (roots.sideslip_real, roots.sideslip_imag,
+                                        roots.bank_real, roots.bank_imag)
+    unit = roots.vectors
+    scale = np.maximum(roots.entry_scale, np.finfo(float).tiny)
+    is_complex = np.abs(im) > imag_tolerance * scale
+    # a root whose imaginary part is within the tolerance is real, and so is its eigenvector
+    flat = ~is_complex & (im != 0)
+    if flat.any():
+        im, beta_im, phi_im = (np.where(flat, 0.0, x) for x in (im, beta_im, phi_im))
+        if vectors:
+            unit = np.where(flat.T[:, None, :], unit.real + 0j, unit)
     with np.errstate(divide="ignore", invalid="ignore"):
-        beta = np.abs(vectors[:, 0, :])
-        content = beta / (beta + np.abs(vectors[:, 3, :]))
-    content = np.nan_to_num(content, nan=0.0)
-    upper = is_complex & (values.imag > 0)
-    n_pairs = upper.sum(axis=1)
-    real = ~is_complex
-    # Keys for ordering: real roots by sideslip content and by speed |lambda|.
-    big = 1e300
-    magnitude = np.abs(values)
-    pattern = np.zeros(n, dtype=int)
-    dutch = np.full((n, 2), np.nan + 0j)
-    roll = np.full(n, np.nan)
-    spiral = np.full(n, np.nan)
-    roll_spiral = np.full((n, 2), np.nan + 0j)
-    mode_vectors = np.full((n, 4, 4), np.nan + 0j)
-    rows = np.arange(n)
-
-    def set_real_pair_as_roll_spiral(mask, first, second):
-        # of two real roots, the faster is roll, the slower spiral
-        faster = np.where(magnitude[mask, first] >= magnitude[mask, second], first, second)
-        slower = np.where(faster == first, second, first)
-        r = rows[mask]
-        roll[mask] = values[r, faster].real
-        spiral[mask] = values[r, slower].real
-        mode_vectors[mask, :, 1] = vectors[r, :, faster]
-        mode_vectors[mask, :, 2] = vectors[r, :, slower]
-
-    def set_dutch_from_real(mask, first, second):
-        r = rows[mask]
-        a, b = values[r, first].real, values[r, second].real
-        least = np.where(a >= b, first, second)
-        other = np.where(least == first, second, first)
-        dutch[mask, 0] = values[r, least]
-        dutch[mask, 1] = values[r, other]
-        mode_vectors[mask, :, 0] = vectors[r, :, least]
-
-    # --- exactly one complex pair
-    one = n_pairs == 1
-    if one.any():
-        pair = np.argmax(upper, axis=1)
-        real_order = np.argsort(np.where(real, 0, 1), axis=1, kind="stable")
-        r1, r2 = real_order[:, 0], real_order[:, 1]
-        pair_content = _take(content, pair)
-        odd = one & (pair_content < np.minimum(_take(content, r1), _take(content, r2)))
-        usual = one & ~odd
-        if usual.any():
-            r = rows[usual]
-            dutch[usual, 0] = values[r, pair[usual]]
-            dutch[usual, 1] = np.conj(values[r, pair[usual]])
-            mode_vectors[usual, :, 0] = vectors[r, :, pair[usual]]
-            set_real_pair_as_roll_spiral(usual, r1[usual], r2[usual])
-            pattern[usual] = 0
-        if odd.any():
-            r = rows[odd]
-            roll_spiral[odd, 0] = values[r, pair[odd]]
-            roll_spiral[odd, 1] = np.conj(values[r, pair[odd]])
-            mode_vectors[odd, :, 3] = vectors[r, :, pair[odd]]
-            set_dutch_from_real(odd, r1[odd], r2[odd])
-            pattern[odd] = 3
-    # --- two complex pairs
-    two = n_pairs == 2
-    if two.any():
-        order = np.argsort(np.where(upper, -content, big), axis=1, kind="stable")
-        first, second = order[:, 0], order[:, 1]
-        r = rows[two]
-        dutch[two, 0] = values[r, first[two]]
-        dutch[two, 1] = np.conj(values[r, first[two]])
-        roll_spiral[two, 0] = values[r, second[two]]
-        roll_spiral[two, 1] = np.conj(values[r, second[two]])
-        mode_vectors[two, :, 0] = vectors[r, :, first[two]]
-        mode_vectors[two, :, 3] = vectors[r, :, second[two]]
-        pattern[two] = 1
-    # --- four real roots
-    none = n_pairs == 0
-    if none.any():
-        order = np.argsort(-content, axis=1, kind="stable")
-        set_dutch_from_real(none, order[none, 0], order[none, 1])
-        set_real_pair_as_roll_spiral(none, order[none, 2], order[none, 3])
-        pattern[none] = 2
-    return ModeArrays(pattern, dutch, roll, spiral, roll_spiral, mode_vectors)
+        beta = np.sqrt(beta_re * beta_re + beta_im * beta_im)
+        phi = np.sqrt(phi_re * phi_re + phi_im * phi_im)
+        content = np.nan_to_num(beta / (beta + phi), nan=0.0)
+        ratio = phi / beta
+    pattern, dutch, dutch_second, roll, spiral, roll_spiral, at = _name_slots(re, content, is_complex)
+    has_pair = (pattern == 1) | (pattern == 3)
+    nan = np.nan
+    roll_spiral_re = np.where(has_pair, at(re, roll_spiral), nan)
+    roll_spiral_im = np.where(has_pair, at(im, roll_spiral), 0.0)
+    mode_vectors = None
+    if vectors:
+        rows = np.arange(len(pattern))
+        mode_vectors = np.stack([unit[rows, :, slot] for slot in (dutch, roll, spiral, roll_spiral)],
+                                axis=2)
+        mode_vectors[:, :, 1:3][has_pair] = nan
+        mode_vectors[:, :, 3][~has_pair] = nan
+    return ModeArrays(
+        pattern,
+        _pairs(at(re, dutch), at(im, dutch), at(re, dutch_second), at(im, dutch_second)),
+        np.where(has_pair, nan, at(re, roll)), np.where(has_pair, nan, at(re, spiral)),
+        _pairs(roll_spiral_re, roll_spiral_im, roll_spiral_re, np.where(has_pair, -roll_spiral_im, 0.0)),
+        mode_vectors, at(ratio, dutch))
 
 
 def pair_figures(first, second):

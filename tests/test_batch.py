@@ -169,3 +169,17 @@ def test_parameter_names_cover_mass_flight_and_derivatives(kestrel):
     names = parameter_names(kestrel, kestrel.condition("cruise"))
     for key in ("Cn_beta", "Cl_dr", "mass", "Ixz", "speed", "altitude", "alpha", "gamma"):
         assert key in names
+
+
+@pytest.mark.parametrize("source", ["random-aircraft", "odd-patterns"])
+def test_analysis_without_mode_shapes_gives_the_same_numbers(kestrel, source):
+    """The batch path skips the mode shapes (vectors=False); roots, names and |phi/beta| are
+    the very same numbers as with them (the same code decides everything else)."""
+    if source == "random-aircraft":
+        A = case_matrices(condition_set(kestrel, "approach", random_overrides(5000, 7)))
+    else:
+        A = jordan_models(400, 8)
+    full, bare = analyse_stack(A), analyse_stack(A, vectors=False)
+    assert bare.vectors is None
+    for name in ("pattern", "dutch_roll", "roll", "spiral", "roll_spiral", "phi_to_beta"):
+        np.testing.assert_array_equal(getattr(bare, name), getattr(full, name), err_msg=name)

@@ -354,7 +354,7 @@ def _chunk_result(cases, criteria_sets, phase, path=False):
 
         figures = mode_figures(track_modes(A))
     else:
-        figures = mode_figures(analyse_stack(A))
+        figures = mode_figures(analyse_stack(A, vectors=False))
     flight = cases.condition.flight
     altitude = cases.overrides.get("altitude", flight.altitude)
     levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,
