@@ -72,11 +72,12 @@ def batched(aircraft, condition, count, criteria):
 def plain_loop(aircraft, condition, count, criteria):
     """The headline baseline: a per-case loop as a user would script it.
 
-    Per case: the dimensional derivatives from the coefficients (Etkin & Reid,
-    3rd ed., table 4.5), primed with Ixz, the state and input matrices with
-    plain numpy, ``control.ss`` + ``control.damp``, the Dutch roll as the root
-    with the largest imaginary part, its level by comparing zeta, zeta*omega
-    and omega with the band limits.  What does not vary (flight condition,
+    Per case: the dimensional derivatives from the coefficients in plain
+    Python arithmetic (Etkin & Reid, 3rd ed., table 4.5), primed with Ixz,
+    the state and input matrices as numpy arrays, ``control.ss`` +
+    ``control.damp``, the Dutch roll as the root with the largest imaginary
+    part, its level by comparing zeta, zeta*omega and omega with the band
+    limits.  What does not vary (flight condition,
     inertias turned into the stability axes of the derivatives, band limits)
     is worked out once before the loop, as a user would.  The |phi/beta| rule
     needs eigenvectors, which ``control.damp`` does not give: the loop leaves
@@ -101,19 +102,23 @@ def plain_loop(aircraft, condition, count, criteria):
     Ixz = (mass.Ixx - mass.Izz) * sa * ca + mass.Ixz * (ca * ca - sa * sa)
     gain = 1.0 / (1.0 - Ixz * Ixz / (Ixx * Izz))
     nominal = {name: float(getattr(condition.derivatives, name) or 0.0) for name in COEFFICIENTS}
+    roll, yaw, rate = qs * b / Ixx, qs * b / Izz, b / (2 * V)
     C, D = np.eye(4), np.zeros((4, 2))
-    values = draw(count, 0)
+    values = {key: v.tolist() for key, v in draw(count, 0).items()}
     found = np.empty((count, 2))
     start = time.perf_counter()
     for i in range(count):
-        c = dict(nominal, **{key: v[i] for key, v in values.items()})
-        L = np.array([c["Cl_beta"], c["Cl_p"] * b / (2 * V), c["Cl_r"] * b / (2 * V),
-                      c["Cl_da"], c["Cl_dr"]]) * (qs * b / Ixx)
-        N = np.array([c["Cn_beta"], c["Cn_p"] * b / (2 * V), c["Cn_r"] * b / (2 * V),
-                      c["Cn_da"], c["Cn_dr"]]) * (qs * b / Izz)
-        Lp, Np = gain * (L + Ixz / Ixx * N), gain * (N + Ixz / Izz * L)
-        A = np.array([[qs * c["Cy_beta"] / (m * V), qs * b * c["Cy_p"] / (2 * m * V * V),
-                       qs * b * c["Cy_r"] / (2 * m * V * V) - 1.0, g * math.cos(flight.gamma) / V],
+        c = dict(nominal)
+        for key, v in values.items():
+            c[key] = v[i]
+        L = (roll * c["Cl_beta"], roll * rate * c["Cl_p"], roll * rate * c["Cl_r"],
+             roll * c["Cl_da"], roll * c["Cl_dr"])
+        N = (yaw * c["Cn_beta"], yaw * rate * c["Cn_p"], yaw * rate * c["Cn_r"],
+             yaw * c["Cn_da"], yaw * c["Cn_dr"])
+        Lp = [gain * (l + Ixz / Ixx * n) for l, n in zip(L, N)]
+        Np = [gain * (n + Ixz / Izz * l) for l, n in zip(L, N)]
+        A = np.array([[qs * c["Cy_beta"] / (m * V), qs * rate * c["Cy_p"] / (m * V),
+                       qs * rate * c["Cy_r"] / (m * V) - 1.0, g * math.cos(flight.gamma) / V],
                       [Lp[0], Lp[1], Lp[2], 0.0],
                       [Np[0], Np[1], Np[2], 0.0],
                       [0.0, 1.0, math.tan(flight.gamma), 0.0]])

@@ -293,21 +293,33 @@ def _complex_rows(re, im):
 
 
 # ------------------------------------------------------------ eigenvectors
+def _times(x, y):
+    """x * y where either may be the constant 1.0 or -1.0 of a diagonal entry (no pass for those)."""
+    for unit, other in ((x, y), (y, x)):
+        if isinstance(unit, float) and abs(unit) == 1.0:
+            return other if unit > 0 else -other
+    return x * y
+
+
 def _product(p, q):
     """Product of two polynomials given as coefficient lists, lowest power first."""
-    out = [0.0] * (len(p) + len(q) - 1)
+    out = [None] * (len(p) + len(q) - 1)
     for i, x in enumerate(p):
         for j, y in enumerate(q):
-            out[i + j] = out[i + j] + x * y
+            term = _times(x, y)
+            out[i + j] = term if out[i + j] is None else out[i + j] + term
     return out
 
 
 def _combine(*terms):
     """Sum of polynomials given as (sign, coefficient list) pairs."""
-    out = [0.0] * max(len(p) for _, p in terms)
+    out = [None] * max(len(p) for _, p in terms)
     for sign, p in terms:
         for k, x in enumerate(p):
-            out[k] = out[k] + x if sign > 0 else out[k] - x
+            if out[k] is None:
+                out[k] = x if sign > 0 else -x
+            else:
+                out[k] = out[k] + x if sign > 0 else out[k] - x
     return out
 
 
@@ -482,8 +494,8 @@ def eig_components(A, vectors=False) -> EigenComponents:
         phi_re[:, bad], phi_im[:, bad] = lapack_vectors[:, 3, :].real.T, lapack_vectors[:, 3, :].imag.T
         if vectors:
             unit[bad] = lapack_vectors
-    return EigenComponents(re, im, beta_re, beta_im, phi_re, phi_im, unit,
-                           np.abs(a).max(axis=(0, 1)))
+    entry_scale = np.maximum(a.max(axis=(0, 1)), -a.min(axis=(0, 1)))
+    return EigenComponents(re, im, beta_re, beta_im, phi_re, phi_im, unit, entry_scale)
 
 
 def _slots(pair, upper, lower):

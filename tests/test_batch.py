@@ -183,3 +183,23 @@ def test_analysis_without_mode_shapes_gives_the_same_numbers(kestrel, source):
     assert bare.vectors is None
     for name in ("pattern", "dutch_roll", "roll", "spiral", "roll_spiral", "phi_to_beta"):
         np.testing.assert_array_equal(getattr(bare, name), getattr(full, name), err_msg=name)
+
+
+def test_batch_grades_equal_the_stack_grading_field_by_field(kestrel):
+    """assess_figures (which grades a rarely present mode on the cases that have it) gives the
+    same Grades, every field, as grading every case (latdyn.levels.stack_levels)."""
+    from latdyn.criteria import load_criteria
+    from latdyn.levels import stack_levels
+    from latdyn.studies.batch import assess_figures
+
+    A = np.concatenate([case_matrices(condition_set(kestrel, "approach", random_overrides(3000, 9))),
+                        jordan_models(40, 10)])
+    arrays = analyse_stack(A)
+    assert 0 < np.count_nonzero(np.isin(arrays.pattern, (1, 3))) < len(A) // 2
+    criteria = load_criteria("mil-f-8785c")
+    batched = assess_figures(mode_figures(arrays), [criteria], "II-L", "C")
+    reference = stack_levels(criteria, arrays, "II-L", "C")
+    for mode, grades in reference.items():
+        for name, field in grades._asdict().items():
+            np.testing.assert_array_equal(getattr(batched["mil-f-8785c", mode], name), field,
+                                          err_msg=f"{mode} {name}")

@@ -238,9 +238,56 @@ def _grade_subset(selection, mode, figures, index):
     return grade_mode(selection, root=take(root))
 
 
+def _absent(mode, figures):
+    """Cases without the mode (every figure it is graded on NaN); None for the Dutch roll."""
+    if mode == "roll_spiral":
+        return np.isnan(figures.roll_spiral_damping) & np.isnan(figures.roll_spiral_frequency)
+    if mode in ("roll_subsidence", "spiral"):
+        return np.isnan(figures.roll if mode == "roll_subsidence" else figures.spiral)
+    return None
+
+
+def _scatter(n, pieces, fill=None):
+    """Grades of n cases from graded pieces [(index, Grades)].
+
+    Cases in no piece take the grades of ``fill`` (Grades of one case), or
+    level 0 and NaN figures when it is None.
+    """
+    from latdyn.levels import Grades
+
+    fields = []
+    for position, field in enumerate(pieces[0][1]):
+        out = np.zeros((n,) + field.shape[1:], field.dtype)
+        if fill is not None:
+            out[...] = fill[position]
+        elif out.dtype.kind == "f":
+            out[...] = np.nan
+        for index, graded in pieces:
+            out[index] = graded[position]
+        fields.append(out)
+    return Grades(*fields)
+
+
+def _grade_cases(selection, mode, figures):
+    """Grades of one mode over the batch.
+
+    Where most cases do not have the mode (a coupled roll-spiral
+    oscillation is rare), only those that have it are graded: a case
+    without it grades exactly as any other case without it (the grading is
+    case by case), so they all take the grades of one of them.
+    """
+    absent = _absent(mode, figures)
+    if absent is None or 2 * np.count_nonzero(absent) < len(absent):
+        return _grade_subset(selection, mode, figures, None)
+    present = np.flatnonzero(~absent)
+    without = _grade_subset(selection, mode, figures, np.flatnonzero(absent)[:1])
+    return _scatter(len(absent), [(present, _grade_subset(selection, mode, figures, present))],
+                    fill=without)
+
+
 def _grade(criteria, mode, figures, airplane_class, category, flight_phase, altitude):
     """Grades of one criteria set and mode over the batch; None where no band covers it."""
-    from latdyn.levels import Grades, select_bands
+    from latdyn.levels import select_bands
 
     breaks = criteria.mode(mode).altitude_breaks()
     n = len(figures)
@@ -250,29 +297,19 @@ def _grade(criteria, mode, figures, airplane_class, category, flight_phase, alti
         selection = select_bands(criteria, mode, airplane_class, category, flight_phase, probe)
         if selection.undefined:
             return None
-        grades = _grade_subset(selection, mode, figures, None)
+        grades = _grade_cases(selection, mode, figures)
     else:
         bins = np.searchsorted(np.asarray(breaks), altitude, side="right")
-        pieces = {}
+        pieces = []
         for value in np.unique(bins):
             index = np.flatnonzero(bins == value)
             selection = select_bands(criteria, mode, airplane_class, category, flight_phase,
                                      float(altitude[index[0]]))
-            pieces[int(value)] = (index, None if selection.undefined
-                                  else _grade_subset(selection, mode, figures, index))
-        sample = next((g for _, g in pieces.values() if g is not None), None)
-        if sample is None:
+            if not selection.undefined:
+                pieces.append((index, _grade_subset(selection, mode, figures, index)))
+        if not pieces:
             return None
-        fields = []
-        for position, field in enumerate(sample):
-            out = np.zeros((n,) + field.shape[1:], field.dtype)
-            if out.dtype.kind == "f":
-                out[...] = np.nan
-            for index, graded in pieces.values():
-                if graded is not None:
-                    out[index] = graded[position]
-            fields.append(out)
-        grades = Grades(*fields)
+        grades = _scatter(n, pieces)
     level = grades.level
     if mode == "dutch_roll":
         # real Dutch roll roots of opposite signs: a static divergence, beyond every band
