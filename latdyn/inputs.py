@@ -17,14 +17,17 @@ from __future__ import annotations
 
 import csv
 import math
+import re
 from dataclasses import dataclass, field
 
 import numpy as np
 
 from latdyn.errors import InputError, describe_value
+from latdyn.input_files import read_input_text
 
 __all__ = [
     "INPUT_KINDS",
+    "MAX_DEFLECTION_DEG",
     "InputHistory",
     "InitialDisturbance",
     "InputTable",
@@ -272,8 +275,11 @@ def time_grid(duration, step_size, breakpoints=()):
     extra = [t for t in breakpoints if 0.0 < t < duration]
     if extra:
         spacing = duration / intervals
-        nearest = np.abs(np.asarray(extra)[:, None] - grid[None, :]).min(axis=1)
-        new = np.asarray(extra)[nearest > 1e-9 * max(1.0, duration) + 1e-6 * spacing]
+        extra = np.asarray(extra)
+        # distance to the nearest grid time (searchsorted: memory grows with the sizes, not their product)
+        above = np.clip(np.searchsorted(grid, extra), 1, grid.size - 1)
+        nearest = np.minimum(np.abs(extra - grid[above - 1]), np.abs(grid[above] - extra))
+        new = extra[nearest > 1e-9 * max(1.0, duration) + 1e-6 * spacing]
         if new.size:
             grid = np.unique(np.concatenate([grid, new]))
     return grid
@@ -477,14 +483,28 @@ class InputTable:
         return iter((self.time, self.aileron, self.rudder))
 
 
+#: A plain decimal number as written in a CSV cell (no underscores, no "nan" or "inf").
+_NUMBER = re.compile(r"[+-]?([0-9]+\.?[0-9]*|\.[0-9]+)([eE][+-]?[0-9]+)?")
+
+#: Largest control deflection accepted in an input [deg] (common practice: no control surface
+#: deflects beyond a right angle; a larger number is a slip of units or a typo).
+MAX_DEFLECTION_DEG = 90.0
+
+
 def _parse_number(text, file, line, column, expected):
-    try:
-        value = float(text)
-    except ValueError:
-        raise InputError(file, f'line {line}, column "{column}"', expected, describe_value(text)) from None
+    value = float(text) if _NUMBER.fullmatch(text) else math.nan
     if not math.isfinite(value):
         raise InputError(file, f'line {line}, column "{column}"', expected, describe_value(text))
     return value
+
+
+def _cells(text, file, line):
+    """The stripped cells of one CSV line."""
+    try:
+        return [cell.strip() for cell in next(csv.reader([text], strict=True))]
+    except csv.Error as error:
+        raise InputError(file, f"line {line}", "cells separated by commas",
+                         f"text that is not CSV ({error})") from None
 
 
 def read_input_csv(path) -> InputTable:
@@ -495,12 +515,13 @@ def read_input_csv(path) -> InputTable:
     response CSV written by ``latdyn respond`` may also be read back: its
     first three columns are used.  Lines starting with ``#`` and blank lines
     are skipped.  Every row has one cell per header column, each a finite
-    number; times are >= 0 and strictly increasing.
+    number; times are >= 0 and strictly increasing; deflections lie within
+    +-90 deg.
 
     Parameters
     ----------
     path : str or os.PathLike
-        The CSV file.
+        The CSV file (UTF-8, a byte-order mark is allowed).
 
     Returns
     -------
@@ -513,19 +534,13 @@ def read_input_csv(path) -> InputTable:
         With the file, line and column, what was expected and what was found.
     """
     file = str(path)
-    try:
-        with open(path, newline="", encoding="utf-8") as handle:
-            lines = handle.read().splitlines()
-    except FileNotFoundError:
-        raise InputError(file, None, "an input CSV file", "no such file") from None
-    except (OSError, UnicodeDecodeError) as error:
-        raise InputError(file, None, "a readable UTF-8 CSV file", str(error)) from None
-    numbered = [(i + 1, text) for i, text in enumerate(lines)
-                if text.strip() and not text.lstrip().startswith("#")]
+    text = read_input_text(path, "CSV input file", missing="an input CSV file")
+    numbered = [(i + 1, line) for i, line in enumerate(re.split(r"\r\n|\r|\n", text))
+                if line.strip() and not line.lstrip().startswith("#")]
     if not numbered:
         raise InputError(file, None, 'a header "time, aileron, rudder" and at least one row', "an empty file")
     header_line, header_text = numbered[0]
-    header = [cell.strip().lower() for cell in next(csv.reader([header_text]))]
+    header = [cell.lower() for cell in _cells(header_text, file, header_line)]
     expected_header = 'the header "time, aileron, rudder" (time [s], deflections [deg])'
     if len(header) < 3 or any(header[i] not in _CSV_HEADERS[i] for i in range(3)):
         raise InputError(file, f"line {header_line} (header)", expected_header,
@@ -540,7 +555,7 @@ def read_input_csv(path) -> InputTable:
     rows = []
     previous = None
     for line, text in numbered[1:]:
-        cells = [cell.strip() for cell in next(csv.reader([text]))]
+        cells = _cells(text, file, line)
         if len(cells) != len(header):
             raise InputError(file, f"line {line}", f"{len(header)} cells separated by commas",
                              f"{len(cells)} cells")
@@ -551,10 +566,14 @@ def read_input_csv(path) -> InputTable:
             raise InputError(file, f'line {line}, column "time"',
                              f"a time greater than {previous[1]:g} s (line {previous[0]}): times must increase",
                              describe_value(cells[0]))
-        values = [time] + [
-            _parse_number(cells[i], file, line, names[i], "a deflection [deg] as a finite number")
-            for i in (1, 2)
-        ]
+        values = [time]
+        for i in (1, 2):
+            value = _parse_number(cells[i], file, line, names[i], "a deflection [deg] as a finite number")
+            if abs(value) > MAX_DEFLECTION_DEG:
+                raise InputError(file, f'line {line}, column "{names[i]}"',
+                                 f"a deflection from -{MAX_DEFLECTION_DEG:g} to {MAX_DEFLECTION_DEG:g} deg",
+                                 describe_value(cells[i]))
+            values.append(value)
         rows.append(values)
         previous = (line, time)
     if not rows:

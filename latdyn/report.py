@@ -760,10 +760,22 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         raise InputError(output, "-o", "a report folder that does not exist yet (or --force to replace it)",
                          "an existing " + ("folder" if os.path.isdir(output) else "file"))
     parent = os.path.dirname(os.path.abspath(output))
+    created = []  # parent folders made here, deepest first: removed again if the report fails
+    folder = parent
+    while not os.path.exists(folder):
+        created.append(folder)
+        folder = os.path.dirname(folder)
+
+    def remove_created():
+        for made in created:
+            with contextlib.suppress(OSError):
+                os.rmdir(made)
+
     try:
         os.makedirs(parent, exist_ok=True)
         temporary = tempfile.mkdtemp(prefix="." + os.path.basename(output) + ".", dir=parent)
     except OSError as error:
+        remove_created()
         raise InputError(output, "-o", "a report folder in a writable place",
                          error.strerror or str(error)) from None
     try:
@@ -794,5 +806,6 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
             os.replace(temporary, output)
     except BaseException:
         shutil.rmtree(temporary, ignore_errors=True)
+        remove_created()
         raise
     return output

@@ -7,10 +7,8 @@ never report NaN or infinity in a figure: a figure that does not apply is None.
 
 import json
 import math
-import os
 
-import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import given
 from hypothesis import strategies as st
 
 from latdyn.aircraft import load_aircraft
@@ -19,48 +17,9 @@ from latdyn.cli import main
 from latdyn.errors import InputError
 from latdyn.results import analyse_aircraft, modes_document
 
-# CI budget is small; LATDYN_HYPOTHESIS_EXAMPLES raises it for a long local run.
-EXAMPLES = int(os.environ.get("LATDYN_HYPOTHESIS_EXAMPLES", "60"))
-SETTINGS = settings(max_examples=EXAMPLES, deadline=None,
-                    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow])
+from hypothesis_support import budget, dump
 
-
-def toml_value(value):
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, float):
-        if math.isnan(value):
-            return "nan"
-        if math.isinf(value):
-            return "inf" if value > 0 else "-inf"
-        return repr(value)
-    if isinstance(value, int):
-        return str(value)
-    if isinstance(value, str):
-        return json.dumps(value)
-    if isinstance(value, list):
-        return "[" + ", ".join(toml_value(v) for v in value) + "]"
-    raise TypeError(value)
-
-
-def dump(document, prefix=""):
-    """A minimal TOML writer for the generated documents (tables and arrays of tables)."""
-    lines, tables = [], []
-    for key, value in document.items():
-        if isinstance(value, dict):
-            tables.append((key, value, False))
-        elif isinstance(value, list) and value and all(isinstance(v, dict) for v in value):
-            tables.append((key, value, True))
-        else:
-            lines.append(f"{json.dumps(key)} = {toml_value(value)}")
-    for key, value, many in tables:
-        name = f"{prefix}{json.dumps(key)}"
-        for item in (value if many else [value]):
-            lines.append(f"[[{name}]]" if many else f"[{name}]")
-            inner = dump(item, name + ".")
-            lines.append(inner)
-    return "\n".join(lines)
-
+SETTINGS = budget()
 
 scalars = st.one_of(st.booleans(), st.integers(-10**6, 10**6),
                     st.floats(allow_nan=True, allow_infinity=True),

@@ -9,7 +9,6 @@ anything is printed or written, so a bad file leaves no partial output.
 from __future__ import annotations
 
 import json
-import os
 import sys
 
 __all__ = ["add_arguments", "run", "parse_flight_phases"]
@@ -64,8 +63,10 @@ def run(args):
 
     phases = parse_flight_phases(args.flight_phase)
     criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None
-    if args.plots and not os.path.isdir(args.plots):
-        raise InputError(args.plots, None, "an existing folder for the charts (--plots)", "no such folder")
+    if args.plots:
+        from latdyn.output_files import check_output_folder
+
+        check_output_folder(args.plots, "--plots")
     results = []
     for path in args.files:
         aircraft = load_aircraft(path)

@@ -62,6 +62,24 @@ def _check_positive(value, option, allow_zero=False):
         raise InputError(_COMMAND_LINE, option, expected, repr(value))
 
 
+def _check_angles(args):
+    """Deflection and initial disturbance: finite; the deflection and angles within bounds [deg]."""
+    from latdyn.errors import InputError
+    from latdyn.inputs import MAX_DEFLECTION_DEG
+
+    # beyond a right angle of sideslip or a half turn of bank the numbers are a slip of units
+    # or a typo (common practice); the rates need only be finite
+    for option, limit in (("--amplitude-deg", MAX_DEFLECTION_DEG), ("--beta0-deg", 90.0), ("--phi0-deg", 180.0),
+                          ("--p0-deg-s", None), ("--r0-deg-s", None)):
+        value = getattr(args, option[2:].replace("-", "_"))
+        if value is None:
+            continue
+        if not math.isfinite(value):
+            raise InputError(_COMMAND_LINE, option, "a finite number", repr(value))
+        if limit is not None and abs(value) > limit:
+            raise InputError(_COMMAND_LINE, option, f"a number from -{limit:g} to {limit:g} [deg]", repr(value))
+
+
 def _cases(args):
     """(aircraft, condition) pairs in the order asked for."""
     from latdyn.aircraft import load_aircraft
@@ -124,8 +142,6 @@ def _histories(args, reference_defaults):
         elif kind not in INPUT_KINDS:
             raise InputError(_COMMAND_LINE, "--input",
                              f"one of {', '.join(INPUT_KINDS)} or a file ending in .csv", f'"{kind}"')
-    if args.amplitude_deg is not None and not math.isfinite(args.amplitude_deg):
-        raise InputError(_COMMAND_LINE, "--amplitude-deg", "a finite number", repr(args.amplitude_deg))
     _check_positive(args.half_period, "--half-period")
     _check_positive(args.start, "--start", allow_zero=True)
     _check_positive(args.duration, "--duration")
@@ -146,8 +162,13 @@ def _histories(args, reference_defaults):
         raise InputError(_COMMAND_LINE, "--dt", f"a step smaller than the duration ({duration:g} s)",
                          f"{step:g} s")
     if duration / step > _MAX_SAMPLES:
+        longest = max(tables, key=lambda t: t.time[-1], default=None)
+        if args.duration is None and longest is not None and duration == longest.time[-1]:
+            raise InputError(longest.file, 'column "time"', f"a last time that keeps the run within "
+                             f"{_MAX_SAMPLES} samples at a step of {step:g} s (or set --duration, --dt)",
+                             f"{duration:g} s")
         raise InputError(_COMMAND_LINE, "--dt", f"at most {_MAX_SAMPLES} samples over {duration:g} s",
-                         f"{duration / step:.0f} samples with a step of {step:g} s")
+                         f"{duration / step:.3g} samples with a step of {step:g} s")
     breakpoints = []
     for kind in kinds:
         if kind in INPUT_KINDS:
@@ -237,15 +258,12 @@ def _summary(label, aircraft, response, readout, modes, settings):
 
 
 def _check_outputs(args):
-    """Refuse before any work an output whose folder is missing or not writable."""
-    from latdyn.errors import InputError
+    """Refuse before any work an output that could not be written (see check_output_file)."""
+    from latdyn.output_files import check_output_file
 
-    for path in (args.csv, args.plot, args.bode):
+    for path, option in ((args.csv, "--csv"), (args.plot, "--plot"), (args.bode, "--bode")):
         if path:
-            folder = os.path.dirname(os.path.abspath(path))
-            if not os.path.isdir(folder) or not os.access(folder, os.W_OK):
-                raise InputError(path, None, "an output file in an existing, writable folder",
-                                 f"no writable folder {folder}")
+            check_output_file(path, option, figure=option != "--csv")
 
 
 def run(args):
@@ -256,6 +274,7 @@ def run(args):
     from latdyn.responses import simulate, write_csv
 
     _check_outputs(args)
+    _check_angles(args)
     cases = _cases(args)
     labels = _labels(cases)
     models = [lateral_model(aircraft, condition) for aircraft, condition in cases]

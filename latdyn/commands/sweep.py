@@ -39,6 +39,10 @@ def run(args):
     from latdyn.studies.sweep import parse_range, sweep, sweep_document, sweep_rows
     from latdyn.tables import render
 
+    if args.plot:
+        from latdyn.output_files import check_output_file
+
+        check_output_file(args.plot, "--plot", figure=True)
     aircraft = load_aircraft(args.file)
     ranges = [parse_range(text, args.file) for text in args.vary]
     criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None

@@ -71,6 +71,10 @@ def run(args):
     from latdyn.studies.uncertainty import parse_uncertainty, uncertainty, uncertainty_document
     from latdyn.tables import render
 
+    if args.plot:
+        from latdyn.output_files import check_output_file
+
+        check_output_file(args.plot, "--plot", figure=True)
     aircraft = load_aircraft(args.file)
     given = [parse_uncertainty(words, args.file) for words in args.vary]
     criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None

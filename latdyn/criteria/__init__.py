@@ -36,7 +36,8 @@ File layout (format 1)::
     min_altitude = 5486.4             # [m]: band holds at and above
     max_altitude = 5486.4             # [m]: band holds below
     source = "<key of [sources]>"
-    # limits (per mode, see LIMIT_KEYS): a number, or a list of three numbers (Levels 1, 2, 3):
+    # limits (per mode, see LIMIT_KEYS): a number, or a list of three numbers (Levels 1, 2, 3;
+    #   Level 1 the strictest: a lower limit may not rise from Level 1 to 3, an upper one not fall):
     #   dutch_roll:      min_damping_ratio, min_zeta_omega [rad/s], min_natural_frequency [rad/s];
     #                    or cycles_to_amplitude_ratio = 7 (with amplitude_ratio = 0.1, the default),
     #                    turned into min_damping_ratio = k / sqrt(1 + k^2), k = ln(1/ratio) / (2 pi N);
@@ -63,7 +64,9 @@ import os
 import tomllib
 from dataclasses import dataclass
 
+from latdyn.aircraft_file import MAX_FILE_BYTES
 from latdyn.errors import InputError, describe_value
+from latdyn.input_files import read_input_text
 
 __all__ = [
     "Source", "Band", "PhiToBetaRule", "ClassRule", "ModeCriteria", "CriteriaSet",
@@ -145,9 +148,10 @@ def damping_ratio_for_cycles(cycles, amplitude_ratio=0.1):
     """
     import numpy as np
 
-    k = np.log(1.0 / np.asarray(amplitude_ratio, dtype=float)) / (
+    k = -np.log(np.asarray(amplitude_ratio, dtype=float)) / (
         2.0 * np.pi * np.asarray(cycles, dtype=float))
-    return k / np.sqrt(1.0 + k * k)
+    with np.errstate(over="ignore"):
+        return 1.0 / np.hypot(1.0, 1.0 / k)  # = k / sqrt(1 + k^2) without overflow
 
 
 def expand_classes(words):
@@ -421,15 +425,17 @@ def load_criteria(name_or_path) -> CriteriaSet:
     else:
         raise InputError(text, None, "a criteria set name (" + ", ".join(builtin_criteria())
                          + ") or the path of a criteria file", "neither")
+    text = read_input_text(path, "criteria file", MAX_FILE_BYTES)
+    if not text.strip():
+        raise InputError(path, None, f"a criteria file (format {FORMAT})", "an empty file")
     try:
-        with open(path, "rb") as handle:
-            tree = tomllib.load(handle)
-    except FileNotFoundError:
-        raise InputError(path, None, "an existing criteria file", "no such file") from None
-    except OSError as error:
-        raise InputError(path, None, "a readable criteria file", error.strerror or str(error)) from None
+        tree = tomllib.loads(text)
     except tomllib.TOMLDecodeError as error:
         raise InputError(path, None, "a TOML document", f"a syntax error ({error})") from None
+    except RecursionError:
+        raise InputError(path, None, "a TOML document", "nesting too deep to read") from None
+    if not tree:
+        raise InputError(path, None, f"a criteria file (format {FORMAT})", "no keys (only comments)")
     return _Reader(path).criteria(tree)
 
 
@@ -480,6 +486,16 @@ class _Reader:
                 self.fail(f"{full}[{i}]", "one of " + ", ".join(choices), describe_value(item))
         return value
 
+    def in_level_order(self, values, sense, full):
+        """Level 1 is the strictest: a lower limit (sense +1) may not rise from Level 1 to 3,
+        an upper limit (sense -1) may not fall."""
+        for i in range(len(values) - 1):
+            if (values[i] - values[i + 1]) * sense < 0:
+                trend = "fall or stay" if sense > 0 else "rise or stay"
+                self.fail(full, f"values that {trend} from Level 1 to Level 3 (Level 1 is the strictest)",
+                          "[" + ", ".join(f"{v:g}" for v in values) + f"] (Level {i + 1} "
+                          f"{values[i]:g} is less strict than Level {i + 2} {values[i + 1]:g})")
+
     def phases(self, table, where):
         full = f"{where}.flight_phases"
         if "flight_phases" not in table:
@@ -506,7 +522,7 @@ class _Reader:
         self.known(tree, _TOP_KEYS, "")
         if "format" not in tree:
             self.fail("format", f"the criteria file format number {FORMAT}", "nothing (the key is missing)")
-        if isinstance(tree["format"], bool) or tree["format"] != FORMAT:
+        if type(tree["format"]) is not int or tree["format"] != FORMAT:
             self.fail("format", f"the criteria file format number {FORMAT}", describe_value(tree["format"]))
         name = self.string(tree, "name", "")
         title = self.string(tree, "title", "", required=False) or name
@@ -632,8 +648,8 @@ class _Reader:
             if count == 1:
                 values = [values]
             elif not isinstance(values, list) or len(values) != count:
-                self.fail(full, f"a list of {count} numbers (Levels 1, 2, 3), or a number with level =",
-                          describe_value(values))
+                self.fail(full, f"a list of {count} numbers (Levels 1, 2, 3), "
+                          "or one number in a band with level = 1, 2 or 3", describe_value(values))
             for i, value in enumerate(values):
                 item = full if count == 1 else f"{full}[{i}]"
                 number = self.number(value, item, words)
@@ -641,6 +657,8 @@ class _Reader:
                 if number < low or number > high or (strict_low and number <= low):
                     self.fail(item, words, describe_value(value))
                 limits[i][key] = number
+            if count > 1:
+                self.in_level_order([entry[key] for entry in limits], limit_keys[key], full)
         derived = None
         if mode == "dutch_roll":
             derived = self.cycles(raw, where)
@@ -695,6 +713,7 @@ class _Reader:
         for i, value in enumerate(values):
             if value < 0:
                 self.fail(f"{where}.coefficients[{i}]", "a finite number >= 0 [s]", describe_value(value))
+        self.in_level_order(values, 1, f"{where}.coefficients")
         return PhiToBetaRule(threshold, values, self.source(raw, where))
 
     def class_rule(self, raw, where, with_value):

@@ -16,7 +16,8 @@ def save_figure(figure, path, dpi=150):
     ----------
     figure : matplotlib.figure.Figure
     path : str or os.PathLike
-        Output file; the format follows the suffix (``.png``, ``.pdf``, ``.svg``).
+        Output file; the format follows the suffix (``.png``, ``.pdf``, ``.svg``;
+        PNG without a suffix).
     dpi : int
         Resolution of raster formats [dots per inch].
 
@@ -26,8 +27,9 @@ def save_figure(figure, path, dpi=150):
     """
     from latdyn.output_files import atomic_path
 
+    kind = os.path.splitext(os.fspath(path))[1][1:].lower() or "png"  # not the temporary name's
     with atomic_path(path) as temporary:
-        figure.savefig(temporary, dpi=dpi, facecolor="white")
+        figure.savefig(temporary, dpi=dpi, facecolor="white", format=kind)
     return path
 
 

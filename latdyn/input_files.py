@@ -1,0 +1,83 @@
+"""Reading input text files (criteria TOML, input CSV): one InputError for any unreadable file.
+
+The counterpart of :mod:`latdyn.output_files`.  A missing file, a folder, a
+file too large to be an input, binary data and bytes that are not UTF-8
+each become one :class:`~latdyn.errors.InputError`; a UTF-8 byte-order mark
+(written by some spreadsheet programs) is dropped.
+"""
+
+from __future__ import annotations
+
+import codecs
+import os
+
+from latdyn.errors import InputError
+
+__all__ = ["read_input_text", "MAX_INPUT_BYTES"]
+
+#: Largest input text file read [bytes] (the aircraft loader has its own limit).
+MAX_INPUT_BYTES = 64 * 1024 * 1024
+
+
+def read_input_text(path, kind, max_bytes=MAX_INPUT_BYTES, missing=None) -> str:
+    """The text of an input file, or one InputError saying why it cannot be read.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+    kind : str
+        What the file should be, in words (``"criteria file"``).
+    max_bytes : int
+        Largest size accepted [bytes].
+    missing : str or None
+        What was expected, in words, when the file does not exist (default
+        ``"an existing <kind>"``).
+
+    Returns
+    -------
+    str
+        The decoded text (UTF-8, byte-order mark removed).
+
+    Raises
+    ------
+    InputError
+        No such file, a folder, too large, unreadable, binary data, not UTF-8.
+
+    Examples
+    --------
+    >>> import pathlib, tempfile
+    >>> path = pathlib.Path(tempfile.mkdtemp()) / "a.csv"
+    >>> _ = path.write_bytes(b"time\\n\\xff\\n")
+    >>> read_input_text(path, "CSV file")  # doctest: +ELLIPSIS
+    Traceback (most recent call last):
+    ...
+    latdyn.errors.InputError: ...a.csv: line 2: expected UTF-8 text, found a byte 0xff that is not UTF-8 (offset 5)
+    """
+    file = os.fspath(path)
+    if os.path.isdir(file):
+        raise InputError(file, None, f"a {kind}", "a folder")
+    try:
+        size = os.path.getsize(file)
+        if size > max_bytes:
+            raise InputError(file, None, f"a {kind} of at most {max_bytes / 1048576:g} MB",
+                             f"{size / 1048576:.1f} MB")
+        with open(file, "rb") as handle:
+            data = handle.read(max_bytes + 1)
+    except FileNotFoundError:
+        raise InputError(file, None, missing or f"an existing {kind}", "no such file") from None
+    except OSError as error:
+        raise InputError(file, None, f"a readable {kind}", error.strerror or str(error)) from None
+    if b"\x00" in data:
+        offset = data.index(b"\x00")
+        line = data[:offset].count(b"\n") + 1
+        raise InputError(file, f"line {line}", f"a {kind} (UTF-8 text)",
+                         f"binary data (a NUL byte at offset {offset})")
+    start = len(codecs.BOM_UTF8) if data.startswith(codecs.BOM_UTF8) else 0
+    try:
+        return data[start:].decode("utf-8")
+    except UnicodeDecodeError as error:
+        offset = start + error.start
+        line = data[:offset].count(b"\n") + 1
+        raise InputError(file, f"line {line}", "UTF-8 text",
+                         f"a byte 0x{data[offset]:02x} that is not UTF-8 (offset {offset})") from None
