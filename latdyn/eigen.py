@@ -196,7 +196,8 @@ def _newton_complex(c, re, im):
     """One Newton step on x^4 + c1 x^3 + c2 x^2 + c3 x + c4 at x = re + i im.
 
     p and p' by Horner's rule (b_k = b_(k-1) x + c_k, d_k = d_(k-1) x + b_(k-1)),
-    in real arithmetic.  Returns the new (re, im) and p'(x) as (re, im).
+    in real arithmetic; no step where it is not finite (p'(x) = 0).  Returns
+    the new (re, im) and p'(x) as (re, im).
     """
     c1, c2, c3, c4 = c
     br, bi = re + c1, im                                        # b1 = x + c1
@@ -207,11 +208,15 @@ def _newton_complex(c, re, im):
     dr, di = dr * re - di * im + br, dr * im + di * re + bi     # p'
     fr, fi = br * re - bi * im + c4, br * im + bi * re          # p
     size = dr * dr + di * di
-    return re - (fr * dr + fi * di) / size, im - (fi * dr - fr * di) / size, dr, di
+    new_re = re - (fr * dr + fi * di) / size
+    new_im = im - (fi * dr - fr * di) / size
+    # no step where p'(x) = 0 (a multiple root) or the values overflow
+    keep = np.isfinite(new_re) & np.isfinite(new_im)
+    return np.where(keep, new_re, re), np.where(keep, new_im, im), dr, di
 
 
 def _newton_real(c, x):
-    """One Newton step on the quartic at real x; returns the new x and p'(x)."""
+    """One Newton step on the quartic at real x (none where not finite); returns the new x and p'(x)."""
     c1, c2, c3, c4 = c
     b = x + c1
     d = x + b
@@ -219,7 +224,8 @@ def _newton_real(c, x):
     d = d * x + b
     b = b * x + c3
     d = d * x + b
-    return x - (b * x + c4) / d, d
+    new = x - (b * x + c4) / d
+    return np.where(np.isfinite(new), new, x), d
 
 
 def _factor_roots(c):
@@ -244,7 +250,8 @@ def _factor_roots(c):
     first_di = np.where(pair, first_di, 0.0)
     re = np.stack([first_re[0], np.where(pair[0], first_re[0], second[0]),
                    first_re[1], np.where(pair[1], first_re[1], second[1])])
-    im = np.stack([first_im[0], -first_im[0], first_im[1], -first_im[1]])
+    im = np.stack([first_im[0], np.where(pair[0], -first_im[0], 0.0),
+                   first_im[1], np.where(pair[1], -first_im[1], 0.0)])
     slope_re = np.stack([first_dr[0], np.where(pair[0], first_dr[0], second_d[0]),
                          first_dr[1], np.where(pair[1], first_dr[1], second_d[1])])
     slope_im = np.stack([first_di[0], -first_di[0], first_di[1], -first_di[1]])
