@@ -110,25 +110,27 @@ def _pairs(first_re, first_im, second_re, second_im):
     return out
 
 
+def _at(rows, slot):
+    """rows[slot[i], i] for every case i of a (4, N) array."""
+    n = rows.shape[1]
+    return np.take(rows, slot * n + np.arange(n))
+
+
 def _name_slots(re, content, is_complex):
-    """Root slots (factor layout) of each mode and the pattern, for N cases.
+    """Root slots (factor layout, :mod:`latdyn.eigen`) of each mode and the pattern, for N cases.
 
-    Returns pattern, Dutch roll first and second slot, roll, spiral and
-    roll-spiral (upper root) slot; a slot of an absent mode is arbitrary.
+    The naming rules of the module notes, on (4, N) arrays of the roots' real
+    parts, sideslip content and complex flags.  Returns pattern, Dutch roll
+    first and second slot, roll, spiral and roll-spiral (upper root) slot;
+    the slot of an absent mode is arbitrary.
     """
-    n = re.shape[1]
-    cols = np.arange(n)
-
-    def at(rows, slot):
-        return np.take(rows, slot * n + cols)
-
     first_pair, second_pair = is_complex[0], is_complex[2]
     # exactly one pair: the pair in slots (0, 1) or (2, 3), two real roots in the others
     pair = np.where(first_pair, 0, 2)
     real_a = 2 - pair
     real_b = real_a + 1
-    re_a, re_b = at(re, real_a), at(re, real_b)
-    odd = at(content, pair) < np.minimum(at(content, real_a), at(content, real_b))
+    re_a, re_b = _at(re, real_a), _at(re, real_b)
+    odd = _at(content, pair) < np.minimum(_at(content, real_a), _at(content, real_b))
     # usual: the pair is the Dutch roll; of the real roots the faster is roll, the slower spiral
     faster = np.where(np.abs(re_a) >= np.abs(re_b), real_a, real_b)
     # odd: the pair is a roll-spiral oscillation, the real roots an over-damped Dutch roll
@@ -154,7 +156,7 @@ def _name_slots(re, content, is_complex):
         dutch[none], dutch_second[none] = least, order[0] + order[1] - least
         faster = np.where(np.abs(value[2]) >= np.abs(value[3]), order[2], order[3])
         roll[none], spiral[none], pattern[none] = faster, order[2] + order[3] - faster, 2
-    return pattern, dutch, dutch_second, roll, spiral, roll_spiral, at
+    return pattern, dutch, dutch_second, roll, spiral, roll_spiral
 
 
 def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
@@ -216,11 +218,11 @@ def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
         phi = np.sqrt(phi_re * phi_re + phi_im * phi_im)
         content = np.nan_to_num(beta / (beta + phi), nan=0.0)
         ratio = phi / beta
-    pattern, dutch, dutch_second, roll, spiral, roll_spiral, at = _name_slots(re, content, is_complex)
+    pattern, dutch, dutch_second, roll, spiral, roll_spiral = _name_slots(re, content, is_complex)
     has_pair = (pattern == 1) | (pattern == 3)
     nan = np.nan
-    roll_spiral_re = np.where(has_pair, at(re, roll_spiral), nan)
-    roll_spiral_im = np.where(has_pair, at(im, roll_spiral), 0.0)
+    roll_spiral_re = np.where(has_pair, _at(re, roll_spiral), nan)
+    roll_spiral_im = np.where(has_pair, _at(im, roll_spiral), 0.0)
     mode_vectors = None
     if vectors:
         rows = np.arange(len(pattern))
@@ -230,10 +232,10 @@ def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
         mode_vectors[:, :, 3][~has_pair] = nan
     return ModeArrays(
         pattern,
-        _pairs(at(re, dutch), at(im, dutch), at(re, dutch_second), at(im, dutch_second)),
-        np.where(has_pair, nan, at(re, roll)), np.where(has_pair, nan, at(re, spiral)),
+        _pairs(_at(re, dutch), _at(im, dutch), _at(re, dutch_second), _at(im, dutch_second)),
+        np.where(has_pair, nan, _at(re, roll)), np.where(has_pair, nan, _at(re, spiral)),
         _pairs(roll_spiral_re, roll_spiral_im, roll_spiral_re, np.where(has_pair, -roll_spiral_im, 0.0)),
-        mode_vectors, at(ratio, dutch))
+        mode_vectors, _at(ratio, dutch))
 
 
 def pair_figures(first, second):

@@ -203,3 +203,18 @@ def test_batch_grades_equal_the_stack_grading_field_by_field(kestrel):
         for name, field in grades._asdict().items():
             np.testing.assert_array_equal(getattr(batched["mil-f-8785c", mode], name), field,
                                           err_msg=f"{mode} {name}")
+
+
+@pytest.mark.parametrize("coefficients,expected", [
+    ([0.0, 0.0, 0.0, 0.0], [0.0, 0.0, 0.0, 0.0]),          # x^4: a quadruple root, p'(0) = 0
+    ([-4.0, 6.0, -4.0, 1.0], [1.0, 1.0, 1.0, 1.0]),        # (x - 1)^4
+    ([-10.0, 35.0, -50.0, 24.0], [1.0, 2.0, 3.0, 4.0]),    # (x - 1)(x - 2)(x - 3)(x - 4)
+], ids=["x4", "quadruple-one", "one-to-four"])
+def test_quartic_roots_of_multiple_and_simple_roots(coefficients, expected):
+    """Hand-checked polynomials (common practice); no Newton step where p'(x) = 0."""
+    from latdyn.eigen import quartic_roots
+
+    roots, _ = quartic_roots(np.array([coefficients]))
+    assert np.all(np.isfinite(roots))
+    np.testing.assert_allclose(np.sort(roots[0].real), expected, atol=1e-6)
+    np.testing.assert_array_equal(roots[0].imag == 0, np.ones(4, bool))
