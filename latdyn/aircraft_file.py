@@ -17,10 +17,10 @@ from __future__ import annotations
 
 import difflib
 import os
-import tomllib
 from dataclasses import dataclass
 
 from latdyn.errors import InputError, describe_value
+from latdyn.input_files import parse_toml
 
 __all__ = ["Leaf", "SCHEMA", "UNCERTAIN_KEYS", "read_tree", "MAX_FILE_BYTES"]
 
@@ -120,17 +120,7 @@ def _read_toml(path: str, referrer=None) -> dict:
     except UnicodeDecodeError as error:
         raise InputError(path, None, "a UTF-8 text file in TOML",
                          f"a byte that is not UTF-8 at offset {error.start}") from None
-    if not text.strip():
-        raise InputError(path, None, "a TOML aircraft description", "an empty file")
-    try:
-        document = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
-        raise InputError(path, None, "valid TOML", f"a syntax error ({error})") from None
-    except RecursionError:
-        raise InputError(path, None, "valid TOML", "nesting too deep to read") from None
-    if not document:
-        raise InputError(path, None, "a TOML aircraft description", "no keys (only comments)")
-    return document
+    return parse_toml(text, path, "a TOML aircraft description")
 
 
 def _check_keys(table: dict, schema: dict, file: str, prefix: str, condition=None):

@@ -10,10 +10,11 @@ from __future__ import annotations
 
 import codecs
 import os
+import tomllib
 
 from latdyn.errors import InputError
 
-__all__ = ["read_input_text", "MAX_INPUT_BYTES"]
+__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES"]
 
 #: Largest input text file read [bytes] (the aircraft loader has its own limit).
 MAX_INPUT_BYTES = 64 * 1024 * 1024
@@ -81,3 +82,44 @@ def read_input_text(path, kind, max_bytes=MAX_INPUT_BYTES, missing=None) -> str:
         line = data[:offset].count(b"\n") + 1
         raise InputError(file, f"line {line}", "UTF-8 text",
                          f"a byte 0x{data[offset]:02x} that is not UTF-8 (offset {offset})") from None
+
+
+def parse_toml(text, file, document, syntax="valid TOML") -> dict:
+    """A TOML document with at least one key, or one InputError saying why not.
+
+    Parameters
+    ----------
+    text : str
+        The file's text.
+    file : str
+        The file, for the message.
+    document : str
+        What the file should hold, in words (``"a TOML aircraft description"``).
+    syntax : str
+        What was expected when the TOML does not parse, in words.
+
+    Raises
+    ------
+    InputError
+        Empty, a syntax error, nesting too deep, or only comments.
+
+    Examples
+    --------
+    >>> parse_toml("a = 1", "x.toml", "a document")
+    {'a': 1}
+    >>> parse_toml("# nothing", "x.toml", "a document")
+    Traceback (most recent call last):
+    ...
+    latdyn.errors.InputError: x.toml: expected a document, found no keys (only comments)
+    """
+    if not text.strip():
+        raise InputError(file, None, document, "an empty file")
+    try:
+        tree = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise InputError(file, None, syntax, f"a syntax error ({error})") from None
+    except RecursionError:
+        raise InputError(file, None, syntax, "nesting too deep to read") from None
+    if not tree:
+        raise InputError(file, None, document, "no keys (only comments)")
+    return tree

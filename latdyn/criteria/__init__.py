@@ -61,12 +61,11 @@ from __future__ import annotations
 import difflib
 import math
 import os
-import tomllib
 from dataclasses import dataclass
 
 from latdyn.aircraft_file import MAX_FILE_BYTES
 from latdyn.errors import InputError, describe_value
-from latdyn.input_files import read_input_text
+from latdyn.input_files import parse_toml, read_input_text
 
 __all__ = [
     "Source", "Band", "PhiToBetaRule", "ClassRule", "ModeCriteria", "CriteriaSet",
@@ -426,16 +425,7 @@ def load_criteria(name_or_path) -> CriteriaSet:
         raise InputError(text, None, "a criteria set name (" + ", ".join(builtin_criteria())
                          + ") or the path of a criteria file", "neither")
     text = read_input_text(path, "criteria file", MAX_FILE_BYTES)
-    if not text.strip():
-        raise InputError(path, None, f"a criteria file (format {FORMAT})", "an empty file")
-    try:
-        tree = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
-        raise InputError(path, None, "a TOML document", f"a syntax error ({error})") from None
-    except RecursionError:
-        raise InputError(path, None, "a TOML document", "nesting too deep to read") from None
-    if not tree:
-        raise InputError(path, None, f"a criteria file (format {FORMAT})", "no keys (only comments)")
+    tree = parse_toml(text, path, f"a criteria file (format {FORMAT})", "a TOML document")
     return _Reader(path).criteria(tree)
 
 
