@@ -133,7 +133,7 @@ def _summary_rows(assessments):
                 rows.append({
                     "aircraft": assessment.aircraft, "condition": condition.name,
                     "category": condition.category or "not given",
-                    "criteria": f"{criteria.name} ({criteria.edition})",
+                    "criteria": criteria.name,
                     "result": worst.result, "mode": _mode_label(worst.mode),
                     "governing": worst.governing, "value": worst.value, "limit": worst.limit,
                     "margin": worst.margin,
@@ -434,7 +434,10 @@ def build_report(files, variants=(), criteria_sets=None, folder=None, progress=N
                          "Margin: to the next-better boundary in the governing parameter's units "
                          "(positive inside the boundary). " + NOTICE, "small"),
                Table("summary", "Worst result per condition", SUMMARY_COLUMNS, tuple(summary),
-                     tuple(emphasis)))
+                     tuple(emphasis)),
+               Paragraph("Criteria editions: " + "; ".join(
+                   f"{c.name}: {c.edition}" for c in {c.name: c for a in [*assessments, *variant_assessments]
+                                                       for c in a.criteria}.values()) + ".", "small"))
     notes = [n for a in [*assessments, *variant_assessments] for n in a.notes]
     for note in notes:
         report.add(Paragraph("Note: " + note, "warning"))
@@ -637,10 +640,13 @@ figure { margin: 10px 0 20px; }
 figure img { max-width: 100%; border: 1px solid var(--rule); }
 figcaption { color: var(--muted); font-size: 12.5px; }
 nav ul { columns: 2; font-size: 13px; }
+@page { size: A4 landscape; margin: 12mm; }
 @media print {
   body { max-width: none; margin: 0; font-size: 11px; }
-  h2 { page-break-before: auto; }
-  table, figure, .notice { page-break-inside: avoid; }
+  h2, h3 { page-break-after: avoid; }
+  thead { display: table-header-group; }
+  tr, figure, .notice { page-break-inside: avoid; }
+  figure img { max-height: 170mm; }
   nav { display: none; }
   a { color: inherit; text-decoration: none; }
 }
