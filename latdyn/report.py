@@ -123,6 +123,8 @@ def sha256_of(path) -> str:
 
 def _summary_rows(assessments):
     """Worst level per condition and criteria set, for every aircraft."""
+    from latdyn.assessment_tables import parameter_label
+
     rows, emphasis = [], []
     for assessment in assessments:
         for condition in assessment.conditions:
@@ -135,7 +137,8 @@ def _summary_rows(assessments):
                     "category": condition.category or "not given",
                     "criteria": criteria.name,
                     "result": worst.result, "mode": _mode_label(worst.mode),
-                    "governing": worst.governing, "value": worst.value, "limit": worst.limit,
+                    "governing": parameter_label(worst.mode, worst.governing),
+                    "value": worst.value, "limit": worst.limit,
                     "margin": worst.margin,
                     "margin_percent": None if worst.margin_fraction is None else 100 * worst.margin_fraction,
                 })
@@ -150,7 +153,7 @@ SUMMARY_COLUMNS = (("aircraft", "Aircraft"), ("condition", "Condition"), ("categ
                    ("margin", "Margin"), ("margin_percent", "Margin [%]"))
 
 ASSESSMENT_COLUMNS = (("mode", "Mode"), ("criteria", "Criteria"), ("result", "Result"),
-                      ("governing", "Governing"), ("unit", "Unit"), ("value", "Value"),
+                      ("governing", "Governing"), ("value", "Value"),
                       ("limit", "Limit"), ("margin", "Margin"), ("margin_percent", "Margin [%]"),
                       ("source", "Source"))
 
@@ -186,10 +189,12 @@ def _mode_rows(modes):
 
 
 def _assessment_rows(condition):
+    from latdyn.assessment_tables import parameter_label
+
     rows, emphasis = [], []
     for entry in condition.assessments:
         rows.append({"mode": _mode_label(entry.mode), "criteria": entry.criteria,
-                     "result": entry.result, "governing": entry.governing, "unit": entry.unit,
+                     "result": entry.result, "governing": parameter_label(entry.mode, entry.governing),
                      "value": entry.value, "limit": entry.limit, "margin": entry.margin,
                      "margin_percent": None if entry.margin_fraction is None else 100 * entry.margin_fraction,
                      "source": entry.source})
