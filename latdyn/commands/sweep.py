@@ -33,21 +33,13 @@ def add_arguments(parser):
 
 
 def run(args):
-    from latdyn.aircraft import load_aircraft
     from latdyn.assessment import NOTICE
-    from latdyn.criteria import load_criteria
+    from latdyn.commands import load_study_inputs, notice_csv
     from latdyn.studies.sweep import parse_range, sweep, sweep_document, sweep_rows
     from latdyn.tables import render
 
-    if args.plot:
-        from latdyn.output_files import check_output_file
-
-        check_output_file(args.plot, "--plot", figure=True)
-    aircraft = load_aircraft(args.file)
+    aircraft, criteria = load_study_inputs(args)
     ranges = [parse_range(text, args.file) for text in args.vary]
-    criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None
-    if args.condition:
-        aircraft.condition(args.condition)
     result = sweep(aircraft, ranges, args.condition, criteria, progress=True)
     if args.format == "json":
         text = json.dumps(sweep_document(result), indent=2, allow_nan=False) + "\n"
@@ -55,7 +47,7 @@ def run(args):
         columns, rows = sweep_rows(result)
         table = render(columns, rows, "csv" if args.format == "csv" else "text")
         if args.format == "csv":
-            text = table + render([("notice", "notice")], [{"notice": NOTICE}], "csv")
+            text = table + notice_csv()
         else:
             lines = [f"{aircraft.name}  ({aircraft.file})", "", table, ""]
             units = {axis.key.text: axis.key.unit for axis in result.axes}

@@ -65,21 +65,13 @@ def uncertainty_rows(result):
 
 
 def run(args):
-    from latdyn.aircraft import load_aircraft
     from latdyn.assessment import NOTICE
-    from latdyn.criteria import load_criteria
+    from latdyn.commands import load_study_inputs, notice_csv
     from latdyn.studies.uncertainty import parse_uncertainty, uncertainty, uncertainty_document
     from latdyn.tables import render
 
-    if args.plot:
-        from latdyn.output_files import check_output_file
-
-        check_output_file(args.plot, "--plot", figure=True)
-    aircraft = load_aircraft(args.file)
+    aircraft, criteria = load_study_inputs(args)
     given = [parse_uncertainty(words, args.file) for words in args.vary]
-    criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None
-    if args.condition:
-        aircraft.condition(args.condition)
     result = uncertainty(aircraft, given, args.samples, args.seed, args.condition, criteria,
                          progress=True)
     if args.format == "json":
@@ -87,8 +79,7 @@ def run(args):
     else:
         level_rows, figure_rows = uncertainty_rows(result)
         style = "csv" if args.format == "csv" else "text"
-        notice = render([("notice", "notice")], [{"notice": NOTICE}], "csv") if style == "csv" \
-            else NOTICE + "\n"
+        notice = notice_csv() if style == "csv" else NOTICE + "\n"
         text = "\n".join([
             f"{aircraft.name}  ({aircraft.file})" if style == "text" else "",
             f"{result.samples} samples per condition, seed {result.seed}" if style == "text" else "",
