@@ -24,7 +24,7 @@ __all__ = [
     "Geometry", "MassProperties", "FlightCondition", "NondimensionalDerivatives",
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
     "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES", "FLIGHT_PHASES",
-    "Fin", "Uncertainty", "DISTRIBUTIONS",
+    "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
@@ -201,12 +201,62 @@ class DimensionalDerivatives:
     N_dr: float = 0.0
 
 
+#: Largest control travel accepted [deg]: a deflection of 90 deg or more is a typing mistake.
+MAX_TRAVEL_DEG = 90.0
+
+
+@dataclass(frozen=True)
+class Controls:
+    """Control travel and rate limits, SI and radians.
+
+    Each travel is the largest deflection each way (the control moves from
+    ``-aileron`` to ``+aileron``), measured in the same angle that the
+    aircraft file's control derivatives are per: ``aileron`` in the angle of
+    ``Cl_da``, ``Cn_da``, ``Cy_da`` (or ``L_da``, ...), ``rudder`` in that of
+    ``Cl_dr``, ``Cn_dr``, ``Cy_dr``.  Signs: a positive aileron deflection
+    gives the rolling moment of the sign of ``Cl_da`` (``L_da``), a positive
+    rudder deflection the yawing moment of the sign of ``Cn_dr`` (``N_dr``);
+    roll is positive right wing down, yaw positive nose right (body axes,
+    x forward, y right, z down).  A value the file does not give is None.
+
+    Attributes
+    ----------
+    aileron : float or None
+        Aileron travel each way, ``[controls] aileron_deg`` [rad].
+    rudder : float or None
+        Rudder travel each way, ``rudder_deg`` [rad].
+    aileron_rate : float or None
+        Largest aileron deflection rate, ``aileron_rate_deg_s`` [rad/s];
+        None: no rate limit (an abrupt step).
+    rudder_rate : float or None
+        Largest rudder deflection rate, ``rudder_rate_deg_s`` [rad/s].
+
+    Examples
+    --------
+    >>> import math
+    >>> c = Controls(aileron=math.radians(20.0), rudder=math.radians(25.0))
+    >>> round(math.degrees(c.aileron), 6), c.aileron_rate is None
+    (20.0, True)
+    """
+
+    aileron: float | None = None
+    rudder: float | None = None
+    aileron_rate: float | None = None
+    rudder_rate: float | None = None
+
+
 @dataclass(frozen=True)
 class Condition:
-    """A flight condition with the derivatives that describe it there."""
+    """A flight condition with the derivatives that describe it there.
+
+    ``controls`` is the control travel that holds in this condition: the
+    aircraft's ``[controls]`` with this condition's ``[condition.controls]``
+    overriding it key by key (None when the file gives neither).
+    """
 
     flight: FlightCondition
     derivatives: NondimensionalDerivatives | DimensionalDerivatives
+    controls: Controls | None = None
 
     @property
     def name(self) -> str:
@@ -285,6 +335,12 @@ class Aircraft:
     warnings : tuple of str
         Implausible signs and similar notes, one line each.
     description : str or None
+    fin : Fin or None
+        The ``[fin]`` block (fin-sizing studies).
+    uncertainties : tuple of Uncertainty
+    controls : Controls or None
+        The aircraft-wide ``[controls]`` table; each condition's
+        :attr:`Condition.controls` applies its own overrides.
     """
 
     name: str
@@ -297,6 +353,7 @@ class Aircraft:
     description: str | None = None
     fin: Fin | None = None
     uncertainties: tuple = ()
+    controls: Controls | None = None
 
     @property
     def file(self) -> str:
@@ -427,6 +484,31 @@ def _fin(tree, context):
         values[key] = _number(table, key, f"fin.{key}", context, required=False, default=1.0,
                               positive=True)
     return Fin(**values)
+
+
+_CONTROL_FIELDS = (("aileron_deg", "aileron", "travel"), ("rudder_deg", "rudder", "travel"),
+                   ("aileron_rate_deg_s", "aileron_rate", "rate"),
+                   ("rudder_rate_deg_s", "rudder_rate", "rate"))
+
+
+def _controls(table, prefix, context, base=None):
+    """Validate a ``[controls]`` table; values not given are taken from ``base``."""
+    if table is None:
+        return base
+    values = {}
+    for key, field, kind in _CONTROL_FIELDS:
+        value = _number(table, key, prefix + key, context, required=False)
+        if value is None:
+            values[field] = getattr(base, field) if base is not None else None
+            continue
+        if kind == "travel" and not 0.0 < value < MAX_TRAVEL_DEG:
+            context.fail(prefix + key, f"a travel each way in degrees, > 0 and < {MAX_TRAVEL_DEG:g}",
+                         describe_value(table[key].value), table[key])
+        if kind == "rate" and value <= 0.0:
+            context.fail(prefix + key, "a deflection rate in degrees per second, > 0",
+                         describe_value(table[key].value), table[key])
+        values[field] = units.rad(value)
+    return Controls(**values)
 
 
 def _uncertainties(tree, context):
@@ -605,6 +687,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
                            required=False)
     geometry = _geometry(tree, context)
     mass = _mass(tree, context)
+    controls = _controls(_table(tree, "controls"), "controls.", context)
     entries = tree.get("condition") or []
     if not entries:
         context.fail("condition", "at least one [[condition]] table", "none")
@@ -643,7 +726,9 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
             if mass.mass is None:
                 context.fail("mass.mass", "a number > 0 (non-dimensional derivatives need the mass)",
                              "nothing (the key is missing)")
-        conditions.append(Condition(flight, derivatives))
+        condition_controls = _controls(_table(entry, "controls"), "condition.controls.", context,
+                                       controls)
+        conditions.append(Condition(flight, derivatives, condition_controls))
         context = _Context(files)
     description = tree.get("description")
     return Aircraft(
@@ -651,6 +736,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         conditions=tuple(conditions), files=tuple(files), warnings=tuple(warnings),
         description=description.value if isinstance(description, Leaf) else None,
         fin=_fin(tree, context), uncertainties=_uncertainties(tree, context),
+        controls=controls,
     )
 
 

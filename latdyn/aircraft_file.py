@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml
 
-__all__ = ["Leaf", "SCHEMA", "UNCERTAIN_KEYS", "read_tree", "MAX_FILE_BYTES"]
+__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "UNCERTAIN_KEYS", "read_tree", "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
 MAX_FILE_BYTES = 5 * 1024 * 1024
@@ -35,6 +35,10 @@ DIMENSIONAL_KEYS = (
     "Y_v", "Y_beta", "Y_p", "Y_r", "L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r",
     "Y_da", "Y_dr", "L_da", "L_dr", "N_da", "N_dr",
 )
+
+#: Keys of a ``[controls]`` table (aircraft-wide, or ``[condition.controls]`` to override).
+CONTROL_KEYS = {"aileron_deg": "none", "rudder_deg": "none",
+                "aileron_rate_deg_s": "none", "rudder_rate_deg_s": "none"}
 
 #: Allowed keys per table, with the physical dimension of numeric values
 #: (for unit conversion) or None for words and flags.  A nested dict is a table.
@@ -52,6 +56,7 @@ SCHEMA = {
         "altitude": "length",
         "density": "density", "speed": "speed", "mach": "none",
         "alpha_deg": "none", "gamma_deg": "none",
+        "controls": dict(CONTROL_KEYS),
         "derivatives": {"axes": None, **{key: "none" for key in NONDIMENSIONAL_KEYS}},
         "dimensional": {
             "axes": None, "primed": None,
@@ -60,6 +65,8 @@ SCHEMA = {
             "Y_da": "acceleration", "Y_dr": "acceleration",
         },
     },
+    # optional control travel (latdyn.aircraft.Controls): degrees and degrees per second
+    "controls": dict(CONTROL_KEYS),
     # optional fin geometry (latdyn.studies.fin): SI or US lengths and area
     "fin": {"area": "area", "arm": "length", "height": "length", "lift_slope": "none",
             "efficiency": "none", "sidewash_factor": "none"},
