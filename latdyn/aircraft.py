@@ -13,10 +13,10 @@ from __future__ import annotations
 
 import math
 import os
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 from latdyn import atmosphere, units
-from latdyn.aircraft_file import (DIMENSIONAL_KEYS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
+from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
                                   read_tree)
 from latdyn.errors import InputError, describe_value
 
@@ -599,7 +599,7 @@ def _flight(entry, name, context):
 
 
 _REQUIRED_NONDIMENSIONAL = ("Cy_beta", "Cl_beta", "Cn_beta", "Cl_p", "Cl_r", "Cn_p", "Cn_r")
-_REQUIRED_DIMENSIONAL = ("L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r")
+_REQUIRED_DIMENSIONAL = ("Y_v", "L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r")
 
 #: (key, sign that is implausible, what is usual) for the sign warnings; common practice.
 _SIGN_CHECKS = {
@@ -614,14 +614,16 @@ _SIGN_CHECKS = {
 }
 
 
-def _sign_warnings(block_name, values, table, context):
+def _sign_warnings(block_name, values, table, context, written=None):
+    """Warnings for implausible signs; ``written`` maps a quantity to the key the file used."""
     notes = []
     for key, bad_sign, usual in _SIGN_CHECKS[block_name]:
         value = values[key]
         if value * bad_sign > 0:
-            leaf = table[key]
+            name = (written or {}).get(key, key)
+            leaf = table[name]
             notes.append(f"{leaf.file}: condition \"{context.condition}\": "
-                         f"condition.{block_name}.{key} = {describe_value(leaf.value)}: "
+                         f"condition.{block_name}.{name} = {describe_value(leaf.value)}: "
                          f"unusual sign (usually {usual}); analysed as given")
     return notes
 
@@ -649,27 +651,83 @@ def _derivatives(entry, context):
     axes = _word(table, "axes", prefix + "axes", context, AXES)
     primed = _flag(table, "primed", prefix + "primed", context,
                    " (true when L and N already include Ixz)")
-    values = {}
-    for key in DIMENSIONAL_KEYS:
-        if key in ("Y_v", "Y_beta"):
+    given = {}
+    for quantity, forms in DIMENSIONAL_FORMS.items():
+        present = [form for form in forms if form[0] in table]
+        if len(present) != 1 and (present or quantity in _REQUIRED_DIMENSIONAL):
+            leaf = min((table[form[0]] for form in present),
+                       key=lambda leaf: context.files.index(leaf.file), default=None)
+            names = [f"{key} [{_form_unit(quantity, key, dimension, leaf_units(table))}]"
+                     for key, dimension, _, _ in forms]
+            wanted = ", ".join(names[:-1]) + " or " + names[-1]
+            if not present:
+                context.fail(prefix + quantity, f"a number, as one of {wanted}",
+                             "nothing (the key is missing)")
+            many = "exactly" if quantity in _REQUIRED_DIMENSIONAL else "at most"
+            context.fail(prefix + present[0][0], f"{many} one of {wanted}",
+                         " and ".join(form[0] for form in present), leaf)
+        if not present:
             continue
-        dimension = {"Y_p": "speed", "Y_r": "speed", "Y_da": "acceleration",
-                     "Y_dr": "acceleration"}.get(key, "none")
-        values[key] = _number(table, key, prefix + key, context, dimension,
-                              required=key in _REQUIRED_DIMENSIONAL, default=0.0)
-    has_yv, has_yb = "Y_v" in table, "Y_beta" in table
-    if has_yv == has_yb:
-        context.fail(prefix + "Y_v", "exactly one of Y_v [1/s] and Y_beta [m/s^2 or ft/s^2]",
-                     "both" if has_yv else "neither", table.get("Y_v"))
-    if has_yv:
-        y_v = _number(table, "Y_v", prefix + "Y_v", context)
-        y_beta = None
-    else:
-        y_v = None
-        y_beta = _number(table, "Y_beta", prefix + "Y_beta", context, "acceleration")
-    derivatives = DimensionalDerivatives(axes=axes, primed=primed, Y_v=y_v if y_v is not None else 0.0,
-                                         **values)
-    return (derivatives, y_beta), _sign_warnings("dimensional", values, table, context)
+        key, dimension, power, divisor = present[0]
+        if divisor in ("Ixx", "Izz") and primed:
+            context.fail(prefix + "primed", f"false ({key} is a moment derivative in force and "
+                         "moment units: raw, without Ixz)", "true", table["primed"])
+        value = _number(table, key, prefix + key, context, dimension)
+        given[quantity] = (key, value, power, divisor)
+    warnings = _sign_warnings("dimensional", {q: v[1] for q, v in given.items()}, table, context,
+                              {q: v[0] for q, v in given.items()})
+    return (axes, primed, given), warnings
+
+
+def leaf_units(table):
+    """"SI" or "US": the units of the first value of a table (SI for an empty one)."""
+    return next((leaf.units for leaf in table.values() if isinstance(leaf, Leaf)), "SI")
+
+
+#: Printed unit of a dimensional-derivative form, SI and US, by dimension (file units).
+_FORM_UNITS = {
+    "none": None, "acceleration": ("m/s^2", "ft/s^2"), "speed": ("m/s", "ft/s"),
+    "per_length": ("1/(m s)", "1/(ft s)"), "force": ("N", "lbf"),
+    "force_per_speed": ("N s/m", "lbf s/ft"), "impulse": ("N s", "lbf s"),
+    "moment": ("N m", "ft lbf"), "moment_time": ("N m s", "ft lbf s"),
+}
+
+
+_PER_SECOND_SQUARED = ("L_beta", "N_beta", "L_da", "L_dr", "N_da", "N_dr")
+
+
+def _form_unit(quantity, key, dimension, file_units):
+    """Printed unit of one form of a dimensional derivative, in the file's units."""
+    words = _FORM_UNITS[dimension]
+    if words is None:  # normalised: 1/s^2 for L, N per sideslip or control, else 1/s
+        return "1/s^2" if key == quantity and quantity in _PER_SECOND_SQUARED else "1/s"
+    return words[file_units == "US"]
+
+
+def _dimensional(axes, primed, given, flight, mass, context):
+    """DimensionalDerivatives (SI) from the forms a file gives, with V, m and the inertias."""
+    needs = {divisor for _, _, _, divisor in given.values() if divisor}
+    inertia = None
+    if needs & {"Ixx", "Izz"} or "mass" in needs:
+        key = next(key for key, _, _, divisor in given.values() if divisor)
+        if mass is None:
+            context.fail("mass", f"a [mass] block ({key} is in force or moment units)",
+                         "no [mass] block")
+        if "mass" in needs and mass.mass is None:
+            context.fail("mass.mass", f"a number > 0 ({key} is in force units)",
+                         "nothing (the key is missing)")
+        inertia = (mass.Ixx, mass.Izz)
+        if mass.axes != axes:
+            from latdyn.model import rotate_inertia
+
+            angle = flight.alpha if axes == "stability" else -flight.alpha
+            inertia = tuple(float(v) for v in rotate_inertia(mass.Ixx, mass.Izz, mass.Ixz,
+                                                             angle)[:2])
+    scale = {None: 1.0, "mass": mass.mass if mass else None,
+             "Ixx": inertia[0] if inertia else None, "Izz": inertia[1] if inertia else None}
+    values = {quantity: value * flight.speed**power / scale[divisor]
+              for quantity, (_, value, power, divisor) in given.items()}
+    return DimensionalDerivatives(axes=axes, primed=primed, **values)
 
 
 def aircraft_from_tree(tree: dict) -> Aircraft:
@@ -710,9 +768,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         derivatives, notes = _derivatives(entry, context)
         warnings.extend(notes)
         if isinstance(derivatives, tuple):
-            derivatives, y_beta = derivatives
-            if y_beta is not None:
-                derivatives = replace(derivatives, Y_v=y_beta / flight.speed)
+            derivatives = _dimensional(*derivatives, flight, mass, context)
             if not derivatives.primed and mass is None:
                 context.fail("mass", "a [mass] block with Ixx, Izz, Ixz (primed = false needs them)",
                              "no [mass] block")

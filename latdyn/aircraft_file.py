@@ -22,7 +22,8 @@ from dataclasses import dataclass
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml
 
-__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "UNCERTAIN_KEYS", "read_tree", "MAX_FILE_BYTES"]
+__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "UNCERTAIN_KEYS", "read_tree",
+           "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
 MAX_FILE_BYTES = 5 * 1024 * 1024
@@ -39,6 +40,45 @@ DIMENSIONAL_KEYS = (
 #: Keys of a ``[controls]`` table (aircraft-wide, or ``[condition.controls]`` to override).
 CONTROL_KEYS = {"aileron_deg": "none", "rudder_deg": "none",
                 "aileron_rate_deg_s": "none", "rudder_rate_deg_s": "none"}
+
+
+def _forms():
+    """The forms each dimensional derivative may be written in (see DIMENSIONAL_FORMS)."""
+    forms = {
+        "Y_v": (("Y_v", "none", 0, None), ("Y_beta", "acceleration", -1, None),
+                ("dY_dbeta", "force", -1, "mass"), ("dY_dv", "force_per_speed", 0, "mass")),
+    }
+    for rate in ("p", "r"):
+        forms[f"Y_{rate}"] = ((f"Y_{rate}", "speed", 0, None),
+                              (f"dY_d{rate}", "impulse", 0, "mass"))
+    for control in ("da", "dr"):
+        forms[f"Y_{control}"] = ((f"Y_{control}", "acceleration", 0, None),
+                                 (f"Ystar_{control}", "none", 1, None),
+                                 (f"dY_d{control}", "force", 0, "mass"))
+    for moment, inertia in (("L", "Ixx"), ("N", "Izz")):
+        forms[f"{moment}_beta"] = (
+            (f"{moment}_beta", "none", 0, None), (f"{moment}_v", "per_length", 1, None),
+            (f"d{moment}_dbeta", "moment", 0, inertia), (f"d{moment}_dv", "impulse", 1, inertia))
+        for rate in ("p", "r"):
+            forms[f"{moment}_{rate}"] = ((f"{moment}_{rate}", "none", 0, None),
+                                         (f"d{moment}_d{rate}", "moment_time", 0, inertia))
+        for control in ("da", "dr"):
+            forms[f"{moment}_{control}"] = ((f"{moment}_{control}", "none", 0, None),
+                                            (f"d{moment}_d{control}", "moment", 0, inertia))
+    order = ("Y_v", "Y_p", "Y_r", "L_beta", "L_p", "L_r", "N_beta", "N_p", "N_r",
+             "Y_da", "Y_dr", "L_da", "L_dr", "N_da", "N_dr")
+    return {quantity: forms[quantity] for quantity in order}
+
+
+#: The forms of each dimensional derivative in ``[condition.dimensional]``:
+#: quantity -> ((key, dimension, power of V, divided by), ...).  The value
+#: used is ``value * V**power / (mass or inertia)``: ``Y_beta`` = V Y_v,
+#: ``Ystar_da`` = Y_da / V (1/s, as published in handling-qualities data),
+#: ``L_v``, ``N_v`` per unit of side velocity (L_beta = V L_v), and the
+#: unprimed derivatives in force and moment units ``dY_d*`` (divided by the
+#: mass), ``dL_d*`` (by Ixx) and ``dN_d*`` (by Izz).  Exactly one form per
+#: quantity.
+DIMENSIONAL_FORMS = _forms()
 
 #: Allowed keys per table, with the physical dimension of numeric values
 #: (for unit conversion) or None for words and flags.  A nested dict is a table.
@@ -60,9 +100,8 @@ SCHEMA = {
         "derivatives": {"axes": None, **{key: "none" for key in NONDIMENSIONAL_KEYS}},
         "dimensional": {
             "axes": None, "primed": None,
-            **{key: "none" for key in DIMENSIONAL_KEYS},
-            "Y_beta": "acceleration", "Y_p": "speed", "Y_r": "speed",
-            "Y_da": "acceleration", "Y_dr": "acceleration",
+            **{key: dimension for forms in DIMENSIONAL_FORMS.values()
+               for key, dimension, _, _ in forms},
         },
     },
     # optional control travel (latdyn.aircraft.Controls): degrees and degrees per second
@@ -75,8 +114,7 @@ SCHEMA = {
 #: Keys that may carry an uncertainty, with the dimension of an absolute amount.
 UNCERTAIN_KEYS = {
     **{key: "none" for key in NONDIMENSIONAL_KEYS},
-    **{key: dimension for key, dimension in SCHEMA["condition"]["dimensional"].items()
-       if dimension is not None},
+    **{key: SCHEMA["condition"]["dimensional"][key] for key in DIMENSIONAL_KEYS},
     "mass": "mass", "Ixx": "inertia", "Izz": "inertia", "Ixz": "inertia",
 }
 # optional [uncertainty.KEY] tables (latdyn.studies.uncertainty)

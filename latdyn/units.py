@@ -6,7 +6,8 @@ gravity.
 
 Sources: NIST Special Publication 811 (2008 edition), Appendix B.8: 1 ft =
 0.3048 m exactly, 1 lbm = 0.45359237 kg exactly, standard acceleration of
-gravity g_n = 9.80665 m/s^2 exactly; 1 slug = 1 lbf s^2/ft = 14.593 90 kg.
+gravity g_n = 9.80665 m/s^2 exactly; 1 slug = 1 lbf s^2/ft = 14.593 90 kg;
+1 lbf = 4.448 222 N; 1 knot = 1852 m per hour exactly (0.514 444 m/s).
 """
 
 from __future__ import annotations
@@ -14,7 +15,7 @@ from __future__ import annotations
 import math
 
 __all__ = [
-    "FOOT", "SLUG", "SLUG_FOOT2", "SLUG_PER_FOOT3", "STANDARD_GRAVITY",
+    "FOOT", "SLUG", "POUND_FORCE", "KNOT", "SLUG_FOOT2", "SLUG_PER_FOOT3", "STANDARD_GRAVITY",
     "DIMENSION_FACTORS", "to_si", "from_si", "deg", "rad",
 ]
 
@@ -24,6 +25,10 @@ FOOT = 0.3048
 STANDARD_GRAVITY = 9.80665
 #: One slug [kg]: 1 lbf s^2 / ft = 0.45359237 kg * g_n / 0.3048 m.
 SLUG = 0.45359237 * STANDARD_GRAVITY / FOOT
+#: One pound-force [N]: 0.45359237 kg * g_n.
+POUND_FORCE = 0.45359237 * STANDARD_GRAVITY
+#: One knot [m/s]: 1852 m per hour (exact, NIST SP 811 Appendix B.8).
+KNOT = 1852.0 / 3600.0
 #: One slug ft^2 [kg m^2].
 SLUG_FOOT2 = SLUG * FOOT**2
 #: One slug per cubic foot [kg/m^3].
@@ -39,6 +44,12 @@ DIMENSION_FACTORS = {
     "density": (SLUG_PER_FOOT3, 1.0), # slug/ft^3 -> kg/m^3
     "speed": (FOOT, 1.0),             # ft/s -> m/s
     "acceleration": (FOOT, 1.0),      # ft/s^2 -> m/s^2
+    "per_length": (1.0 / FOOT, 1.0),  # 1/(ft s), 1/(ft s^2) -> 1/(m s), 1/(m s^2)
+    "force": (POUND_FORCE, 1.0),      # lbf -> N
+    "force_per_speed": (POUND_FORCE / FOOT, 1.0),  # lbf s/ft -> N s/m
+    "impulse": (POUND_FORCE, 1.0),    # lbf s -> N s (also ft lbf per ft/s)
+    "moment": (POUND_FORCE * FOOT, 1.0),  # ft lbf -> N m
+    "moment_time": (POUND_FORCE * FOOT, 1.0),  # ft lbf s -> N m s
 }
 
 

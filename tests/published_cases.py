@@ -58,16 +58,26 @@ CASES = {
 TOLERANCE = dict(omega_d=0.005, zeta_d=0.005, roll=0.005, spiral=0.025)
 
 
-def dimensional_toml(case, axes=None, derivatives=None, units="US", name="check case"):
-    """Text of an aircraft file with the case's primed derivatives (US units, ft/s)."""
+def dimensional_toml(case, axes=None, derivatives=None, units="US", name="check case",
+                     primed=True, mass=None):
+    """Text of an aircraft file with the case's primed derivatives (US units, ft/s).
+
+    ``derivatives`` replaces the block's values (written as given, any key of
+    the dimensional block); ``mass`` adds a ``[mass]`` table (a dict of keys);
+    ``primed`` is the block's ``primed`` flag.
+    """
     axes = axes or case["axes"]
     values = dict(derivatives if derivatives is not None else case["derivatives"])
     if derivatives is None:
         values["Y_da"] = case["Ystar_da"] * case["speed"]
         values["Y_dr"] = case["Ystar_dr"] * case["speed"]
-    lines = [f'name = "{name}"', f'units = "{units}"', "", "[[condition]]", 'name = "check"',
-             'category = "B"', "altitude = 0.0", f"speed = {case['speed']!r}",
-             f"alpha_deg = {case['alpha_deg']!r}", f"gamma_deg = {case['gamma_deg']!r}",
-             "[condition.dimensional]", f'axes = "{axes}"', "primed = true"]
+    lines = [f'name = "{name}"', f'units = "{units}"', ""]
+    if mass:
+        lines += ["[mass]"] + [f"{key} = {value!r}" for key, value in mass.items()] + [""]
+    lines += ["[[condition]]", 'name = "check"',
+              'category = "B"', "altitude = 0.0", f"speed = {case['speed']!r}",
+              f"alpha_deg = {case['alpha_deg']!r}", f"gamma_deg = {case['gamma_deg']!r}",
+              "[condition.dimensional]", f'axes = "{axes}"',
+              f"primed = {'true' if primed else 'false'}"]
     lines += [f"{key} = {float(value)!r}" for key, value in values.items()]
     return "\n".join(lines) + "\n"

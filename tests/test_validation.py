@@ -139,7 +139,7 @@ CASES = [
         r"\[mass\]\n(.+\n)+\n", "", DIMENSIONAL)),
      r"mass: expected a \[mass\] block with Ixx, Izz, Ixz"),
     ("y-v-and-y-beta", edit("Y_v = -0.11", "Y_v = -0.11\nY_beta = -7.0", DIMENSIONAL),
-     r"condition\.dimensional\.Y_v: expected exactly one of Y_v \[1/s\] and Y_beta"),
+     r"condition\.dimensional\.Y_v: expected exactly one of Y_v \[1/s\], Y_beta \[m/s\^2\]"),
     ("non-dimensional-without-geometry", edit("[geometry]\nwing_area = 45.0\nspan = 21.0\n", ""),
      r"geometry: expected a \[geometry\] block"),
     ("duplicate-condition", BASE + BASE[BASE.index("[[condition]]"):],
