@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import math
 import os
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 
 from latdyn import atmosphere, units
 from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
@@ -24,7 +24,7 @@ __all__ = [
     "Geometry", "MassProperties", "FlightCondition", "NondimensionalDerivatives",
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
     "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES", "FLIGHT_PHASES",
-    "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG",
+    "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG", "Augmentation", "MAX_PADE_ORDER",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
@@ -245,6 +245,62 @@ class Controls:
     rudder_rate: float | None = None
 
 
+#: Highest Padé order accepted for the pure time delay (higher orders add
+#: nothing at handling-qualities frequencies and their realisations lose accuracy).
+MAX_PADE_ORDER = 6
+
+
+@dataclass(frozen=True)
+class Augmentation:
+    """Stability augmentation of one condition (see :mod:`latdyn.augmentation`), SI.
+
+    Sign conventions: rudder command = pilot rudder + ``yaw_damper_gain`` x
+    (washed-out, sensed) yaw rate, so a positive gain damps the Dutch roll
+    when ``Cn_dr`` (``N_dr``) is negative; aileron command = pilot aileron +
+    ``roll_damper_gain`` x (sensed) roll rate, a positive gain damping the
+    roll when ``Cl_da`` (``L_da``) is negative; rudder from the interconnect
+    = ``interconnect_gain`` x aileron command (through its optional lag).
+
+    Attributes
+    ----------
+    yaw_damper_gain : float
+        [rad of rudder per rad/s of yaw rate] = [s].
+    washout_time_constant : float or None
+        tau of the washout tau s / (tau s + 1) on the yaw damper [s]; None: no washout.
+    roll_damper_gain : float
+        [rad of aileron per rad/s of roll rate] = [s].
+    interconnect_gain : float
+        Rudder per aileron command [rad/rad].
+    interconnect_time_constant : float or None
+        First-order lag of the interconnect [s].
+    actuator_time_constant : float or None
+        First-order lag of both surface actuators [s].
+    sensor_time_constant : float or None
+        First-order lag of the roll- and yaw-rate sensors [s].
+    time_delay : float
+        Pure delay of both surface commands [s] (0: none), by a Padé approximation.
+    pade_order : int
+        Order of that Padé approximation (numerator and denominator).
+
+    The actuators' rate limits are the control rates of ``[controls]``
+    (:class:`Controls`), applied by a nonlinear simulation in time responses.
+    """
+
+    yaw_damper_gain: float = 0.0
+    washout_time_constant: float | None = None
+    roll_damper_gain: float = 0.0
+    interconnect_gain: float = 0.0
+    interconnect_time_constant: float | None = None
+    actuator_time_constant: float | None = None
+    sensor_time_constant: float | None = None
+    time_delay: float = 0.0
+    pade_order: int = 2
+
+    def as_dict(self) -> dict:
+        """The values, SI, for JSON."""
+        return {f.name: getattr(self, f.name) for f in fields(self)}
+
+
 @dataclass(frozen=True)
 class Condition:
     """A flight condition with the derivatives that describe it there.
@@ -252,11 +308,15 @@ class Condition:
     ``controls`` is the control travel that holds in this condition: the
     aircraft's ``[controls]`` with this condition's ``[condition.controls]``
     overriding it key by key (None when the file gives neither).
+
+    ``augmentation`` is the stability augmentation engaged in this condition
+    (the aircraft's ``[augmentation]`` merged with the condition's), or None.
     """
 
     flight: FlightCondition
     derivatives: NondimensionalDerivatives | DimensionalDerivatives
     controls: Controls | None = None
+    augmentation: Augmentation | None = None
 
     @property
     def name(self) -> str:
@@ -534,6 +594,66 @@ def _uncertainties(tree, context):
     return tuple(out)
 
 
+_AUGMENTATION_TIMES = ("washout_time_constant", "interconnect_time_constant",
+                       "actuator_time_constant", "sensor_time_constant")
+
+
+def _augmentation(tree, entry, context, derivatives):
+    """The condition's augmentation: [augmentation] merged with [condition.augmentation]."""
+    base, over = _table(tree, "augmentation") or {}, _table(entry, "augmentation") or {}
+    if not base and not over:
+        return None, []
+    table = {**base, **over}
+    dotted = {key: ("condition.augmentation." if key in over else "augmentation.") + key for key in table}
+    engaged = True
+    if "engaged" in table:
+        engaged = _flag(table, "engaged", dotted["engaged"], context)
+    values = {}
+    for key in ("yaw_damper_gain", "roll_damper_gain", "interconnect_gain"):
+        values[key] = _number(table, key, dotted.get(key, key), context, required=False, default=0.0)
+    for key in _AUGMENTATION_TIMES:
+        values[key] = _number(table, key, dotted.get(key, key), context, required=False,
+                              positive=True)
+    delay = _number(table, "time_delay", dotted.get("time_delay"), context, required=False, default=0.0)
+    if delay < 0:
+        context.fail(dotted["time_delay"], "a delay >= 0 [s]", describe_value(table["time_delay"].value),
+                     table["time_delay"])
+    values["time_delay"] = delay
+    order = table.get("pade_order")
+    if order is not None and (isinstance(order.value, bool) or not isinstance(order.value, int)
+                              or not 1 <= order.value <= MAX_PADE_ORDER):
+        context.fail(dotted["pade_order"], f"a whole number from 1 to {MAX_PADE_ORDER}",
+                     describe_value(order.value), order)
+    values["pade_order"] = order.value if order is not None else 2
+    if values["interconnect_time_constant"] is not None and "interconnect_gain" not in table:
+        context.fail(dotted["interconnect_time_constant"].replace("time_constant", "gain"),
+                     "an interconnect_gain with the interconnect's lag", "no interconnect_gain",
+                     table["interconnect_time_constant"])
+    notes = []
+    if engaged:
+        notes = _augmentation_sign_notes(values, derivatives, table, dotted, context)
+    return (Augmentation(**values) if engaged else None), notes
+
+
+def _augmentation_sign_notes(values, derivatives, table, dotted, context):
+    """Warnings for a damper gain whose sign takes damping away (common practice)."""
+    pairs = (("yaw_damper_gain", ("Cn_dr", "N_dr"), "Dutch roll"),
+             ("roll_damper_gain", ("Cl_da", "L_da"), "roll"))
+    notes = []
+    for key, names, mode in pairs:
+        gain = values[key]
+        control = getattr(derivatives, names[0], None)
+        if control is None:
+            control = getattr(derivatives, names[1], 0.0)
+        if gain * control > 0:
+            leaf = table[key]
+            notes.append(f"{leaf.file}: condition \"{context.condition}\": {dotted[key]} = "
+                         f"{describe_value(leaf.value)} with {names[0] if hasattr(derivatives, names[0]) else names[1]}"
+                         f" = {control:g}: this damper takes {mode} damping away (a damping gain has "
+                         "the opposite sign to the control derivative); analysed as given")
+    return notes
+
+
 def _altitude_limits_text(leaf_units):
     low = units.from_si(atmosphere.MIN_ALTITUDE, "length", leaf_units)
     high = units.from_si(atmosphere.MAX_ALTITUDE, "length", leaf_units)
@@ -767,6 +887,9 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         flight = _flight(entry, condition_name, context)
         derivatives, notes = _derivatives(entry, context)
         warnings.extend(notes)
+        given = derivatives[0] if isinstance(derivatives, tuple) else derivatives
+        augmentation, notes = _augmentation(tree, entry, context, given)
+        warnings.extend(notes)
         if isinstance(derivatives, tuple):
             derivatives = _dimensional(*derivatives, flight, mass, context)
             if not derivatives.primed and mass is None:
@@ -784,7 +907,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
                              "nothing (the key is missing)")
         condition_controls = _controls(_table(entry, "controls"), "condition.controls.", context,
                                        controls)
-        conditions.append(Condition(flight, derivatives, condition_controls))
+        conditions.append(Condition(flight, derivatives, condition_controls, augmentation))
         context = _Context(files)
     description = tree.get("description")
     return Aircraft(

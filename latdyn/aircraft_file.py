@@ -22,8 +22,8 @@ from dataclasses import dataclass
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml
 
-__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "UNCERTAIN_KEYS", "read_tree",
-           "MAX_FILE_BYTES"]
+__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
+           "read_tree", "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
 MAX_FILE_BYTES = 5 * 1024 * 1024
@@ -80,6 +80,15 @@ def _forms():
 #: quantity.
 DIMENSIONAL_FORMS = _forms()
 
+#: Keys of an ``[augmentation]`` table (latdyn.augmentation); gains and time
+#: constants in SI (s, rad per rad/s, rad per rad) whatever the file's units.
+AUGMENTATION_KEYS = {
+    "engaged": None, "yaw_damper_gain": "none", "washout_time_constant": "none",
+    "roll_damper_gain": "none", "interconnect_gain": "none",
+    "interconnect_time_constant": "none", "actuator_time_constant": "none",
+    "sensor_time_constant": "none", "time_delay": "none", "pade_order": "none",
+}
+
 #: Allowed keys per table, with the physical dimension of numeric values
 #: (for unit conversion) or None for words and flags.  A nested dict is a table.
 SCHEMA = {
@@ -103,12 +112,16 @@ SCHEMA = {
             **{key: dimension for forms in DIMENSIONAL_FORMS.values()
                for key, dimension, _, _ in forms},
         },
+        # per-condition override of the aircraft's [augmentation], key by key
+        "augmentation": AUGMENTATION_KEYS,
     },
     # optional control travel (latdyn.aircraft.Controls): degrees and degrees per second
     "controls": dict(CONTROL_KEYS),
     # optional fin geometry (latdyn.studies.fin): SI or US lengths and area
     "fin": {"area": "area", "arm": "length", "height": "length", "lift_slope": "none",
             "efficiency": "none", "sidewash_factor": "none"},
+    # optional stability augmentation (latdyn.augmentation)
+    "augmentation": AUGMENTATION_KEYS,
 }
 
 #: Keys that may carry an uncertainty, with the dimension of an absolute amount.

@@ -502,7 +502,9 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
     """Assess every condition of an aircraft against handling-qualities criteria.
 
     Pipeline: :func:`latdyn.aircraft.load_aircraft` ->
-    :func:`latdyn.model.lateral_model` -> :func:`latdyn.modes.find_modes` ->
+    :func:`latdyn.augmentation.condition_model` (the bare airframe, or the
+    augmented closed loop where the condition has an ``[augmentation]``) ->
+    :func:`latdyn.augmentation.model_modes` ->
     :func:`assess_modes`.
 
     Parameters
@@ -527,8 +529,7 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
         Bad aircraft or criteria file.
     """
     from latdyn.aircraft import load_aircraft
-    from latdyn.model import lateral_model
-    from latdyn.modes import find_modes
+    from latdyn.augmentation import condition_model, model_modes
 
     if not hasattr(aircraft, "conditions"):
         aircraft = load_aircraft(aircraft)
@@ -539,8 +540,7 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
     for condition in aircraft.conditions:
         flight = condition.flight
         phase = flight_phases.get(condition.name, getattr(flight, "flight_phase", None))
-        model = lateral_model(aircraft, condition)
-        modes = find_modes(model)
+        modes = model_modes(condition_model(aircraft, condition))
         assessments = assess_modes(modes, sets, airplane_class, flight.category, phase, flight.altitude,
                                    condition.name)
         conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
@@ -549,6 +549,10 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
     if airplane_class is None and any(s.assessment == "levels" for s in sets):
         notes.append("the aircraft file gives no airplane_class: military levels are given only where "
                      "every class gives the same result")
+    augmented = [c.name for c in aircraft.conditions if getattr(c, "augmentation", None) is not None]
+    if augmented:
+        notes.append("graded with the stability augmentation engaged (closed-loop modes) in condition "
+                     + ", ".join(f'"{n}"' for n in augmented))
     missing_category = [c.name for c in aircraft.conditions if c.flight.category is None]
     if missing_category and any(s.assessment == "levels" for s in sets):
         notes.append("no category for condition " + ", ".join(f'"{n}"' for n in missing_category)

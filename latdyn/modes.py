@@ -464,10 +464,15 @@ class ModeSet:
         oscillation.
     pattern : str
         What was found (one of :data:`PATTERNS`).
+    added : tuple of Mode
+        Roots that the stability augmentation adds (washout, actuators,
+        sensors, delay; :mod:`latdyn.augmentation`), each named for where it
+        comes from; empty for the bare airframe.
     """
 
     modes: tuple
     pattern: str
+    added: tuple = ()
 
     def __iter__(self):
         return iter(self.modes)

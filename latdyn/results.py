@@ -11,18 +11,23 @@ from dataclasses import dataclass
 
 from latdyn import __version__
 from latdyn.aircraft import Aircraft, Condition
-from latdyn.model import LateralModel, lateral_model
-from latdyn.modes import ModeSet, find_modes
+from latdyn.augmentation import AugmentedModel, condition_model, model_modes
+from latdyn.model import LateralModel
+from latdyn.modes import ModeSet
 
 __all__ = ["ConditionResult", "analyse_aircraft", "modes_document", "condition_document"]
 
 
 @dataclass(frozen=True)
 class ConditionResult:
-    """Model and modes of one flight condition; unpacks as (condition, model, modes)."""
+    """Model and modes of one flight condition; unpacks as (condition, model, modes).
+
+    ``model`` is the augmented closed loop (:class:`latdyn.augmentation.AugmentedModel`)
+    where the condition has an engaged ``[augmentation]``.
+    """
 
     condition: Condition
-    model: LateralModel
+    model: LateralModel | AugmentedModel
     modes: ModeSet
 
     def __iter__(self):
@@ -45,14 +50,19 @@ def analyse_aircraft(aircraft: Aircraft, condition: str | None = None) -> tuple:
     chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
     results = []
     for item in chosen:
-        model = lateral_model(aircraft, item)
-        results.append(ConditionResult(item, model, find_modes(model)))
+        model = condition_model(aircraft, item)
+        results.append(ConditionResult(item, model, model_modes(model)))
     return tuple(results)
 
 
 def condition_document(result: ConditionResult) -> dict:
     """The JSON entry of one condition (SI units, radians)."""
     flight = result.condition.flight
+    augmentation = getattr(result.condition, "augmentation", None)
+    extra = {}
+    if augmentation is not None:
+        extra = {"augmentation": augmentation.as_dict(),
+                 "added_roots": [mode.as_dict() for mode in result.modes.added]}
     return {
         "name": flight.name,
         "category": flight.category,
@@ -66,6 +76,7 @@ def condition_document(result: ConditionResult) -> dict:
         "axes": result.model.axes,
         "pattern": result.modes.pattern,
         "modes": [mode.as_dict() for mode in result.modes],
+        **extra,
     }
 
 
@@ -76,7 +87,10 @@ def modes_document(aircraft: Aircraft, results=None, condition: str | None = Non
     "category", "true_airspeed", "density", "dynamic_pressure", "modes":
     [...]}]}`` plus the extra keys ``airplane_class``, ``warnings`` and, per
     condition, ``altitude``, ``mach``, ``alpha``, ``gamma``, ``axes``,
-    ``pattern``.  A field that does not apply is None (JSON null).
+    ``pattern``; with an engaged ``[augmentation]`` also ``augmentation`` (its
+    values, SI) and ``added_roots`` (the roots of the washout, sensors,
+    actuators and delay, each entry laid out as a mode with ``mode`` naming
+    the block).  A field that does not apply is None (JSON null).
     """
     if results is None:
         results = analyse_aircraft(aircraft, condition)

@@ -83,10 +83,15 @@ def mode_rows(modes):
 
     A divergent mode shows its time to double and a dash for the time
     constant and time to half: no stable-looking figure for an unstable mode.
+    The roots an augmentation adds (``modes.added``) follow the airframe's
+    modes, labelled "added: <block>".
     """
+    from latdyn.augmentation import added_label
+
     rows = []
-    for mode in modes:
-        label = MODE_LABELS[mode.name]
+    added = tuple(getattr(modes, "added", ()))
+    for mode in tuple(modes) + added:
+        label = MODE_LABELS.get(mode.name) or f"added: {added_label(mode.name)}"
         if mode.name == "dutch_roll" and not mode.oscillatory:
             label += " (non-oscillatory)"
         if mode.oscillatory:

@@ -322,7 +322,7 @@ def _mode_roots(modes):
     if modes is None:
         return None
     pairs = []
-    for mode in modes.modes:
+    for mode in tuple(modes.modes) + tuple(getattr(modes, "added", ())):
         for root in mode.eigenvalues:
             pairs.append((complex(root), mode.name))
     return pairs

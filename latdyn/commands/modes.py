@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
-__all__ = ["add_arguments", "run", "condition_heading"]
+__all__ = ["add_arguments", "run", "condition_heading", "augmentation_lines"]
 
 
 def add_arguments(parser):
@@ -37,6 +37,17 @@ def condition_heading(result):
     return " | ".join(parts)
 
 
+def augmentation_lines(condition):
+    """The augmentation line of a condition (none when it has no augmentation)."""
+    augmentation = getattr(condition, "augmentation", None)
+    if augmentation is None:
+        return []
+    from latdyn.augmentation import describe
+
+    return [f"  augmented: {describe(augmentation)}; airframe modes of the closed loop, "
+            "then the roots the augmentation adds"]
+
+
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.results import analyse_aircraft, modes_document
@@ -57,6 +68,7 @@ def run(args):
         for result in results:
             lines += ["", condition_heading(result),
                       f"  roots: {result.modes.pattern}",
+                      *augmentation_lines(result.condition),
                       render_text(MODE_COLUMNS, mode_rows(result.modes))]
             if args.shapes:
                 lines += ["  mode shapes (real modes: signed magnitude; oscillations: magnitude "

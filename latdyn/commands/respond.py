@@ -268,8 +268,7 @@ def _check_outputs(args):
 
 def run(args):
     from latdyn.inputs import InitialDisturbance, default_inputs
-    from latdyn.model import lateral_model
-    from latdyn.modes import find_modes
+    from latdyn.augmentation import condition_model, model_modes
     from latdyn.readouts import read_response
     from latdyn.responses import simulate, write_csv
 
@@ -277,8 +276,8 @@ def run(args):
     _check_angles(args)
     cases = _cases(args)
     labels = _labels(cases)
-    models = [lateral_model(aircraft, condition) for aircraft, condition in cases]
-    modes = [find_modes(model) for model in models]
+    models = [condition_model(aircraft, condition) for aircraft, condition in cases]
+    modes = [model_modes(model) for model in models]
     history, settings = _histories(args, default_inputs(modes[0]))
     initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
                                  r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
