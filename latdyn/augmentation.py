@@ -340,43 +340,19 @@ def augmentation_blocks(model: LateralModel, augmentation: Augmentation, loop_ga
 
 
 @dataclass(frozen=True)
-class AugmentedModel:
+class AugmentedModel(LateralModel):
     """The closed-loop augmented aircraft of one flight condition.
 
-    Inputs are the pilot's aileron and rudder [rad]; outputs the airframe's
-    (beta, p, r, phi, ny) and the surface deflections :data:`SURFACE_OUTPUTS`.
-    The first four states are the airframe's; ``state_blocks`` names the
-    block of each state.  Attributes as :class:`latdyn.model.LateralModel`,
-    plus ``bare`` (the airframe alone) and ``augmentation``.
+    A :class:`latdyn.model.LateralModel` whose inputs are the pilot's aileron
+    and rudder [rad] and whose outputs are the airframe's (beta, p, r, phi,
+    ny) and the surface deflections :data:`SURFACE_OUTPUTS`; the first four
+    states are the airframe's.  Adds ``bare`` (the airframe alone),
+    ``augmentation`` and ``state_blocks`` (the block of each state).
     """
 
-    A: np.ndarray
-    B: np.ndarray
-    C: np.ndarray
-    D: np.ndarray
-    state_names: tuple
-    input_names: tuple
-    output_names: tuple
-    axes: str
-    speed: float
-    alpha_equations: float
-    theta: float
-    derivatives: object
-    bare: LateralModel
-    augmentation: Augmentation
+    bare: LateralModel | None = None
+    augmentation: Augmentation | None = None
     state_blocks: tuple = ()
-    name: str = ""
-
-    def __iter__(self):
-        return iter((self.A, self.B, self.C, self.D))
-
-    def to_statespace(self):
-        """The closed loop as a python-control ``StateSpace`` with named signals."""
-        import control
-
-        return control.ss(self.A, self.B, self.C, self.D, states=list(self.state_names),
-                          inputs=list(self.input_names), outputs=list(self.output_names),
-                          name=self.name or None)
 
 
 def _assemble(model, augmentation, loop_gain=1.0):
@@ -391,7 +367,7 @@ def augmented_model(model: LateralModel, augmentation: Augmentation) -> Augmente
     A, B, C, D, states, outputs, owners, _ = _assemble(model, augmentation)
     return AugmentedModel(A, B, C, D, states, tuple(model.input_names), outputs, model.axes,
                           model.speed, model.alpha_equations, model.theta, model.derivatives,
-                          model, augmentation, owners, model.name)
+                          model.name, model, augmentation, owners)
 
 
 def is_augmented(condition) -> bool:

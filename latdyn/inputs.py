@@ -357,7 +357,8 @@ class InitialDisturbance:
     def vector(self, state_names) -> np.ndarray:
         """The disturbance as a state vector in the order ``state_names`` [rad, rad/s].
 
-        A non-zero value for a state the model does not have is an error.
+        A non-zero value for a state the model does not have is an error; a
+        state this class does not name (an augmentation's) starts at zero.
 
         Examples
         --------
@@ -367,7 +368,7 @@ class InitialDisturbance:
         for name in ("beta", "p", "r", "phi", "psi"):
             if getattr(self, name) != 0.0 and name not in state_names:
                 raise ValueError(f"the model has no state {name!r}")
-        return np.array([getattr(self, name) for name in state_names], dtype=float)
+        return np.array([getattr(self, name, 0.0) for name in state_names], dtype=float)
 
     @property
     def is_zero(self) -> bool:

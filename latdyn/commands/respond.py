@@ -189,7 +189,8 @@ def _format(value, digits=4):
 
 
 _UNITS = {"beta": ("deg", 180 / math.pi), "p": ("deg/s", 180 / math.pi), "r": ("deg/s", 180 / math.pi),
-          "phi": ("deg", 180 / math.pi), "psi": ("deg", 180 / math.pi), "ny": ("g", 1.0)}
+          "phi": ("deg", 180 / math.pi), "psi": ("deg", 180 / math.pi), "ny": ("g", 1.0),
+          "aileron_surface": ("deg", 180 / math.pi), "rudder_surface": ("deg", 180 / math.pi)}
 
 
 def _dutch_lines(readout, modes):
@@ -221,7 +222,9 @@ def _transfer_lines(model, modes):
     transfers = transfer_functions(model, modes=modes)
     lines = ["  Transfer functions (SI: rad and rad/s per rad; K = high-frequency gain; G(0) = static gain)"]
     denominator = "".join(f.text() for f in transfers[0].denominator)
-    names = ", ".join(f"{f.text()} {MODE_LABELS.get(f.mode, f.mode or '')}".strip()
+    from latdyn.augmentation import added_label
+
+    names = ", ".join(f"{f.text()} {MODE_LABELS.get(f.mode) or added_label(f.mode or '')}".strip()
                       for f in transfers[0].denominator)
     lines.append(f"    denominator (the modes): {denominator}")
     lines.append(f"      = {names}")
