@@ -7,10 +7,12 @@ STAMP := $(VENV)/.installed
 
 .PHONY: demo test bench clean
 
+PIP := $(BIN)/python -m pip --disable-pip-version-check
+
 $(STAMP): pyproject.toml
 	test -x $(BIN)/python || $(PYTHON) -m venv $(VENV)
-	$(BIN)/python -m pip install -q --upgrade pip
-	$(BIN)/python -m pip install -q -e '.[test]'
+	$(PIP) install -q --upgrade pip
+	$(PIP) install -q -e '.[test]'
 	touch $(STAMP)
 
 DEMO_BASE := aircraft/kestrel-k40.toml

@@ -204,7 +204,7 @@ def main():
                         help="runs of every measurement; the best is reported (default 3)")
     args = parser.parse_args()
     from latdyn.aircraft import load_aircraft
-    from latdyn.criteria import load_criteria
+    from latdyn.criteria_sets import load_criteria
 
     aircraft = load_aircraft(ROOT / "aircraft" / "kestrel-k40.toml")
     condition = aircraft.condition("approach")

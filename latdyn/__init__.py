@@ -8,9 +8,24 @@ The pipeline, one module per stage::
     -> report (report)
 
 Importing the package is cheap: it imports neither matplotlib nor
-python-control; those are loaded where they are needed.
+python-control; those are loaded where they are needed.  The version comes
+from the installed package's metadata (``pyproject.toml`` is its one home).
 """
 
-__version__ = "0.1.0"
-
 __all__ = ["__version__"]
+
+
+def _metadata_version() -> str:
+    from importlib.metadata import PackageNotFoundError, version
+
+    try:
+        return version("latdyn")
+    except PackageNotFoundError:  # a source tree that was never installed
+        return "0+unknown"
+
+
+def __getattr__(name):
+    if name == "__version__":
+        value = globals()["__version__"] = _metadata_version()
+        return value
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")

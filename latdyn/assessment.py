@@ -29,7 +29,7 @@ from dataclasses import dataclass, fields
 
 import numpy as np
 
-from latdyn.criteria import CATEGORIES, CLASSES, CriteriaSet, load_criteria
+from latdyn.criteria_sets import CATEGORIES, CLASSES, CriteriaSet, load_criteria
 from latdyn.levels import (PARAMETERS, SYMBOLS, UNITS, BandSelection, DutchRollLimits,
                            Grades, RollLimits, RollSpiralLimits, SpiralLimits, dutch_roll_grades,
                            grade, grade_mode, mode_levels, phi_to_beta_excess, roll_grades,

@@ -12,7 +12,6 @@ import argparse
 import importlib
 import sys
 
-from latdyn import __version__
 from latdyn.errors import InputError
 
 __all__ = ["main", "COMMANDS"]
@@ -27,7 +26,22 @@ COMMANDS = (
     ("sweep", "parameter sweeps: mode figures and levels on a grid, level-boundary crossings"),
     ("sensitivity", "ranked sensitivities of the mode figures to each derivative and mass property"),
     ("uncertainty", "Monte Carlo: probability of each level and percentiles of the mode figures"),
+    ("schema", "the JSON Schema of the aircraft file's keys, for editors that check TOML"),
 )
+
+
+class _VersionAction(argparse.Action):
+    """``--version``: reads the package metadata only when asked."""
+
+    def __init__(self, option_strings, dest=argparse.SUPPRESS, default=argparse.SUPPRESS,
+                 help="show the version and exit"):
+        super().__init__(option_strings, dest=dest, default=default, nargs=0, help=help)
+
+    def __call__(self, parser, namespace, values, option_string=None):
+        from latdyn import __version__
+
+        sys.stdout.write(f"latdyn {__version__}\n")
+        parser.exit()
 
 
 def _command_module(name):
@@ -40,7 +54,7 @@ def build_parser() -> argparse.ArgumentParser:
         prog="latdyn",
         description="Lateral-directional flight dynamics from a plain-text aircraft file.",
     )
-    parser.add_argument("--version", action="version", version=f"latdyn {__version__}")
+    parser.add_argument("--version", action=_VersionAction)
     parser.add_argument("--debug", action="store_true", help="show a traceback on errors")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     sub.required = True

@@ -15,7 +15,6 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, fields
 
-from latdyn import __version__
 from latdyn.aircraft import Aircraft, NondimensionalDerivatives
 from latdyn.assessment import NOTICE, assess
 from latdyn.model import DIMENSIONAL_NAMES, DIMENSIONAL_UNITS, primed_derivatives
@@ -317,6 +316,8 @@ def comparison_document(comparisons) -> dict:
     "variant_margin_fraction", "verdict"}], "input_changes": [{"group", "key", "unit",
     "base", "variant", "change", "change_percent"}]}], "only_in_base", "only_in_variant"}]}``
     """
+    from latdyn import __version__
+
     return {"latdyn_version": __version__, "notice": NOTICE,
             "comparisons": [c.as_dict() for c in comparisons]}
 

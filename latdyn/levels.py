@@ -21,7 +21,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from latdyn.criteria import CriteriaSet, LIMIT_KEYS, load_criteria
+from latdyn.criteria_sets import CriteriaSet, LIMIT_KEYS, load_criteria
 
 __all__ = [
     "PARAMETERS", "UNITS", "SYMBOLS", "Grades", "DutchRollLimits", "RollLimits", "SpiralLimits",
@@ -535,7 +535,7 @@ def select_bands(criteria: CriteriaSet, mode, airplane_class, category, flight_p
 
     Examples
     --------
-    >>> from latdyn.criteria import load_criteria
+    >>> from latdyn.criteria_sets import load_criteria
     >>> s = select_bands(load_criteria("mil-f-8785c"), "roll_subsidence", "IV", "A")
     >>> s.limits.max_time_constant.tolist()
     [1.0, 1.4, 10.0]

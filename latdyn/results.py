@@ -9,7 +9,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from latdyn import __version__
 from latdyn.aircraft import Aircraft, Condition
 from latdyn.augmentation import AugmentedModel, condition_model, model_modes
 from latdyn.model import LateralModel
@@ -92,6 +91,8 @@ def modes_document(aircraft: Aircraft, results=None, condition: str | None = Non
     actuators and delay, each entry laid out as a mode with ``mode`` naming
     the block).  A field that does not apply is None (JSON null).
     """
+    from latdyn import __version__
+
     if results is None:
         results = analyse_aircraft(aircraft, condition)
     return {

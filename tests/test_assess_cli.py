@@ -165,7 +165,7 @@ def test_plots_written(demo_files, tmp_path, capsys):
 
 def test_modules_import_no_matplotlib_or_control():
     """Start-up stays fast: the command module and the assessment import neither (rules: lazy imports)."""
-    code = ("import sys, latdyn.cli, latdyn.commands.assess, latdyn.assessment, latdyn.criteria; "
+    code = ("import sys, latdyn.cli, latdyn.commands.assess, latdyn.assessment, latdyn.criteria_sets; "
             "print(any(m.split('.')[0] in ('matplotlib', 'control') for m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout
     assert out.strip() == "False"

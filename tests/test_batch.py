@@ -188,7 +188,7 @@ def test_analysis_without_mode_shapes_gives_the_same_numbers(kestrel, source):
 def test_batch_grades_equal_the_stack_grading_field_by_field(kestrel):
     """assess_figures (which grades a rarely present mode on the cases that have it) gives the
     same Grades, every field, as grading every case (latdyn.levels.stack_levels)."""
-    from latdyn.criteria import load_criteria
+    from latdyn.criteria_sets import load_criteria
     from latdyn.levels import stack_levels
     from latdyn.studies.batch import assess_figures
 

@@ -19,7 +19,7 @@ from criteria_tables import (CFR23_CYCLES, CFR23_SPLIT_ALTITUDE, CLASS_III_DAMPI
                              MIL_8785C_TABLE_VI, MIL_8785C_TABLE_VII, MIL_8785C_TABLE_VIII,
                              PHI_TO_BETA_COEFFICIENTS, PHI_TO_BETA_THRESHOLD)
 from latdyn.assessment import mode_levels
-from latdyn.criteria import (builtin_criteria, damping_ratio_for_cycles, load_criteria)
+from latdyn.criteria_sets import (builtin_criteria, damping_ratio_for_cycles, load_criteria)
 from latdyn.errors import InputError
 
 EPSILON = 1e-6          # relative step across a boundary [-]

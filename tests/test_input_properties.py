@@ -23,7 +23,7 @@ from latdyn.aircraft import load_aircraft
 from latdyn.assessment import assess
 from latdyn.assessment_tables import render_assessments
 from latdyn.cli import main
-from latdyn.criteria import (CATEGORIES, CONFIDENCES, LIMIT_KEYS, MODES, RECALLED_WORDING, builtin_criteria,
+from latdyn.criteria_sets import (CATEGORIES, CONFIDENCES, LIMIT_KEYS, MODES, RECALLED_WORDING, builtin_criteria,
                              load_criteria)
 from latdyn.errors import InputError
 from latdyn.inputs import read_input_csv

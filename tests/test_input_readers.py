@@ -10,7 +10,7 @@ import warnings
 import numpy as np
 import pytest
 
-from latdyn.criteria import builtin_criteria, damping_ratio_for_cycles, load_criteria
+from latdyn.criteria_sets import builtin_criteria, damping_ratio_for_cycles, load_criteria
 from latdyn.errors import InputError
 from latdyn.input_files import read_input_text
 from latdyn.inputs import read_input_csv, time_grid

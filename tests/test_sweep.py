@@ -12,7 +12,7 @@ import pytest
 
 from latdyn.aircraft import load_aircraft
 from latdyn.cli import main
-from latdyn.criteria import load_criteria
+from latdyn.criteria_sets import load_criteria
 from latdyn.errors import InputError
 from latdyn.levels import select_bands
 from latdyn.studies.sweep import parse_range, sweep

@@ -20,7 +20,7 @@ def load_study_inputs(args):
         Bad output path, aircraft file, criteria set or condition name.
     """
     from latdyn.aircraft import load_aircraft
-    from latdyn.criteria import load_criteria
+    from latdyn.criteria_sets import load_criteria
 
     if getattr(args, "plot", None):
         from latdyn.output_files import check_output_file

@@ -58,7 +58,7 @@ def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.assessment import assess
     from latdyn.assessment_tables import render_assessments
-    from latdyn.criteria import load_criteria
+    from latdyn.criteria_sets import load_criteria
     from latdyn.errors import InputError
 
     phases = parse_flight_phases(args.flight_phase)

@@ -379,7 +379,7 @@ def _concatenate(parts):
 
 
 def _load_sets(criteria_sets):
-    from latdyn.criteria import CriteriaSet, load_criteria
+    from latdyn.criteria_sets import CriteriaSet, load_criteria
 
     return tuple(c if isinstance(c, CriteriaSet) else load_criteria(c) for c in criteria_sets)
 
