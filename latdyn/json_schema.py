@@ -24,6 +24,11 @@ _UNITS = {
     "density": ("kg/m^3", "slug/ft^3"),
     "speed": ("m/s", "ft/s"),
     "acceleration": ("m/s^2", "ft/s^2"),
+    "force": ("N", "lbf"),
+    "force_per_speed": ("N s/m", "lbf s/ft"),
+    "impulse": ("N s", "lbf s"),
+    "moment": ("N m", "ft lbf"),
+    "moment_time": ("N m s", "ft lbf s"),
 }
 
 
@@ -42,7 +47,7 @@ def _word_values():
         "axes": {"enum": list(AXES)},
         "inertia_axes": {"enum": list(AXES)},
         "distribution": {"enum": list(DISTRIBUTIONS)},
-        "primed": {"type": "boolean"},
+        "primed": {"type": "boolean"}, "engaged": {"type": "boolean"},
     }
 
 
@@ -52,9 +57,11 @@ def _leaf(key, dimension, words):
         return dict(words.get(key, {}))
     if dimension == "none":
         unit = "deg" if key.endswith("_deg") else None
-    else:
+    elif dimension in _UNITS:
         si, us = _UNITS[dimension]
         unit = f"{si} (SI) or {us} (US)"
+    else:  # a dimension without a single unit name: the file's unit system decides
+        unit = "SI or US units, as the file's units key says"
     entry = {"type": "number"}
     if unit:
         entry["description"] = f"{dimension if dimension != 'none' else 'angle'} [{unit}]"
