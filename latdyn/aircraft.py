@@ -126,6 +126,19 @@ class FlightCondition:
         return 0.5 * self.density * self.speed**2
 
     @property
+    def equivalent_airspeed(self) -> float:
+        """Equivalent airspeed V sqrt(rho / rho0) [m/s] (:func:`latdyn.atmosphere.equivalent_airspeed`)."""
+        return float(atmosphere.equivalent_airspeed(self.speed, self.density))
+
+    @property
+    def calibrated_airspeed(self) -> float | None:
+        """Calibrated airspeed at the altitude's standard pressure [m/s]; None without an
+        altitude or at Mach 1 and above (:func:`latdyn.atmosphere.calibrated_airspeed`)."""
+        if self.altitude is None or self.mach is None or self.mach >= 1.0:
+            return None
+        return float(atmosphere.calibrated_airspeed(self.speed, self.altitude))
+
+    @property
     def theta(self) -> float:
         """Trim pitch attitude of the body x axis, theta0 = alpha0 + gamma0 [rad]."""
         return self.alpha + self.gamma
@@ -661,6 +674,49 @@ def _altitude_limits_text(leaf_units):
     return f"a geopotential altitude from {low:.0f} to {high:.0f} {word}"
 
 
+#: The keys that give a condition's speed (exactly one per condition): true
+#: airspeed (file units or knots), Mach number, equivalent and calibrated
+#: airspeed (file units or knots).
+SPEED_KEYS = ("speed", "speed_kt", "mach", "equivalent_airspeed", "equivalent_airspeed_kt",
+              "calibrated_airspeed", "calibrated_airspeed_kt")
+
+
+def _speed(entry, altitude, density, air, context):
+    """True airspeed [m/s] and Mach number (None without an altitude) from the one speed key."""
+    present = [key for key in SPEED_KEYS if key in entry]
+    if present:  # with extends, the newest file's speed key replaces the base's
+        newest = min(context.files.index(entry[key].file) for key in present)
+        present = [key for key in present if context.files.index(entry[key].file) == newest]
+    if len(present) != 1:
+        wanted = ("exactly one speed key (" + ", ".join(SPEED_KEYS[:-1]) + " or "
+                  + SPEED_KEYS[-1] + ")")
+        found = " and ".join(present) if present else "none of them"
+        context.fail("condition." + (present[0] if present else "speed"), wanted, found,
+                     entry[present[0]] if present else None)
+    key = present[0]
+    dotted = "condition." + key
+    speed_of_sound = float(air.speed_of_sound) if air is not None else None
+    if key == "mach":
+        mach = _number(entry, "mach", dotted, context, positive=True)
+        if speed_of_sound is None:
+            context.fail(dotted, "an altitude with the Mach number (for the speed of sound)",
+                         "mach without altitude", entry["mach"])
+        return mach * speed_of_sound, mach
+    dimension = "knots" if key.endswith("_kt") else "speed"
+    value = _number(entry, key, dotted, context, dimension, positive=True)
+    if key.startswith("equivalent_airspeed"):
+        value = float(atmosphere.true_airspeed_from_equivalent(value, density))
+    elif key.startswith("calibrated_airspeed"):
+        if altitude is None:
+            context.fail(dotted, "an altitude with the calibrated airspeed (for the static "
+                         "pressure)", f"{key} without altitude", entry[key])
+        mach, value = (float(v) for v in atmosphere.true_airspeed_from_calibrated(value, altitude))
+        if mach >= 1.0:
+            context.fail(dotted, "a subsonic calibrated airspeed at this altitude (Mach < 1)",
+                         f"{describe_value(entry[key].value)} (Mach {mach:.3f})", entry[key])
+    return value, (value / speed_of_sound if speed_of_sound else None)
+
+
 def _flight(entry, name, context):
     category = _word(entry, "category", "condition.category", context, CATEGORIES, required=False)
     flight_phase = _word(entry, "flight_phase", "condition.flight_phase", context, FLIGHT_PHASES,
@@ -682,21 +738,7 @@ def _flight(entry, name, context):
     if density is None:
         density = float(air.density)
     speed_of_sound = float(air.speed_of_sound) if air is not None else None
-    has_speed, has_mach = "speed" in entry, "mach" in entry
-    if has_speed == has_mach:
-        found = "both" if has_speed else "neither"
-        newest = min((entry[k] for k in ("speed", "mach") if k in entry),
-                     key=lambda leaf: context.files.index(leaf.file), default=None)
-        context.fail("condition.speed", "exactly one of speed and mach", found, newest)
-    if has_speed:
-        speed = _number(entry, "speed", "condition.speed", context, "speed", positive=True)
-        mach = speed / speed_of_sound if speed_of_sound else None
-    else:
-        mach = _number(entry, "mach", "condition.mach", context, positive=True)
-        if speed_of_sound is None:
-            context.fail("condition.mach", "an altitude with the Mach number (for the speed of sound)",
-                         "mach without altitude", entry["mach"])
-        speed = mach * speed_of_sound
+    speed, mach = _speed(entry, altitude, density, air, context)
     angles = {}
     for key in ("alpha_deg", "gamma_deg"):
         value = _number(entry, key, f"condition.{key}", context, required=False, default=0.0)
@@ -804,13 +846,6 @@ def leaf_units(table):
     return next((leaf.units for leaf in table.values() if isinstance(leaf, Leaf)), "SI")
 
 
-#: Printed unit of a dimensional-derivative form, SI and US, by dimension (file units).
-_FORM_UNITS = {
-    "none": None, "acceleration": ("m/s^2", "ft/s^2"), "speed": ("m/s", "ft/s"),
-    "per_length": ("1/(m s)", "1/(ft s)"), "force": ("N", "lbf"),
-    "force_per_speed": ("N s/m", "lbf s/ft"), "impulse": ("N s", "lbf s"),
-    "moment": ("N m", "ft lbf"), "moment_time": ("N m s", "ft lbf s"),
-}
 
 
 _PER_SECOND_SQUARED = ("L_beta", "N_beta", "L_da", "L_dr", "N_da", "N_dr")
@@ -818,10 +853,9 @@ _PER_SECOND_SQUARED = ("L_beta", "N_beta", "L_da", "L_dr", "N_da", "N_dr")
 
 def _form_unit(quantity, key, dimension, file_units):
     """Printed unit of one form of a dimensional derivative, in the file's units."""
-    words = _FORM_UNITS[dimension]
-    if words is None:  # normalised: 1/s^2 for L, N per sideslip or control, else 1/s
+    if dimension == "none":  # normalised: 1/s^2 for L, N per sideslip or control, else 1/s
         return "1/s^2" if key == quantity and quantity in _PER_SECOND_SQUARED else "1/s"
-    return words[file_units == "US"]
+    return units.unit_word(dimension, file_units)
 
 
 def _dimensional(axes, primed, given, flight, mass, context):

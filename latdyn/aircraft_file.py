@@ -103,7 +103,9 @@ SCHEMA = {
     "condition": {
         "name": None, "description": None, "category": None, "flight_phase": None,
         "altitude": "length",
-        "density": "density", "speed": "speed", "mach": "none",
+        "density": "density", "speed": "speed", "mach": "none", "speed_kt": "knots",
+        "equivalent_airspeed": "speed", "equivalent_airspeed_kt": "knots",
+        "calibrated_airspeed": "speed", "calibrated_airspeed_kt": "knots",
         "alpha_deg": "none", "gamma_deg": "none",
         "controls": dict(CONTROL_KEYS),
         "derivatives": {"axes": None, **{key: "none" for key in NONDIMENSIONAL_KEYS}},

@@ -22,7 +22,9 @@ import numpy as np
 
 __all__ = [
     "Atmosphere", "standard_atmosphere", "MIN_ALTITUDE", "MAX_ALTITUDE",
-    "geopotential_altitude",
+    "geopotential_altitude", "SEA_LEVEL_PRESSURE", "SEA_LEVEL_DENSITY", "SEA_LEVEL_SPEED_OF_SOUND",
+    "impact_pressure", "calibrated_airspeed", "true_airspeed_from_calibrated",
+    "equivalent_airspeed", "true_airspeed_from_equivalent",
 ]
 
 #: Universal gas constant of the 1976 standard [J/(kmol K)].
@@ -166,3 +168,159 @@ def geopotential_altitude(geometric):
     """
     z = np.asarray(geometric, dtype=float)
     return EARTH_RADIUS * z / (EARTH_RADIUS + z)
+
+
+# ---------------------------------------------------------------------------
+# airspeeds
+
+#: Sea-level standard pressure p0 [Pa] (Table 4 base; exact by definition).
+SEA_LEVEL_PRESSURE = 101325.0
+#: Sea-level standard density rho0 = p0 / (R T0) [kg/m^3] (1.2250).
+SEA_LEVEL_DENSITY = SEA_LEVEL_PRESSURE / (_R * 288.15)
+#: Sea-level standard speed of sound a0 = sqrt(gamma R T0) [m/s] (340.294).
+SEA_LEVEL_SPEED_OF_SOUND = float(np.sqrt(GAMMA * _R * 288.15))
+
+_EXPONENT = GAMMA / (GAMMA - 1.0)       # 3.5
+_HALF_GAMMA_MINUS_ONE = (GAMMA - 1.0) / 2.0  # 0.2
+
+
+def _mach_from_impact(impact, pressure):
+    """Inverse of :func:`impact_pressure` (subsonic): M = sqrt(5 [(q_c/p + 1)^(2/7) - 1])."""
+    return np.sqrt(((impact / pressure + 1.0) ** (1.0 / _EXPONENT) - 1.0) / _HALF_GAMMA_MINUS_ONE)
+
+
+def impact_pressure(mach, pressure):
+    """Impact pressure of subsonic flow on a pitot tube.
+
+    .. math::
+        q_c = p \\left[\\left(1 + \\frac{\\gamma - 1}{2} M^2\\right)^{\\gamma/(\\gamma - 1)} - 1\\right]
+
+    with gamma = 1.4: the isentropic (Saint-Venant) pitot relation, valid for
+    M < 1.  Source: W. Gracey, *Measurement of Aircraft Speed and Altitude*,
+    NASA RP-1046, 1980, chapter on airspeed (subsonic equations).
+
+    Parameters
+    ----------
+    mach : float or array_like
+        Mach number M [-], below 1.
+    pressure : float or array_like
+        Static pressure p [Pa].
+
+    Returns
+    -------
+    numpy.ndarray
+        q_c [Pa].
+
+    Examples
+    --------
+    Low speed tends to the incompressible q = rho V^2 / 2 = gamma p M^2 / 2:
+
+    >>> q = impact_pressure(0.01, 101325.0)
+    >>> round(float(q / (0.7 * 101325.0 * 0.01**2)), 4)
+    1.0
+    """
+    m = np.asarray(mach, dtype=float)
+    return np.asarray(pressure, dtype=float) * (
+        (1.0 + _HALF_GAMMA_MINUS_ONE * m**2) ** _EXPONENT - 1.0)
+
+
+def calibrated_airspeed(true_airspeed, altitude):
+    """Calibrated airspeed from true airspeed at a standard-atmosphere altitude.
+
+    The calibrated airspeed is the speed that gives the same impact pressure
+    at standard sea-level conditions (p0, a0)::
+
+        q_c = p [(1 + 0.2 M^2)^3.5 - 1],   M = V / a
+        V_c = a0 sqrt(5 [(q_c / p0 + 1)^(2/7) - 1])
+
+    Subsonic only (M < 1).  Source: W. Gracey, *Measurement of Aircraft Speed
+    and Altitude*, NASA RP-1046, 1980 (subsonic airspeed equations); the
+    atmosphere is the US Standard Atmosphere 1976 (:func:`standard_atmosphere`).
+
+    Parameters
+    ----------
+    true_airspeed : float or array_like
+        V [m/s].
+    altitude : float or array_like
+        Geopotential (pressure) altitude [m].
+
+    Returns
+    -------
+    numpy.ndarray
+        V_c [m/s].
+
+    Examples
+    --------
+    At standard sea level the calibrated, equivalent and true airspeeds agree:
+
+    >>> round(float(calibrated_airspeed(150.0, 0.0)), 9)
+    150.0
+    """
+    air = standard_atmosphere(altitude)
+    impact = impact_pressure(np.asarray(true_airspeed, dtype=float) / air.speed_of_sound,
+                             air.pressure)
+    return SEA_LEVEL_SPEED_OF_SOUND * _mach_from_impact(impact, SEA_LEVEL_PRESSURE)
+
+
+def true_airspeed_from_calibrated(calibrated, altitude):
+    """True airspeed from calibrated airspeed (inverse of :func:`calibrated_airspeed`).
+
+    ::
+
+        q_c = p0 [(1 + 0.2 (V_c / a0)^2)^3.5 - 1]
+        M = sqrt(5 [(q_c / p + 1)^(2/7) - 1]),   V = M a
+
+    Subsonic only: the result is meaningful while M < 1.  Source as
+    :func:`calibrated_airspeed`.
+
+    Parameters
+    ----------
+    calibrated : float or array_like
+        V_c [m/s].
+    altitude : float or array_like
+        Geopotential (pressure) altitude [m].
+
+    Returns
+    -------
+    mach : numpy.ndarray
+        M [-].
+    true_airspeed : numpy.ndarray
+        V [m/s].
+
+    Examples
+    --------
+    >>> mach, speed = true_airspeed_from_calibrated(150.0, 0.0)
+    >>> round(float(speed), 9)
+    150.0
+    """
+    air = standard_atmosphere(altitude)
+    impact = impact_pressure(np.asarray(calibrated, dtype=float) / SEA_LEVEL_SPEED_OF_SOUND,
+                             SEA_LEVEL_PRESSURE)
+    mach = _mach_from_impact(impact, air.pressure)
+    return mach, mach * air.speed_of_sound
+
+
+def equivalent_airspeed(true_airspeed, density):
+    """Equivalent airspeed V_e = V sqrt(rho / rho0): the same dynamic pressure at sea level.
+
+    Definition (Gracey, NASA RP-1046, 1980; common practice).
+
+    Examples
+    --------
+    >>> round(float(equivalent_airspeed(100.0, SEA_LEVEL_DENSITY / 4.0)), 9)
+    50.0
+    """
+    return np.asarray(true_airspeed, dtype=float) * np.sqrt(
+        np.asarray(density, dtype=float) / SEA_LEVEL_DENSITY)
+
+
+def true_airspeed_from_equivalent(equivalent, density):
+    """True airspeed V = V_e sqrt(rho0 / rho) (inverse of :func:`equivalent_airspeed`).
+
+    Examples
+    --------
+    >>> round(float(true_airspeed_from_equivalent(50.0, SEA_LEVEL_DENSITY / 4.0)), 9)
+    100.0
+    """
+    return np.asarray(equivalent, dtype=float) * np.sqrt(
+        SEA_LEVEL_DENSITY / np.asarray(density, dtype=float))

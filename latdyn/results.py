@@ -70,6 +70,8 @@ def condition_document(result: ConditionResult) -> dict:
         "dynamic_pressure": flight.dynamic_pressure,
         "altitude": flight.altitude,
         "mach": flight.mach,
+        "equivalent_airspeed": flight.equivalent_airspeed,
+        "calibrated_airspeed": flight.calibrated_airspeed,
         "alpha": flight.alpha,
         "gamma": flight.gamma,
         "axes": result.model.axes,
@@ -85,7 +87,8 @@ def modes_document(aircraft: Aircraft, results=None, condition: str | None = Non
     Layout: ``{"latdyn_version", "aircraft", "file", "conditions": [{"name",
     "category", "true_airspeed", "density", "dynamic_pressure", "modes":
     [...]}]}`` plus the extra keys ``airplane_class``, ``warnings`` and, per
-    condition, ``altitude``, ``mach``, ``alpha``, ``gamma``, ``axes``,
+    condition, ``altitude``, ``mach``, ``equivalent_airspeed``, ``calibrated_airspeed``,
+    ``alpha``, ``gamma``, ``axes``,
     ``pattern``; with an engaged ``[augmentation]`` also ``augmentation`` (its
     values, SI) and ``added_roots`` (the roots of the washout, sensors,
     actuators and delay, each entry laid out as a mode with ``mode`` naming

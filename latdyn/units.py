@@ -16,7 +16,7 @@ import math
 
 __all__ = [
     "FOOT", "SLUG", "POUND_FORCE", "KNOT", "SLUG_FOOT2", "SLUG_PER_FOOT3", "STANDARD_GRAVITY",
-    "DIMENSION_FACTORS", "to_si", "from_si", "deg", "rad",
+    "DIMENSION_FACTORS", "UNIT_WORDS", "unit_word", "to_si", "from_si", "deg", "rad",
 ]
 
 #: One foot [m] (exact).
@@ -44,6 +44,7 @@ DIMENSION_FACTORS = {
     "density": (SLUG_PER_FOOT3, 1.0), # slug/ft^3 -> kg/m^3
     "speed": (FOOT, 1.0),             # ft/s -> m/s
     "acceleration": (FOOT, 1.0),      # ft/s^2 -> m/s^2
+    "knots": (KNOT, KNOT),            # kt -> m/s, whatever the file's units
     "per_length": (1.0 / FOOT, 1.0),  # 1/(ft s), 1/(ft s^2) -> 1/(m s), 1/(m s^2)
     "force": (POUND_FORCE, 1.0),      # lbf -> N
     "force_per_speed": (POUND_FORCE / FOOT, 1.0),  # lbf s/ft -> N s/m
@@ -51,6 +52,26 @@ DIMENSION_FACTORS = {
     "moment": (POUND_FORCE * FOOT, 1.0),  # ft lbf -> N m
     "moment_time": (POUND_FORCE * FOOT, 1.0),  # ft lbf s -> N m s
 }
+
+#: Printed unit of each dimension in SI and in US files ("" for a ratio or coefficient).
+UNIT_WORDS = {
+    "none": ("", ""), "length": ("m", "ft"), "area": ("m^2", "ft^2"), "mass": ("kg", "slug"),
+    "inertia": ("kg m^2", "slug ft^2"), "density": ("kg/m^3", "slug/ft^3"),
+    "speed": ("m/s", "ft/s"), "acceleration": ("m/s^2", "ft/s^2"), "degree": ("deg", "deg"),
+    "knots": ("kt", "kt"), "per_length": ("1/(m s)", "1/(ft s)"), "force": ("N", "lbf"),
+    "force_per_speed": ("N s/m", "lbf s/ft"), "impulse": ("N s", "lbf s"),
+    "moment": ("N m", "ft lbf"), "moment_time": ("N m s", "ft lbf s"),
+}
+
+
+def unit_word(dimension: str, units: str) -> str:
+    """Printed unit of a dimension in "SI" or "US" (:data:`UNIT_WORDS`).
+
+    >>> unit_word("moment", "US")
+    'ft lbf'
+    """
+    si, us = UNIT_WORDS[dimension]
+    return us if units == "US" else si
 
 
 def to_si(value, dimension: str, units: str):

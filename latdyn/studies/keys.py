@@ -25,11 +25,7 @@ _PREFIXES = ("condition.derivatives.", "condition.dimensional.", "condition.", "
 _ANGLES = {"alpha_deg": "alpha", "gamma_deg": "gamma"}
 
 #: Printed unit of each dimension in SI and US files.
-UNIT_WORDS = {
-    "none": ("", ""), "length": ("m", "ft"), "area": ("m^2", "ft^2"), "mass": ("kg", "slug"),
-    "inertia": ("kg m^2", "slug ft^2"), "density": ("kg/m^3", "slug/ft^3"),
-    "speed": ("m/s", "ft/s"), "acceleration": ("m/s^2", "ft/s^2"), "degree": ("deg", "deg"),
-}
+UNIT_WORDS = units.UNIT_WORDS
 
 
 @dataclass(frozen=True)
@@ -68,8 +64,7 @@ class StudyKey:
     @property
     def unit(self) -> str:
         """Unit word of typed values ("" for a ratio or coefficient)."""
-        si, us = UNIT_WORDS[self.dimension]
-        return us if self.units == "US" else si
+        return units.unit_word(self.dimension, self.units)
 
     @property
     def label(self) -> str:
