@@ -10,26 +10,16 @@ checks (ranges, physics, required keys) stay with :mod:`latdyn.aircraft`.
 
 from __future__ import annotations
 
+from latdyn.units import UNIT_WORDS
+
 __all__ = ["aircraft_json_schema", "DRAFT"]
 
 #: The JSON Schema dialect written (draft 7: read by the common TOML editors).
 DRAFT = "http://json-schema.org/draft-07/schema#"
 
-#: Units of each physical dimension of an aircraft-file number: (SI, US).
-_UNITS = {
-    "length": ("m", "ft"),
-    "area": ("m^2", "ft^2"),
-    "mass": ("kg", "slug"),
-    "inertia": ("kg m^2", "slug ft^2"),
-    "density": ("kg/m^3", "slug/ft^3"),
-    "speed": ("m/s", "ft/s"),
-    "acceleration": ("m/s^2", "ft/s^2"),
-    "force": ("N", "lbf"),
-    "force_per_speed": ("N s/m", "lbf s/ft"),
-    "impulse": ("N s", "lbf s"),
-    "moment": ("N m", "ft lbf"),
-    "moment_time": ("N m s", "ft lbf s"),
-}
+#: Units of each physical dimension of an aircraft-file number: (SI, US) (latdyn.units).
+_UNITS = {dimension: words for dimension, words in UNIT_WORDS.items()
+          if dimension not in ("none", "degree")}
 
 
 def _word_values():
@@ -59,7 +49,7 @@ def _leaf(key, dimension, words):
         unit = "deg" if key.endswith("_deg") else None
     elif dimension in _UNITS:
         si, us = _UNITS[dimension]
-        unit = f"{si} (SI) or {us} (US)"
+        unit = si if si == us else f"{si} (SI) or {us} (US)"
     else:  # a dimension without a single unit name: the file's unit system decides
         unit = "SI or US units, as the file's units key says"
     entry = {"type": "number"}
