@@ -382,7 +382,7 @@ def _assess_one(criteria, mode_name, mode, airplane_class, category, flight_phas
         for cat in categories:
             for alt in altitudes:
                 selection = select_bands(criteria, mode_name, cls, cat, flight_phase, alt)
-                if selection.undefined:
+                if selection.undefined and selection.not_permitted is None:
                     results[(cls, cat, alt)] = None
                     continue
                 values = {k: np.atleast_1d(v) for k, v in _mode_values(mode_name, mode).items()}

@@ -20,7 +20,7 @@ File layout (format 1)::
     [sources.<key>]                   # one per table, note or paragraph
     document = "..."
     reference = "3.3.1.1, Table VI"   # paragraph, table or row
-    confidence = "published"          # published | recalled | derivation | programme
+    confidence = "published"          # published | secondary | recalled | derivation | programme
     caution = "recalled from <document>, verify against the original before relying on it"
                                       # required (with that wording) when recalled
 
@@ -34,6 +34,7 @@ File layout (format 1)::
     categories = ["A"]                # omit: any category
     classes = ["I", "IV"]             # I, II (= II-C and II-L), II-C, II-L, III, IV; omit: any class
     flight_phases = ["combat"]        # only for conditions stating one of these sub-phases
+    except_flight_phases = ["combat"] # not for conditions stating one of these (a separate row holds)
     min_altitude = 5486.4             # [m]: band holds at and above
     max_altitude = 5486.4             # [m]: band holds below
     source = "<key of [sources]>"
@@ -42,11 +43,20 @@ File layout (format 1)::
     #   dutch_roll:      min_damping_ratio, min_zeta_omega [rad/s], min_natural_frequency [rad/s];
     #                    or cycles_to_amplitude_ratio = 7 (with amplitude_ratio = 0.1, the default),
     #                    turned into min_damping_ratio = k / sqrt(1 + k^2), k = ln(1/ratio) / (2 pi N);
-    #                    exclusive = true: zeta_d must exceed min_damping_ratio
     #   roll_subsidence: max_time_constant [s]
     #   spiral:          min_time_to_double [s]
     #   roll_spiral:     min_zeta_omega [rad/s]
+    exclusive = true                  # optional: every limit of the band must be strictly passed
+                                      #   (the document says "exceed" or "greater than"); default
+                                      #   false: reaching the limit meets it ("no greater than")
 
+Confidence marks: ``published`` read in the document's own text;
+``secondary`` read in a secondary transcription of the document (give the
+printed page in ``reference``); ``recalled`` from memory (then with the
+caution wording); ``derivation`` derived by latdyn from a published rule;
+``programme`` a programme's or company's own rule.  A number known only from
+memory with low confidence is not shipped as a band: a user holding the
+document adds it.
 Mode-wide rules: ``[dutch_roll.phi_to_beta_rule]`` (threshold, coefficients
 per level, source), ``[dutch_roll.damping_ratio_cap]`` (classes, value,
 source), ``[dutch_roll.frequency_excusal]`` (classes, note, source) and
@@ -83,7 +93,7 @@ CLASSES = ("I", "II-C", "II-L", "III", "IV")
 _CLASS_WORDS = {"I": ("I",), "II": ("II-C", "II-L"), "II-C": ("II-C",),
                 "II-L": ("II-L",), "III": ("III",), "IV": ("IV",)}
 CATEGORIES = ("A", "B", "C")
-CONFIDENCES = ("published", "recalled", "derivation", "programme")
+CONFIDENCES = ("published", "secondary", "recalled", "derivation", "programme")
 ASSESSMENTS = ("levels", "pass_fail")
 RECALLED_WORDING = "verify against the original before relying on it"
 
@@ -102,9 +112,9 @@ _LIMIT_RANGES = {
     "max_time_constant": (0.0, math.inf, "a number > 0 [s]"),
     "min_time_to_double": (0.0, math.inf, "a number > 0 [s]"),
 }
-_BAND_COMMON = ("row", "level", "categories", "classes", "flight_phases",
-                "min_altitude", "max_altitude", "source", "note")
-_BAND_EXTRA = {"dutch_roll": ("cycles_to_amplitude_ratio", "amplitude_ratio", "exclusive")}
+_BAND_COMMON = ("row", "level", "categories", "classes", "flight_phases", "except_flight_phases",
+                "min_altitude", "max_altitude", "source", "note", "exclusive")
+_BAND_EXTRA = {"dutch_roll": ("cycles_to_amplitude_ratio", "amplitude_ratio")}
 _MODE_KEYS = {
     "dutch_roll": ("band", "note", "controls", "phi_to_beta_rule", "damping_ratio_cap",
                    "frequency_excusal"),
@@ -228,12 +238,16 @@ class Band:
     limits : tuple of (str, float)
         Limit key and value, SI units ([-], [rad/s], [s]).
     exclusive : bool
-        The damping ratio must exceed ``min_damping_ratio`` (not just reach it).
+        Every limit of the band must be strictly passed (the document says
+        "exceed" or "greater than"), not just reached.
     source : Source
     note : str or None
         Free text, including how a derived limit was obtained.
     index : int
         Position of the band in the file's ``[[<mode>.band]]`` list (0-based).
+    except_flight_phases : tuple of str or None
+        Sub-phases the band does not hold in (a separate row of the table
+        holds there instead).
     """
 
     mode: str
@@ -249,6 +263,7 @@ class Band:
     source: Source
     note: str | None
     index: int
+    except_flight_phases: tuple | None = None
 
     def limit(self, key):
         """Value of one limit, or None when the band does not set it."""
@@ -266,6 +281,8 @@ class Band:
         if self.categories is not None and category not in self.categories:
             return False
         if self.flight_phases is not None and flight_phase not in self.flight_phases:
+            return False
+        if self.except_flight_phases is not None and flight_phase in self.except_flight_phases:
             return False
         if self.min_altitude is not None and (altitude is None or altitude < self.min_altitude):
             return False
@@ -488,11 +505,11 @@ class _Reader:
                           "[" + ", ".join(f"{v:g}" for v in values) + f"] (Level {i + 1} "
                           f"{values[i]:g} is less strict than Level {i + 2} {values[i + 1]:g})")
 
-    def phases(self, table, where):
-        full = f"{where}.flight_phases"
-        if "flight_phases" not in table:
+    def phases(self, table, where, key="flight_phases"):
+        full = f"{where}.{key}"
+        if key not in table:
             return None
-        value = table["flight_phases"]
+        value = table[key]
         if not isinstance(value, list) or not value:
             self.fail(full, "a non-empty list of flight-phase names", describe_value(value))
         for i, item in enumerate(value):
@@ -600,6 +617,13 @@ class _Reader:
                 expand_classes(classes) if classes else None,
                 self.phases(raw, where))
 
+    def excepted(self, raw, where, phases):
+        excepted = self.phases(raw, where, "except_flight_phases")
+        if excepted is not None and phases is not None and set(excepted) & set(phases):
+            self.fail(f"{where}.except_flight_phases", "phases not also listed in flight_phases",
+                      ", ".join(sorted(set(excepted) & set(phases))))
+        return excepted
+
     def band(self, mode, index, raw):
         where = f"{mode}.band[{index}]"
         limit_keys = LIMIT_KEYS[mode]
@@ -608,6 +632,7 @@ class _Reader:
         source = self.source(raw, where)
         note = self.string(raw, "note", where, required=False)
         categories, classes, phases = self.where_fields(raw, where)
+        excepted = self.excepted(raw, where, phases)
         altitudes = []
         for key in ("min_altitude", "max_altitude"):
             altitudes.append(None if key not in raw else
@@ -666,7 +691,7 @@ class _Reader:
         if self.assessment == "pass_fail":
             levels = [None]
         return [Band(mode, row, lev, categories, classes, phases, altitudes[0], altitudes[1],
-                     tuple(entry.items()), exclusive, source, note, index)
+                     tuple(entry.items()), exclusive, source, note, index, excepted)
                 for lev, entry in zip(levels, limits) if entry]
 
     def cycles(self, raw, where):
@@ -731,9 +756,12 @@ class _Reader:
         out = []
         for index, entry in enumerate(raw):
             item = f"{where}[{index}]"
-            self.known(entry, ("row", "categories", "classes", "flight_phases", "source", "note"), item)
+            self.known(entry, ("row", "categories", "classes", "flight_phases", "except_flight_phases",
+                               "source", "note"), item)
             row = self.string(entry, "row", item)
             categories, classes, phases = self.where_fields(entry, item)
+            excepted = self.excepted(entry, item, phases)
             out.append(Band("roll_spiral", row, None, categories, classes, phases, None, None, (),
-                            False, self.source(entry, item), self.string(entry, "note", item, False), index))
+                            False, self.source(entry, item), self.string(entry, "note", item, False), index,
+                            excepted))
         return tuple(out)

@@ -230,9 +230,12 @@ class DutchRollLimits(NamedTuple):
     phi_to_beta_threshold : float
         [(rad/s)^2].
     damping_ratio_cap : float
-        Most zeta_d ever required [-] (NaN: no cap).
+        Most zeta_d ever required [-] (NaN: no cap).  Reaching the cap meets it.
     exclusive : ndarray of bool
         zeta_d must exceed ``min_damping_ratio`` strictly.
+    zeta_omega_exclusive, frequency_exclusive : ndarray of bool
+        zeta_d*omega_nd (with the |phi/beta| rise) and omega_nd must exceed
+        their limits strictly (MIL-F-8785C 3.3.1.1 "shall exceed").
     """
 
     min_damping_ratio: np.ndarray
@@ -242,24 +245,32 @@ class DutchRollLimits(NamedTuple):
     phi_to_beta_threshold: float = 20.0
     damping_ratio_cap: float = np.nan
     exclusive: np.ndarray = np.False_
+    zeta_omega_exclusive: np.ndarray = np.False_
+    frequency_exclusive: np.ndarray = np.False_
 
 
 class RollLimits(NamedTuple):
-    """Roll-mode limits per grade: most time constant T_R [s] (shape (G,))."""
+    """Roll-mode limits per grade: most time constant T_R [s] (shape (G,));
+    ``exclusive``: T_R must stay strictly below it."""
 
     max_time_constant: np.ndarray
+    exclusive: np.ndarray = np.False_
 
 
 class SpiralLimits(NamedTuple):
-    """Spiral limits per grade: least time to double T_2 [s] (shape (G,))."""
+    """Spiral limits per grade: least time to double T_2 [s] (shape (G,));
+    ``exclusive``: T_2 must be strictly greater (MIL-F-8785C 3.3.1.3)."""
 
     min_time_to_double: np.ndarray
+    exclusive: np.ndarray = np.False_
 
 
 class RollSpiralLimits(NamedTuple):
-    """Coupled roll-spiral limits per grade: least zeta*omega [rad/s] (shape (G,))."""
+    """Coupled roll-spiral limits per grade: least zeta*omega [rad/s] (shape (G,));
+    ``exclusive``: zeta*omega must exceed it (MIL-F-8785C 3.3.1.4)."""
 
     min_zeta_omega: np.ndarray
+    exclusive: np.ndarray = np.False_
 
 
 def phi_to_beta_excess(natural_frequency, phi_to_beta, threshold=20.0):
@@ -340,6 +351,8 @@ def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: Dut
     min_omega = np.asarray(limits.min_natural_frequency, dtype=float)
     coefficient = np.asarray(limits.phi_to_beta_coefficient, dtype=float)
     exclusive = np.broadcast_to(np.asarray(limits.exclusive, dtype=bool), min_zeta.shape)
+    zw_exclusive = np.broadcast_to(np.asarray(limits.zeta_omega_exclusive, dtype=bool), min_zeta.shape)
+    omega_exclusive = np.broadcast_to(np.asarray(limits.frequency_exclusive, dtype=bool), min_zeta.shape)
     cap = np.asarray(limits.damping_ratio_cap, dtype=float)
     count = min_zeta.shape[-1]
     with np.errstate(invalid="ignore", divide="ignore"):
@@ -361,8 +374,9 @@ def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: Dut
             damping = (np.where(use_zw, product, zeta),
                        np.where(use_zw, zw_required, np.where(capped, cap, min_zeta[..., g])),
                        np.where(use_zw, _INDEX["zeta_omega"], _INDEX["damping_ratio"]), 1.0,
-                       exclusive[..., g] & ~use_zw & ~capped)
-            frequency = (omega, min_omega[..., g], _INDEX["natural_frequency"], 1.0, False)
+                       np.where(use_zw, zw_exclusive[..., g], exclusive[..., g]) & ~capped)
+            frequency = (omega, min_omega[..., g], _INDEX["natural_frequency"], 1.0,
+                         omega_exclusive[..., g])
             columns.append([damping, frequency])
     return _grade_columns(columns, shape)
 
@@ -395,7 +409,7 @@ def roll_grades(roll_root, limits: RollLimits) -> Grades:
         constant = np.where(root < 0.0, -1.0 / np.where(root < 0.0, root, -1.0), np.inf)
     constant = np.where(np.isnan(root), np.nan, constant)
     return grade(constant[..., None, None], np.asarray(limits.max_time_constant, float)[..., None],
-                 _INDEX["time_constant"], -1.0)
+                 _INDEX["time_constant"], -1.0, np.asarray(limits.exclusive, bool)[..., None])
 
 
 def spiral_grades(spiral_root, limits: SpiralLimits) -> Grades:
@@ -426,7 +440,7 @@ def spiral_grades(spiral_root, limits: SpiralLimits) -> Grades:
         double = np.where(root > 0.0, _LN2 / np.where(root > 0.0, root, 1.0), np.inf)
     double = np.where(np.isnan(root), np.nan, double)
     return grade(double[..., None, None], np.asarray(limits.min_time_to_double, float)[..., None],
-                 _INDEX["time_to_double"], 1.0)
+                 _INDEX["time_to_double"], 1.0, np.asarray(limits.exclusive, bool)[..., None])
 
 
 def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimits, permitted=True) -> Grades:
@@ -461,7 +475,8 @@ def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimit
     shape = np.broadcast_shapes(zw.shape, allowed.shape, minimum.shape[:-1])
     # "permitted": a constraint allowed >= 1 that holds only where the phase forbids the mode
     forbidden = np.where(allowed > 0.0, np.nan, 1.0)
-    columns = [[(zw, minimum[..., g], _INDEX["zeta_omega"], 1.0, False),
+    strict = np.broadcast_to(np.asarray(limits.exclusive, dtype=bool), minimum.shape)
+    columns = [[(zw, minimum[..., g], _INDEX["zeta_omega"], 1.0, strict[..., g]),
                 (allowed, forbidden, _INDEX["permitted"], 1.0, False)]
                for g in range(minimum.shape[-1])]
     return _grade_columns(columns, shape)
@@ -546,7 +561,7 @@ def select_bands(criteria: CriteriaSet, mode, airplane_class, category, flight_p
     count = criteria.grades
     keys = tuple(LIMIT_KEYS[mode])
     values = {key: np.full(count, np.nan) for key in keys}
-    exclusive = np.zeros(count, bool)
+    strict = {key: np.zeros(count, bool) for key in keys}
     chosen = {}
     covered = np.zeros(count, bool)
     notes = []
@@ -564,12 +579,11 @@ def select_bands(criteria: CriteriaSet, mode, airplane_class, category, flight_p
             sense = LIMIT_KEYS[mode][key]
             current = values[key][g]
             stricter = np.isnan(current) or (limit > current if sense > 0 else limit < current)
-            if stricter or limit == current:
-                if stricter or not (key == "min_damping_ratio" and exclusive[g]):
-                    values[key][g] = limit
-                    chosen[(_LIMIT_PARAMETER[key], g)] = band
-                    if key == "min_damping_ratio":
-                        exclusive[g] = band.exclusive if stricter else (exclusive[g] or band.exclusive)
+            # equal limits: the later band, unless only the earlier one is strict
+            if stricter or (limit == current and (band.exclusive or not strict[key][g])):
+                values[key][g] = limit
+                strict[key][g] = band.exclusive
+                chosen[(_LIMIT_PARAMETER[key], g)] = band
     undefined = tuple(int(g) + 1 for g in np.flatnonzero(~covered))
     not_permitted = None
     if mode == "dutch_roll":
@@ -578,16 +592,17 @@ def select_bands(criteria: CriteriaSet, mode, airplane_class, category, flight_p
             values["min_damping_ratio"], values["min_zeta_omega"], values["min_natural_frequency"],
             np.asarray(rule.coefficients, float) if rule else np.zeros(count),
             rule.threshold if rule else 20.0,
-            cap.value if cap and airplane_class in cap.classes else np.nan, exclusive)
+            cap.value if cap and airplane_class in cap.classes else np.nan,
+            strict["min_damping_ratio"], strict["min_zeta_omega"], strict["min_natural_frequency"])
         excusal = entry.frequency_excusal
         if excusal and airplane_class in excusal.classes:
             notes.append(f"{criteria.name}: {excusal.note} ({excusal.source.short()})")
     elif mode == "roll_subsidence":
-        limits = RollLimits(values["max_time_constant"])
+        limits = RollLimits(values["max_time_constant"], strict["max_time_constant"])
     elif mode == "spiral":
-        limits = SpiralLimits(values["min_time_to_double"])
+        limits = SpiralLimits(values["min_time_to_double"], strict["min_time_to_double"])
     else:
-        limits = RollSpiralLimits(values["min_zeta_omega"])
+        limits = RollSpiralLimits(values["min_zeta_omega"], strict["min_zeta_omega"])
         for band in entry.not_permitted:
             if band.applies(airplane_class, category, flight_phase, altitude):
                 not_permitted = band
@@ -650,7 +665,7 @@ def mode_levels(criteria, mode, airplane_class, category, *, flight_phase=None, 
 
     Examples
     --------
-    >>> g = mode_levels("mil-f-8785c", "dutch_roll", "III", "C", damping_ratio=[0.11, 0.05],
+    >>> g = mode_levels("mil-f-8785c", "dutch_roll", "III", "C", damping_ratio=[0.11, 0.06],
     ...                 natural_frequency=[1.0, 1.0], phi_to_beta=[1.0, 1.0])
     >>> g.level.tolist()
     [1, 2]

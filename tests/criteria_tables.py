@@ -3,6 +3,9 @@
 Each table names its source and confidence.  [recalled]: from memory of the
 published table, agreed by two independent recollections but not read from
 the primary document -- verify against the original before relying on it.
+[secondary]: read in secondary transcriptions of the document made from the
+public PDF, citing its printed pages (the project's criteria-sources reading,
+2026: MIL-F-8785C Tables VI, VII, VIII and 3.3.1.4 on printed pp. 22-23).
 [published]: read from a stored copy of the source text.  None of these
 numbers is read from the package's data files: the tests compare the two.
 
@@ -13,9 +16,13 @@ None: the table gives no value ("-").
 CLASSES_ALL = ("I", "II-C", "II-L", "III", "IV")
 CATEGORIES_ALL = ("A", "B", "C")
 
-# MIL-F-8785C (5 November 1980), 3.3.1.1, Table VI, minimum Dutch roll frequency
-# and damping [recalled].  (level, categories, classes, sub-phases, min zeta_d,
-# min zeta_d*omega_nd [rad/s], min omega_nd [rad/s], row name)
+# MIL-F-8785C (5 November 1980), 3.3.1.1, Table VI (printed p. 22), minimum Dutch
+# roll frequency and damping [secondary]; the values "shall exceed" (strict).
+# The Category A combat and ground-attack row for Class IV is a row of its own:
+# in those phases it holds instead of the Category A row (latdyn's reading; one
+# transcription treats the rows as exclusive groups).
+# (level, categories, classes, sub-phases, min zeta_d, min zeta_d*omega_nd [rad/s],
+# min omega_nd [rad/s], row name)
 MIL_8785C_TABLE_VI = (
     (1, ("A",), ("I", "IV"), None, 0.19, 0.35, 1.0, "L1 cat A class I IV"),
     (1, ("A",), ("II-C", "II-L", "III"), None, 0.19, 0.35, 0.4, "L1 cat A class II III"),
@@ -29,11 +36,11 @@ MIL_8785C_TABLE_VI = (
 
 # MIL-F-8785B (1969), Dutch roll table [recalled; a textbook reproduction of the
 # military table shows the same two cells that differ from 8785C: Category C,
-# Classes II-L and III, min zeta*omega 0.15; Level 3 min zeta 0.02].
+# Classes II-L and III, min zeta*omega 0.15; Level 3 min zeta 0.02].  The
+# reproduction has no Category A combat/ground-attack row: latdyn ships none.
 MIL_8785B_DUTCH_ROLL = (
     (1, ("A",), ("I", "IV"), None, 0.19, 0.35, 1.0, "L1 cat A class I IV"),
     (1, ("A",), ("II-C", "II-L", "III"), None, 0.19, 0.35, 0.4, "L1 cat A class II III"),
-    (1, ("A",), ("IV",), ("combat", "ground_attack"), 0.4, None, 1.0, "L1 cat A combat ground-attack class IV"),
     (1, ("B",), CLASSES_ALL, None, 0.08, 0.15, 0.4, "L1 cat B all classes"),
     (1, ("C",), ("I", "II-C", "IV"), None, 0.08, 0.15, 1.0, "L1 cat C class I II-C IV"),
     (1, ("C",), ("II-L", "III"), None, 0.08, 0.15, 0.4, "L1 cat C class II-L III"),
@@ -48,7 +55,13 @@ CLASS_III_DAMPING_CAP = 0.7
 PHI_TO_BETA_THRESHOLD = 20.0
 PHI_TO_BETA_COEFFICIENTS = (0.014, 0.009, 0.005)
 
-# MIL-F-8785C 3.3.1.2, Table VII, maximum roll-mode time constant [s] [recalled];
+# Confidence mark and strictness of each table as the data files must carry them.
+CONFIDENCE = {"mil-f-8785c": "secondary", "mil-f-8785b": "recalled"}
+STRICT = {"mil-f-8785c": {"dutch_roll": True, "roll_subsidence": False, "spiral": True, "roll_spiral": True},
+          "mil-f-8785b": {"dutch_roll": False, "roll_subsidence": False, "spiral": False}}
+
+# MIL-F-8785C 3.3.1.2, Table VII (printed p. 23), maximum roll-mode time constant
+# [s] [secondary], "no greater than" (inclusive);
 # MIL-F-8785B's roll table is equal [recalled; textbook reproduction agrees].
 # (categories, classes, (Level 1, Level 2, Level 3), row name)
 MIL_8785C_TABLE_VII = (
@@ -59,7 +72,8 @@ MIL_8785C_TABLE_VII = (
     (("C",), ("II-L", "III"), (1.4, 3.0, 10.0), "cat C class II-L III"),
 )
 
-# MIL-F-8785C 3.3.1.3, Table VIII, minimum spiral time to double [s] [recalled].
+# MIL-F-8785C 3.3.1.3, Table VIII (printed p. 23), time to double amplitude
+# greater than (strict) [s] [secondary].
 MIL_8785C_TABLE_VIII = (
     (("A", "C"), CLASSES_ALL, (12.0, 8.0, 4.0), "cat A C all classes"),
     (("B",), CLASSES_ALL, (20.0, 8.0, 4.0), "cat B all classes"),
@@ -73,9 +87,9 @@ MIL_8785B_SPIRAL = (
     (CATEGORIES_ALL, ("II-C", "II-L", "III"), (20.0, 12.0, 4.0), "class II III all cats"),
 )
 
-# MIL-F-8785C 3.3.1.4, coupled roll-spiral oscillation [recalled]: least
-# zeta_RS*omega_RS [rad/s] per level; not permitted in Category A combat and
-# ground-attack phases.
+# MIL-F-8785C 3.3.1.4 (printed p. 23), coupled roll-spiral oscillation
+# [secondary]: permitted in Categories B and C only, where zeta_RS*omega_RS
+# exceeds (strict) these values [rad/s] per level; not permitted in Category A.
 MIL_8785C_ROLL_SPIRAL = (0.5, 0.3, 0.15)
 
 # 14 CFR 23.181(b), edition of 1 January 2014 [published]: 1/10 amplitude in

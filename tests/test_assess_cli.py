@@ -83,7 +83,7 @@ def test_csv_rows(demo_files, capsys):
 
 def test_table_shows_levels_margins_sources(demo_files, capsys):
     _, out, _ = _run(capsys, demo_files[0])
-    assert "Level" in out and "Margin" in out and "Sources:" in out and "[recalled]" in out
+    assert "Level" in out and "Margin" in out and "Sources:" in out and "[secondary]" in out
     assert "verify against the original before relying on it" in out
 
 

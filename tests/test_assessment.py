@@ -190,14 +190,17 @@ def test_coupled_roll_spiral():
     assert "has no requirement" in one(found, "mil-f-8785b", "spiral").notes[0]
 
 
-def test_coupled_roll_spiral_in_combat_and_when_phase_unknown():
+def test_coupled_roll_spiral_only_in_categories_b_and_c():
+    """MIL-F-8785C 3.3.1.4 [secondary]: permitted in Categories B and C only; beyond Level 3 in
+    every Category A phase, with the reason."""
     modes = constructed_modes(roll_spiral=(0.8, 1.0))
-    combat = one(assess_modes(modes, ["mil-f-8785c"], "IV", "A", flight_phase="combat"), "mil-f-8785c",
-                 "roll_spiral")
-    assert combat.level == 4 and combat.governing == "permitted"
-    unknown = one(assess_modes(modes, ["mil-f-8785c"], "IV", "A"), "mil-f-8785c", "roll_spiral")
-    assert unknown.level == 1
-    assert any("not permitted" in n and "no flight phase" in n for n in unknown.notes)
+    for phase in ("combat", None):
+        entry = one(assess_modes(modes, ["mil-f-8785c"], "IV", "A", flight_phase=phase), "mil-f-8785c",
+                    "roll_spiral")
+        assert entry.level == 4 and entry.governing == "permitted"
+        assert any("not permitted" in n and "Categories B and C" in n for n in entry.notes)
+    cruise = one(assess_modes(modes, ["mil-f-8785c"], "IV", "B"), "mil-f-8785c", "roll_spiral")
+    assert cruise.level == 1 and cruise.governing == "zeta_omega"
 
 
 def test_combat_row_needs_the_phase():

@@ -14,7 +14,7 @@ import math
 import numpy as np
 import pytest
 
-from criteria_tables import (CFR23_CYCLES, CFR23_SPLIT_ALTITUDE, CLASS_III_DAMPING_CAP,
+from criteria_tables import (CFR23_CYCLES, CFR23_SPLIT_ALTITUDE, CLASS_III_DAMPING_CAP, CONFIDENCE, STRICT,
                              MIL_8785B_DUTCH_ROLL, MIL_8785B_SPIRAL, MIL_8785C_ROLL_SPIRAL,
                              MIL_8785C_TABLE_VI, MIL_8785C_TABLE_VII, MIL_8785C_TABLE_VIII,
                              PHI_TO_BETA_COEFFICIENTS, PHI_TO_BETA_THRESHOLD)
@@ -43,11 +43,11 @@ def _step(limit, side, sense=1):
 def _combined(table, level, cls, cat, phase):
     """Strictest limits of every row of a Dutch roll table holding at one level (from the test table)."""
     zeta = zw = omega = None
-    for row_level, cats, classes, phases, z, w, o, _ in table:
-        if row_level != level or cls not in classes or cat not in cats:
-            continue
-        if phases is not None and phase not in phases:
-            continue
+    rows = [row for row in table if row[0] == level and cls in row[2] and cat in row[1]
+            and (row[3] is None or phase in row[3])]
+    if any(row[3] is not None for row in rows):  # a sub-phase row holds instead of the general one
+        rows = [row for row in rows if row[3] is not None]
+    for row_level, cats, classes, phases, z, w, o, _ in rows:
         zeta = z if zeta is None else max(zeta, z)
         zw = w if zw is None else (zw if w is None else max(zw, w))
         omega = o if omega is None else max(omega, o)
@@ -85,7 +85,7 @@ def test_dutch_roll_row_boundary(name, table, level, cls, cat, phase, parameter,
         required = max(zeta_min, zw_min / omega_min if zw_min else 0.0)
         if cls == "III":
             required = min(required, CLASS_III_DAMPING_CAP)
-        zeta = 1.5 * required
+        zeta = 1.5 * required if required > 0 else 0.01
     grades = mode_levels(name, "dutch_roll", cls, cat, flight_phase=phase, damping_ratio=[zeta],
                          natural_frequency=[omega], phi_to_beta=[0.0])
     met = bool(grades.met[0, level - 1])
@@ -149,12 +149,14 @@ def test_roll_spiral_boundary(level, limit, side):
     assert bool(grades.met[0, level - 1]) is (side == "inside")
 
 
-@pytest.mark.parametrize("phase,expected", [("combat", 4), ("ground_attack", 4), (None, 1)],
-                         ids=["3.3.1.4-cat A combat-not permitted", "3.3.1.4-cat A ground attack-not permitted",
-                              "3.3.1.4-cat A no phase stated-graded"])
-def test_roll_spiral_not_permitted_in_combat_and_ground_attack(phase, expected):
-    """MIL-F-8785C 3.3.1.4 [recalled]: no coupled roll-spiral oscillation in Category A combat/ground attack."""
-    grades = mode_levels("mil-f-8785c", "roll_spiral", "IV", "A", flight_phase=phase,
+@pytest.mark.parametrize("category,phase,expected", [
+    ("A", "combat", 4), ("A", "ground_attack", 4), ("A", None, 4), ("B", None, 1), ("C", None, 1)],
+    ids=["3.3.1.4-cat A combat-not permitted", "3.3.1.4-cat A ground attack-not permitted",
+         "3.3.1.4-cat A no phase stated-not permitted", "3.3.1.4-cat B-graded", "3.3.1.4-cat C-graded"])
+def test_roll_spiral_permitted_only_in_categories_b_and_c(category, phase, expected):
+    """MIL-F-8785C 3.3.1.4 (printed p. 23) [secondary]: a coupled roll-spiral oscillation is permitted
+    in Category B and C Flight Phases only (criteria-sources D2)."""
+    grades = mode_levels("mil-f-8785c", "roll_spiral", "IV", category, flight_phase=phase,
                          damping_ratio=[0.6], natural_frequency=[1.2])
     assert grades.level[0] == expected
 
@@ -174,15 +176,17 @@ def _dutch_roll_data_cases():
 def test_dutch_roll_data_matches_table(name, entry):
     level, cats, classes, phases, zeta, zw, omega, _ = entry
     matches = [b for b in _bands(name, "dutch_roll")
-               if b.level == level and set(b.categories) == set(cats) and set(b.classes) == set(classes)
+               if b.level == level and set(b.categories) == set(cats) and set(b.classes) <= set(classes)
                and (b.flight_phases is None) == (phases is None)]
-    assert len(matches) == 1
+    assert set().union(*(b.classes for b in matches)) == set(classes)  # a row may be split by class
+    assert len({b.limits for b in matches}) == 1
     band = matches[0]
     assert band.limit("min_damping_ratio") == zeta
     assert band.limit("min_zeta_omega") == zw
     assert band.limit("min_natural_frequency") == omega
-    assert band.source.confidence == "recalled"
+    assert band.source.confidence == CONFIDENCE[name]
     assert "verify against the original before relying on it" in band.source.caution
+    assert band.exclusive is STRICT[name]["dutch_roll"]
 
 
 @pytest.mark.parametrize("name", ["mil-f-8785c", "mil-f-8785b"])
@@ -211,11 +215,13 @@ def test_real_mode_data_matches_table(name, mode, key, cats, classes, limits):
 
 
 def test_roll_spiral_data_matches_paragraph():
+    """3.3.1.4 [secondary]: permitted in Categories B and C only (criteria-sources D2)."""
     entry = load_criteria("mil-f-8785c").mode("roll_spiral")
     assert sorted((b.level, b.limit("min_zeta_omega")) for b in entry.bands) == \
         list(enumerate(MIL_8785C_ROLL_SPIRAL, 1))
+    assert all(set(b.categories) == {"B", "C"} and b.exclusive for b in entry.bands)
     assert entry.not_permitted[0].categories == ("A",)
-    assert set(entry.not_permitted[0].flight_phases) == {"combat", "ground_attack"}
+    assert entry.not_permitted[0].flight_phases is None
 
 
 # ------------------------------------------------------------------------------------ civil
@@ -309,7 +315,7 @@ def test_phi_to_beta_rule_boundary(level, coefficient, side):
 
 def test_phi_to_beta_rule_below_threshold_has_no_effect():
     """At omega^2 |phi/beta| = 20 exactly, the rule adds nothing (Table VI note c)."""
-    common = dict(damping_ratio=[0.08], natural_frequency=[2.0])
+    common = dict(damping_ratio=[0.0801], natural_frequency=[2.0])
     with_ratio = mode_levels("mil-f-8785c", "dutch_roll", "I", "B", phi_to_beta=[5.0], **common)
     without = mode_levels("mil-f-8785c", "dutch_roll", "I", "B", phi_to_beta=[0.0], **common)
     assert with_ratio.level[0] == without.level[0] == 1
@@ -325,7 +331,8 @@ def test_every_builtin_set_loads_with_sources():
         for entry in criteria.modes:
             for band in entry.bands:
                 assert band.source.document and band.source.reference
-                assert band.source.confidence in ("published", "recalled", "derivation", "programme")
+                assert band.source.confidence in ("published", "secondary", "recalled", "derivation",
+                                                  "programme")
                 if band.source.confidence == "recalled":
                     assert band.source.caution.startswith("recalled from ")
                     assert band.source.caution.endswith("verify against the original before relying on it")
@@ -390,7 +397,7 @@ BAD_FILES = [
     ("recalled without caution", _replace('"programme"', '"recalled"'),
      r"sources\.rule\.caution: expected \"recalled from <document>, verify against the original"),
     ("bad confidence", _replace('"programme"', '"sure"'),
-     r"sources\.rule\.confidence: expected one of published, recalled, derivation, programme, found \"sure\""),
+     r"sources\.rule\.confidence: expected one of published, secondary, recalled, derivation, programme, found \"sure\""),
     ("wrong list length", _replace("[1.0, 2.0, 5.0]", "[1.0, 2.0]"),
      r"max_time_constant: expected a list of 3 numbers"),
     ("bad level", _replace('row = "every category"', 'row = "every category"\nlevel = 4'),
