@@ -47,7 +47,9 @@ from latdyn.modes import PATTERNS, ModeSet, _make_mode, find_modes
 __all__ = [
     "Block", "AugmentedModel", "ADDED_LABELS", "SURFACE_OUTPUTS", "pade", "connect",
     "augmentation_blocks", "augmented_model", "condition_model", "track_roots",
-    "augmented_modes", "model_modes", "bare_aircraft", "is_augmented", "added_label", "describe",
+    "augmented_modes", "model_modes", "loop_matrices", "bare_aircraft", "is_augmented", "added_label", "describe",
+    "actuator_rate_limits", "RateLimitedRun", "simulate_rate_limited", "WashoutEffect",
+    "washout_effect", "static_gain",
 ]
 
 #: Display names of the roots the augmentation adds, by block.
@@ -213,6 +215,12 @@ def connect(blocks, feeds, inputs, outputs):
     A, B, C, D : numpy.ndarray
     states : tuple of str
     """
+    parts = _stacked(blocks, feeds, inputs, outputs)
+    return (*_closed(*parts[:-1]), parts[-1])
+
+
+def _stacked(blocks, feeds, inputs, outputs):
+    """The stacked blocks and the connection matrices of :func:`connect`."""
     u_names = [name for b in blocks for name in b.inputs]
     y_names = [name for b in blocks for name in b.outputs]
     n = sum(len(b.states) for b in blocks)
@@ -244,18 +252,21 @@ def connect(blocks, feeds, inputs, outputs):
     K, E = np.zeros((nu, ny)), np.zeros((nu, nw))
     for row, name in enumerate(u_names):
         K[row], E[row] = weights(feeds.get(name, ()))
-    M = np.linalg.inv(np.eye(ny) - Db @ K)
+    rows = [weights(sources) for sources in outputs.values()]
+    Sy = np.array([r[0] for r in rows]).reshape(len(rows), ny)
+    Sw = np.array([r[1] for r in rows]).reshape(len(rows), nw)
+    states = tuple(name for b in blocks for name in b.states)
+    return Ab, Bb, Cb, Db, K, E, Sy, Sw, states
+
+
+def _closed(Ab, Bb, Cb, Db, K, E, Sy, Sw):
+    """Close the connections (the equations of :func:`connect`)."""
+    M = np.linalg.inv(np.eye(len(Db)) - Db @ K)
     Cy = M @ Cb
     Dy = M @ Db @ E
     A = Ab + Bb @ K @ Cy
     B = Bb @ E + Bb @ K @ Dy
-    rows = [weights(sources) for sources in outputs.values()]
-    Sy = np.array([r[0] for r in rows]).reshape(len(rows), ny)
-    Sw = np.array([r[1] for r in rows]).reshape(len(rows), nw)
-    C = Sy @ Cy
-    D = Sy @ Dy + Sw
-    states = tuple(name for b in blocks for name in b.states)
-    return A, B, C, D, states
+    return A, B, Sy @ Cy, Sy @ Dy + Sw
 
 
 def augmentation_blocks(model: LateralModel, augmentation: Augmentation, loop_gain=1.0):
@@ -396,23 +407,64 @@ def bare_aircraft(aircraft):
 
 
 def _assign(previous, current):
-    """Order ``current`` roots to follow ``previous`` (least total distance)."""
+    """Order ``current`` roots to follow ``previous`` (least total distance); also each root's move."""
     from scipy.optimize import linear_sum_assignment
 
     cost = np.abs(previous[:, None] - current[None, :])
     rows, cols = linear_sum_assignment(cost)
     order = np.empty(len(previous), dtype=int)
     order[rows] = cols
-    return current[order], float(cost[rows, cols].max())
+    return current[order], np.abs(current[order] - previous)
 
 
-def track_roots(model: LateralModel, augmentation: Augmentation, steps=48):
+def _room(roots, labels):
+    """Each root's distance to the nearest distinct root of another name.
+
+    Coincident roots and roots of one name (the two roots of a pair) are
+    interchangeable: swapping them changes no name; so are the aileron and
+    rudder channels' roots of one kind of block (identical blocks, named by
+    channel only for the reader).
+    """
+    gaps = np.abs(roots[:, None] - roots[None, :])
+    scale = max(float(np.abs(roots).max()), 1.0)
+    names = np.asarray([label.replace("aileron_", "").replace("rudder_", "") for label in labels])
+    apart = (gaps > 1e-9 * scale) & (names[:, None] != names[None, :])
+    return np.where(apart, gaps, np.inf).min(axis=1)
+
+
+def loop_matrices(model: LateralModel, augmentation: Augmentation):
+    """The closed loop's state matrix as a function of the loop gain.
+
+    The feedback gains enter the connection matrix linearly, K(k) = K0 + k (K1 - K0),
+    so A(k) = A_b + B_b K(k) (I - D_b K(k))^-1 C_b is cheap to evaluate for any k.
+
+    Returns
+    -------
+    callable
+        k -> A(k) [1/s].
+    blocks : list of Block
+    """
+    blocks, feeds, outputs = augmentation_blocks(model, augmentation, 0.0)
+    open_parts = _stacked(blocks, feeds, tuple(model.input_names), outputs)
+    closed_blocks, closed_feeds, _ = augmentation_blocks(model, augmentation, 1.0)
+    closed_parts = _stacked(closed_blocks, closed_feeds, tuple(model.input_names), outputs)
+    Ab, Bb, Cb, Db, K0, E, Sy, Sw, _ = open_parts
+    change = closed_parts[4] - K0
+
+    def matrix(gain):
+        K = K0 + gain * change
+        return Ab + Bb @ K @ np.linalg.solve(np.eye(len(Db)) - Db @ K, Cb)
+
+    return matrix, blocks
+
+
+def track_roots(model: LateralModel, augmentation: Augmentation, steps=16):
     """Roots of the closed loop named by continuity from the open loops.
 
     At loop gain 0 the roots are the bare airframe's (named by
     :func:`latdyn.modes.find_modes`) and each block's own; the gain is
-    raised to 1 in steps (halved where a root moves more than a third of
-    the distance to its nearest neighbour), each root following the nearest
+    raised to 1 in steps (halved where a root moves more than half its
+    distance to the nearest root of another name), each root following the nearest
     root of the next step (an optimal assignment).
 
     Returns
@@ -422,30 +474,25 @@ def track_roots(model: LateralModel, augmentation: Augmentation, steps=48):
     labels : list of str
         Airframe mode name or block name of each root.
     """
-    bare_modes = find_modes(model)
+    matrix, blocks = loop_matrices(model, augmentation)
     roots, labels = [], []
-    for mode in bare_modes:
+    for mode in find_modes(model):
         roots += list(mode.eigenvalues)
         labels += [mode.name] * len(mode.eigenvalues)
-    _, _, _, _, _, _, _, blocks = _assemble(model, augmentation, 0.0)
     for block in blocks[1:]:
         values = np.linalg.eigvals(block.A)
         roots += list(values)
         labels += [block.name] * len(values)
-    current = np.array(roots, dtype=complex)
-    current, _ = _assign(current, np.linalg.eigvals(_assemble(model, augmentation, 0.0)[0]))
+    current, _ = _assign(np.array(roots, dtype=complex), np.linalg.eigvals(matrix(0.0)))
     gain, step = 0.0, 1.0 / steps
     while gain < 1.0:
         trial = min(1.0, gain + step)
-        new = np.linalg.eigvals(_assemble(model, augmentation, trial)[0])
-        moved, largest = _assign(current, new)
-        gaps = np.abs(current[:, None] - current[None, :]) + np.diag(np.full(len(current), np.inf))
-        spacing = float(np.min(gaps)) if len(current) > 1 else np.inf
-        if largest > spacing / 3.0 and step > 1e-6:
+        moved, moves = _assign(current, np.linalg.eigvals(matrix(trial)))
+        if np.any(moves > _room(current, labels) / 2.0) and step > 1e-3:
             step /= 2.0
             continue
         current, gain = moved, trial
-        step = min(step * 1.5, 1.0 / steps)
+        step = min(step * 2.0, 1.0 / steps)
     return current, labels
 
 
@@ -461,7 +508,12 @@ def augmented_modes(model: AugmentedModel, imag_tolerance=1e-7) -> ModeSet:
     The airframe's Dutch roll, roll subsidence and spiral (or roll-spiral
     oscillation) are named by :func:`track_roots`; two real roots that
     couple into a pair across a roll/spiral label form a roll-spiral
-    oscillation.  Mode shapes are the airframe part (beta, p, r, phi) of the
+    oscillation; an oscillation formed by one root of the Dutch roll (or
+    roll-spiral) and a block's root, while the mode's other root is real,
+    is that mode (coupled with the block) and the real root is named for
+    the block.  A roll or spiral root that couples with a block's root
+    into an oscillation is listed with the added roots under both names
+    (the airframe mode then has no separate root to grade).  Mode shapes are the airframe part (beta, p, r, phi) of the
     closed-loop eigenvectors.
     """
     roots, labels = track_roots(model.bare, model.augmentation)
@@ -489,6 +541,19 @@ def augmented_modes(model: AugmentedModel, imag_tolerance=1e-7) -> ModeSet:
             groups.append([i, partner] if roots[i].imag > 0 else [partner, i])
         else:
             groups.append([i])
+    labels = list(labels)
+    for group in groups:
+        # an oscillation of a two-root airframe mode and a block's root, with the mode's other
+        # root left real: the oscillation is the mode (coupled with the block), the real root the block's
+        names = {labels[i] for i in group}
+        pair_name = next((n for n in names if n in ("dutch_roll", "roll_spiral")), None)
+        other = next((n for n in names if n not in _AIRFRAME_MODES), None)
+        if len(group) == 2 and pair_name and other:
+            rest = [j for j in range(len(roots)) if labels[j] == pair_name and j not in group and is_real[j]]
+            if len(rest) == 1:
+                labels[rest[0]] = other
+                for i in group:
+                    labels[i] = pair_name
     airframe, added = {}, []
     for group in groups:
         names = {labels[i] for i in group}
@@ -519,7 +584,10 @@ def augmented_modes(model: AugmentedModel, imag_tolerance=1e-7) -> ModeSet:
         modes.append(_make_mode("spiral", [roots[slower]], vectors[:4, slower], neutral))
     else:
         for i in rest:
-            added.append((labels[i], [i]))
+            if is_real[i] and labels[i] in ("roll_subsidence", "spiral"):
+                modes.append(_make_mode(labels[i], [roots[i]], vectors[:4, i], neutral))
+            else:
+                added.append((labels[i], [i]))
     added_modes = []
     for name, group in added:
         group = sorted(group, key=lambda i: -roots[i].imag)
@@ -533,3 +601,229 @@ def model_modes(model) -> ModeSet:
     if isinstance(model, AugmentedModel):
         return augmented_modes(model)
     return find_modes(model)
+
+
+def actuator_rate_limits(condition, model) -> dict:
+    """Rate limits [rad/s] of the augmented model's actuators from the condition's ``[controls]``.
+
+    Only actuators that exist (an ``actuator_time_constant``) can be rate
+    limited; an empty dict means the response is linear.
+    """
+    controls = getattr(condition, "controls", None)
+    if not isinstance(model, AugmentedModel) or controls is None:
+        return {}
+    limits = {}
+    for surface in ("aileron", "rudder"):
+        rate = getattr(controls, f"{surface}_rate", None)
+        if rate is not None and f"{surface}_actuator" in model.state_names:
+            limits[surface] = float(rate)
+    return limits
+
+
+@dataclass(frozen=True)
+class RateLimitedRun:
+    """A rate-limited response and where the limits acted.
+
+    Attributes
+    ----------
+    response : latdyn.responses.Response
+    limits : dict
+        Surface -> rate limit [rad/s].
+    limited_time : dict
+        Surface -> time spent on the limit [s].
+    step : float
+        Integration step [s].
+    """
+
+    response: object
+    limits: dict
+    limited_time: dict
+    step: float
+
+    def __iter__(self):
+        return iter((self.response, self.limits, self.limited_time))
+
+
+def simulate_rate_limited(model: AugmentedModel, history, limits, initial=None, label="") -> RateLimitedRun:
+    """Time response of the augmented aircraft with rate-limited actuators (nonlinear).
+
+    The closed loop x' = A x + B u is linear except for the actuator states,
+    whose rate (their row of A x + B u: (command - deflection) / tau) is
+    clipped to +-limit.  Integrated by the classical fourth-order Runge-Kutta
+    method with the input held over each sample (E. Hairer, S. P. Nørsett
+    and G. Wanner, *Solving Ordinary Differential Equations I*, 2nd ed.,
+    1993, section II.1 -- from memory), sub-steps no longer than 0.5 / |lambda|max
+    of the closed loop.  With limits never reached it agrees with the exact
+    linear simulation to the integration error (tested).
+
+    Parameters
+    ----------
+    model : AugmentedModel
+    history : latdyn.inputs.InputHistory
+    limits : dict
+        "aileron" and/or "rudder" -> rate limit [rad/s].
+    initial : latdyn.inputs.InitialDisturbance, optional
+    label : str
+
+    Returns
+    -------
+    RateLimitedRun
+    """
+    from latdyn.responses import Response, with_heading
+
+    A, B, C, D, states, outputs = with_heading(np.asarray(model.A), np.asarray(model.B), np.asarray(model.C),
+                                               np.asarray(model.D), float(model.theta),
+                                               tuple(model.state_names), tuple(model.output_names))
+    n = len(states)
+    clip_index = np.array([states.index(f"{s}_actuator") for s in limits], dtype=int)
+    clip_rate = np.array([limits[s] for s in limits], dtype=float)
+    x = np.zeros(n) if initial is None else initial.vector(states)
+    time = np.asarray(history.time, dtype=float)
+    inputs = np.asarray(history.values, dtype=float)
+    fastest = float(np.abs(np.linalg.eigvals(A)).max())
+    on_limit = np.zeros(len(clip_index))
+
+    def rate(state, u):
+        value = A @ state + B @ u
+        value[clip_index] = np.clip(value[clip_index], -clip_rate, clip_rate)
+        return value
+
+    trajectory = np.empty((time.size, n))
+    trajectory[0] = x
+    smallest = np.inf
+    for k in range(time.size - 1):
+        dt = time[k + 1] - time[k]
+        substeps = max(1, int(np.ceil(dt * fastest / 0.5)))
+        h = dt / substeps
+        smallest = min(smallest, h)
+        u = inputs[k]
+        for _ in range(substeps):
+            k1 = rate(x, u)
+            unclipped = (A @ x + B @ u)[clip_index]
+            on_limit += h * (np.abs(unclipped) > clip_rate)
+            k2 = rate(x + 0.5 * h * k1, u)
+            k3 = rate(x + 0.5 * h * k2, u)
+            k4 = rate(x + h * k3, u)
+            x = x + (h / 6.0) * (k1 + 2 * k2 + 2 * k3 + k4)
+        trajectory[k + 1] = x
+    out = trajectory @ C.T + inputs @ D.T
+    words = ", ".join(f"{s} {math.degrees(r):g} deg/s" for s, r in limits.items())
+    description = f"{history.description}; actuator rate limits {words} (nonlinear simulation)"
+    if initial is not None and hasattr(initial, "describe") and not initial.is_zero:
+        description += f", {initial.describe()}"
+    response = Response(time, inputs, trajectory, out, states, tuple(model.input_names), outputs, label,
+                        description, "zero", history.end_time)
+    return RateLimitedRun(response, dict(limits), {s: float(t) for s, t in zip(limits, on_limit)},
+                          float(smallest if np.isfinite(smallest) else 0.0))
+
+
+@dataclass(frozen=True)
+class WashoutEffect:
+    """What the yaw damper's washout does in steady turns and to the spiral.
+
+    Attributes
+    ----------
+    washout_time_constant : float or None
+        As given [s] (None: the damper has no washout).
+    yaw_damper_gain : float
+        [s].
+    spiral_bare : float or None
+        Spiral root of the bare airframe [1/s].
+    spiral_with_washout, spiral_without_washout : float or None
+        Spiral root of the closed loop with the washout as given and with it
+        taken out [1/s] (None where there is no separate spiral root, or no
+        washout to compare).
+    yaw_rate_ratio_with_washout, yaw_rate_ratio_without_washout : float or None
+        Steady yaw rate per held aileron of the closed loop as a fraction of
+        the bare airframe's, r/da(0)_augmented / r/da(0)_bare [-]: 1 means the
+        damper leaves steady turns alone; below 1 it fights them.  None where
+        the bare airframe or the closed loop has no steady state (a root on
+        or right of the imaginary axis, such as a divergent spiral).
+    """
+
+    washout_time_constant: float | None
+    yaw_damper_gain: float
+    spiral_bare: float | None
+    spiral_with_washout: float | None
+    spiral_without_washout: float | None
+    yaw_rate_ratio_with_washout: float | None
+    yaw_rate_ratio_without_washout: float | None
+
+    def as_dict(self) -> dict:
+        return {name: getattr(self, name) for name in self.__dataclass_fields__}
+
+    def words(self) -> str:
+        """One line for the mode table."""
+        def pct(value):
+            return "-" if value is None else f"{100.0 * value:.0f}%"
+
+        def root(value):
+            return "-" if value is None else f"{value:.4g} 1/s"
+
+        if self.yaw_rate_ratio_without_washout is None:
+            turn = "no steady turn to compare (a neutral or divergent root)"
+        elif self.washout_time_constant is None:
+            turn = f"steady-turn yaw rate {pct(self.yaw_rate_ratio_without_washout)} of the bare airframe's"
+        else:
+            turn = (f"steady-turn yaw rate {pct(self.yaw_rate_ratio_with_washout)} of the bare airframe's "
+                    f"with it, {pct(self.yaw_rate_ratio_without_washout)} without")
+        if self.washout_time_constant is None:
+            return (f"yaw damper without washout: {turn}; spiral root {root(self.spiral_without_washout)} "
+                    f"(bare {root(self.spiral_bare)})")
+        return (f"washout {self.washout_time_constant:g} s: {turn}; spiral root "
+                f"{root(self.spiral_with_washout)} with it, {root(self.spiral_without_washout)} without "
+                f"(bare {root(self.spiral_bare)})")
+
+
+def static_gain(model, output, input):
+    """G(0) = D - C A^-1 B of one channel, or None where A is singular (a neutral root).
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as NS
+    >>> m = NS(A=np.array([[-2.0]]), B=np.array([[4.0]]), C=np.array([[1.0]]), D=np.zeros((1, 1)),
+    ...        output_names=("y",), input_names=("u",))
+    >>> static_gain(m, "y", "u")
+    2.0
+    """
+    A = np.asarray(model.A, dtype=float)
+    i, j = model.output_names.index(output), model.input_names.index(input)
+    if np.linalg.cond(A) > 1e12:
+        return None
+    return float(model.D[i, j] - model.C[i] @ np.linalg.solve(A, model.B[:, j]))
+
+
+def washout_effect(model: AugmentedModel) -> WashoutEffect | None:
+    """The washout's effect on steady turns and on the spiral (None without a yaw damper).
+
+    The steady yaw rate of a turn held with aileron is r/da at s = 0; a yaw
+    damper without washout feeds K r back at s = 0 and so opposes the turn,
+    r/da(0) = r/da_bare(0) / (1 - K r/dr_bare(0)) when the actuator and
+    delay pass steady signals unchanged (block algebra at s = 0; the washout
+    tau s / (tau s + 1) is 0 there, so it leaves the ratio at 1).  The spiral
+    root of the closed loop shows the same thing in the modes.
+    """
+    augmentation = model.augmentation
+    if not augmentation.yaw_damper_gain:
+        return None
+    bare = model.bare
+    spiral = find_modes(bare).get("spiral")
+
+    def steady(system):
+        stable = np.all(np.linalg.eigvals(system.A).real < 0)
+        return static_gain(system, "r", "aileron") if stable else None
+
+    bare_gain = steady(bare)
+
+    def figures(aug):
+        closed = augmented_model(bare, aug)
+        mode = augmented_modes(closed).get("spiral")
+        gain = steady(closed)
+        ratio = gain / bare_gain if gain is not None and bare_gain not in (None, 0.0) else None
+        return (mode.eigenvalue.real if mode is not None else None), ratio
+
+    without = figures(replace(augmentation, washout_time_constant=None))
+    given = figures(augmentation) if augmentation.washout_time_constant is not None else (None, None)
+    return WashoutEffect(augmentation.washout_time_constant, augmentation.yaw_damper_gain,
+                         spiral.eigenvalue.real if spiral is not None else None, given[0], without[0],
+                         given[1], without[1])

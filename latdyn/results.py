@@ -60,8 +60,12 @@ def condition_document(result: ConditionResult) -> dict:
     augmentation = getattr(result.condition, "augmentation", None)
     extra = {}
     if augmentation is not None:
+        from latdyn.augmentation import AugmentedModel, washout_effect
+
+        effect = washout_effect(result.model) if isinstance(result.model, AugmentedModel) else None
         extra = {"augmentation": augmentation.as_dict(),
-                 "added_roots": [mode.as_dict() for mode in result.modes.added]}
+                 "added_roots": [mode.as_dict() for mode in result.modes.added],
+                 "washout": effect.as_dict() if effect is not None else None}
     return {
         "name": flight.name,
         "category": flight.category,

@@ -61,6 +61,7 @@ UNIT_WORDS = {
     "knots": ("kt", "kt"), "per_length": ("1/(m s)", "1/(ft s)"), "force": ("N", "lbf"),
     "force_per_speed": ("N s/m", "lbf s/ft"), "impulse": ("N s", "lbf s"),
     "moment": ("N m", "ft lbf"), "moment_time": ("N m s", "ft lbf s"),
+    "second": ("s", "s"), "ratio": ("rad/rad", "rad/rad"),
 }
 
 

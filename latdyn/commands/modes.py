@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
-__all__ = ["add_arguments", "run", "condition_heading", "augmentation_lines"]
+__all__ = ["add_arguments", "run", "condition_heading", "augmentation_lines", "washout_lines"]
 
 
 def add_arguments(parser):
@@ -48,6 +48,16 @@ def augmentation_lines(condition):
             "then the roots the augmentation adds"]
 
 
+def washout_lines(result):
+    """The washout's effect on turns and the spiral (none without a yaw damper)."""
+    from latdyn.augmentation import AugmentedModel, washout_effect
+
+    if not isinstance(result.model, AugmentedModel):
+        return []
+    effect = washout_effect(result.model)
+    return [] if effect is None else [f"  {effect.words()}"]
+
+
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.results import analyse_aircraft, modes_document
@@ -69,7 +79,8 @@ def run(args):
             lines += ["", condition_heading(result),
                       f"  roots: {result.modes.pattern}",
                       *augmentation_lines(result.condition),
-                      render_text(MODE_COLUMNS, mode_rows(result.modes))]
+                      render_text(MODE_COLUMNS, mode_rows(result.modes)),
+                      *washout_lines(result)]
             if args.shapes:
                 lines += ["  mode shapes (real modes: signed magnitude; oscillations: magnitude "
                           "and phase in degrees):",

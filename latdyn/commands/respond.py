@@ -284,16 +284,35 @@ def run(args):
     history, settings = _histories(args, default_inputs(modes[0]))
     initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
                                  r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
-    responses = [simulate(model, history, initial, label=label) for model, label in zip(models, labels)]
+    from latdyn.augmentation import actuator_rate_limits, simulate_rate_limited
+
+    responses, limited = [], []
+    for (_, condition), model, label in zip(cases, models, labels):
+        limits = actuator_rate_limits(condition, model)
+        if limits:
+            run = simulate_rate_limited(model, history, limits, initial, label)
+            responses.append(run.response)
+            limited.append(run)
+        else:
+            responses.append(simulate(model, history, initial, label=label))
+            limited.append(None)
     readouts = [read_response(response) for response in responses]
 
     lines = []
     all_transfers = []
-    for (aircraft, _), label, response, readout, mode_set, model in zip(
-            cases, labels, responses, readouts, modes, models):
+    for (aircraft, _), label, response, readout, mode_set, model, run in zip(
+            cases, labels, responses, readouts, modes, models, limited):
         if lines:
             lines.append("")
         lines += _summary(label, aircraft, response, readout, mode_set, settings)
+        if getattr(model, "augmentation", None) is not None:
+            from latdyn.augmentation import describe
+
+            lines.append(f"  augmented: {describe(model.augmentation)}")
+        if run is not None:
+            reached = ", ".join(f"{s} {t:.2f} s" for s, t in run.limited_time.items() if t > 0) or "never"
+            lines.append(f"  actuator rate limits active: nonlinear simulation (fourth-order Runge-Kutta, "
+                         f"step {run.step:.3g} s); time on the limit: {reached}")
         if args.transfer_functions or args.bode:
             transfer_lines, transfers = _transfer_lines(model, mode_set)
             all_transfers.append(transfers)

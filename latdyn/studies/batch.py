@@ -18,8 +18,15 @@ the condition's derivatives (non-dimensional or dimensional, as the file
 gives them), ``mass``, ``Ixx``, ``Izz``, ``Ixz`` (in the file's inertia
 axes), ``speed`` (true airspeed), ``density``, ``altitude`` (sets the
 density from the 1976 standard atmosphere, true airspeed held), ``alpha``,
-``gamma``, ``wing_area``, ``span``, and ``fin.area_ratio``,
-``fin.arm_ratio`` (see :mod:`latdyn.studies.fin`).
+``gamma``, ``wing_area``, ``span``, ``fin.area_ratio``,
+``fin.arm_ratio`` (see :mod:`latdyn.studies.fin`), and the augmentation's
+gains and time constants :data:`AUGMENTATION_PARAMETERS` [s, rad/rad].
+
+A condition with an engaged ``[augmentation]`` (or a case set that varies
+an augmentation key) takes the augmented path: the closed loop of each case
+(:func:`latdyn.augmentation.augmented_model`, more than four states) with its
+modes named by :func:`latdyn.augmentation.augmented_modes`, one case at a
+time with ``numpy.linalg.eig`` -- slower than the 4x4 path, which is untouched.
 """
 
 from __future__ import annotations
@@ -36,7 +43,8 @@ from latdyn.modes import ModeArrays, analyse_stack, pair_figures, root_figures
 __all__ = [
     "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "case_inputs",
     "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
-    "condition_set",
+    "condition_set", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
+    "takes_augmented_path", "closed_loop_matrices", "mode_arrays",
 ]
 
 #: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
@@ -53,6 +61,10 @@ FIGURES = {
 _MASS_KEYS = ("mass", "Ixx", "Izz", "Ixz")
 _FLIGHT_KEYS = ("speed", "density", "altitude", "alpha", "gamma", "wing_area", "span")
 _FIN_KEYS = ("fin.area_ratio", "fin.arm_ratio")
+#: Augmentation inputs a case set can vary (fields of latdyn.aircraft.Augmentation) [s or rad/rad].
+AUGMENTATION_PARAMETERS = tuple(f"augmentation.{name}" for name in (
+    "yaw_damper_gain", "washout_time_constant", "roll_damper_gain", "interconnect_gain",
+    "interconnect_time_constant", "actuator_time_constant", "sensor_time_constant", "time_delay"))
 
 
 @dataclass(frozen=True)
@@ -116,6 +128,7 @@ def parameter_names(aircraft, condition) -> tuple:
               if k not in ("wing_area", "span") or aircraft.geometry is not None]
     if aircraft.fin is not None and nondimensional and aircraft.geometry is not None:
         names += list(_FIN_KEYS)
+    names += list(AUGMENTATION_PARAMETERS)
     return tuple(names)
 
 
@@ -154,6 +167,13 @@ def case_inputs(cases: CaseSet) -> dict:
 
 def case_matrices(cases: CaseSet) -> np.ndarray:
     """State matrices (N, 4, 4) of the case set (:func:`latdyn.model.lateral_matrices`)."""
+    return case_models(cases, outputs=False)[0]
+
+
+def case_models(cases: CaseSet, outputs=True):
+    """A, B (, C, D) of the bare airframe of every case: (N, 4, 4), (N, 4, 2), (N, 5, 4), (N, 5, 2)."""
+    from latdyn.model import output_matrices
+
     v = case_inputs(cases)
     condition = cases.condition
     derivatives = condition.derivatives
@@ -166,8 +186,109 @@ def case_matrices(cases: CaseSet) -> np.ndarray:
                            v["span"], v["mass"], v["Ixx"], v["Izz"], v["Ixz"], v["density"],
                            v["speed"])
     alpha_equations, theta = equation_angles(derivatives.axes, v["alpha"], v["gamma"])
-    A, _ = lateral_matrices(primed, v["speed"], alpha_equations, theta)
-    return np.broadcast_to(A, (cases.size, 4, 4))
+    A, B = lateral_matrices(primed, v["speed"], alpha_equations, theta)
+    n = cases.size
+    if not outputs:
+        return np.broadcast_to(A, (n, 4, 4)), np.broadcast_to(B, (n, 4, 2))
+    C, D = output_matrices(primed, v["speed"])
+    return (np.broadcast_to(A, (n, 4, 4)), np.broadcast_to(B, (n, 4, 2)),
+            np.broadcast_to(C, (n, 5, 4)), np.broadcast_to(D, (n, 5, 2)))
+
+
+def takes_augmented_path(cases: CaseSet) -> bool:
+    """The condition has an engaged augmentation, or the cases vary an augmentation key."""
+    return (getattr(cases.condition, "augmentation", None) is not None
+            or any(key in cases.overrides for key in AUGMENTATION_PARAMETERS))
+
+
+def case_augmentation(cases: CaseSet, index: int):
+    """The Augmentation of case ``index`` (the condition's, with the case's overrides).
+
+    A varied time constant of 0 or less means no such lag (actuator, sensor,
+    interconnect) or no delay; a washout time constant of 0 or less is no
+    valid washout and gives None (the case has no figures).
+    """
+    from dataclasses import replace
+
+    from latdyn.aircraft import Augmentation
+
+    augmentation = getattr(cases.condition, "augmentation", None) or Augmentation()
+    changes = {}
+    for key in AUGMENTATION_PARAMETERS:
+        if key not in cases.overrides:
+            continue
+        value = cases.overrides[key]
+        value = float(value[index] if np.ndim(value) else value)
+        name = key.split(".", 1)[1]
+        if not np.isfinite(value):
+            return None
+        if name.endswith("time_constant") and value <= 0.0:
+            if name == "washout_time_constant":
+                return None
+            value = None
+        elif name == "time_delay":
+            value = max(value, 0.0)
+        changes[name] = value
+    return replace(augmentation, **changes)
+
+
+def _case_model(models, cases, index):
+    from latdyn.model import INPUT_NAMES, STATE_NAMES, LateralModel
+
+    A, B, C, D = (m[index] for m in models)
+    return LateralModel(A, B, C, D, STATE_NAMES, INPUT_NAMES, STATE_NAMES + ("ny",),
+                        cases.condition.derivatives.axes, float(cases.condition.flight.speed), 0.0, 0.0, None)
+
+
+def closed_loop_matrices(cases: CaseSet) -> np.ndarray:
+    """Closed-loop state matrices (N, n, n) of an augmented case set (one structure for all cases)."""
+    from latdyn.augmentation import augmented_model
+
+    models = case_models(cases)
+    return np.stack([augmented_model(_case_model(models, cases, i), case_augmentation(cases, i)).A
+                     for i in range(cases.size)])
+
+
+def mode_arrays(mode_sets) -> ModeArrays:
+    """:class:`latdyn.modes.ModeArrays` (without vectors) of a list of ModeSets (None: NaN case)."""
+    from latdyn.modes import PATTERNS
+
+    n = len(mode_sets)
+    pattern = np.zeros(n, dtype=int)
+    dutch = np.full((n, 2), np.nan + 0j)
+    pair = np.full((n, 2), np.nan + 0j)
+    roll, spiral, ratio = np.full(n, np.nan), np.full(n, np.nan), np.full(n, np.nan)
+    for i, modes in enumerate(mode_sets):
+        if modes is None:
+            continue
+        pattern[i] = PATTERNS.index(modes.pattern)
+        for mode in modes:
+            if mode.name == "dutch_roll":
+                dutch[i] = mode.eigenvalues
+                ratio[i] = np.nan if mode.phi_to_beta is None else mode.phi_to_beta
+            elif mode.name == "roll_spiral":
+                pair[i] = mode.eigenvalues
+            elif mode.name == "roll_subsidence":
+                roll[i] = mode.eigenvalues[0].real
+            elif mode.name == "spiral":
+                spiral[i] = mode.eigenvalues[0].real
+    return ModeArrays(pattern, dutch, roll, spiral, pair, None, ratio)
+
+
+def _augmented_modes(cases: CaseSet) -> ModeArrays:
+    """Closed-loop modes of each case (:func:`latdyn.augmentation.augmented_modes`), case by case."""
+    from latdyn.augmentation import augmented_model, augmented_modes
+
+    models = case_models(cases)
+    sets = []
+    for i in range(cases.size):
+        augmentation = case_augmentation(cases, i)
+        if augmentation is None:
+            sets.append(None)
+            continue
+        model = augmented_model(_case_model(models, cases, i), augmentation)
+        sets.append(augmented_modes(model) if np.all(np.isfinite(model.A)) else None)
+    return mode_arrays(sets)
 
 
 @dataclass(frozen=True)
@@ -385,13 +506,15 @@ def _load_sets(criteria_sets):
 
 
 def _chunk_result(cases, criteria_sets, phase, path=False):
-    A = case_matrices(cases)
-    if path:
+    if takes_augmented_path(cases):
+        figures = mode_figures(_augmented_modes(cases))
+    elif path:
+        A = case_matrices(cases)
         from latdyn.mode_tracking import track_modes
 
         figures = mode_figures(track_modes(A))
     else:
-        figures = mode_figures(analyse_stack(A, vectors=False))
+        figures = mode_figures(analyse_stack(case_matrices(cases), vectors=False))
     flight = cases.condition.flight
     altitude = cases.overrides.get("altitude", flight.altitude)
     levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,

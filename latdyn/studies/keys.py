@@ -4,8 +4,9 @@ A key is a derivative (``Cn_beta`` or ``condition.derivatives.Cn_beta``;
 ``N_r`` or ``condition.dimensional.N_r``), a mass property (``mass``,
 ``Ixx``, ``Izz``, ``Ixz``, optionally ``mass.Ixx``), ``speed``,
 ``altitude``, ``density``, ``alpha_deg``, ``gamma_deg`` (optionally with
-``condition.``), ``wing_area``, ``span`` (optionally ``geometry.``), or
-``fin.area_ratio`` / ``fin.arm_ratio``.  Values are in the units of the
+``condition.``), ``wing_area``, ``span`` (optionally ``geometry.``),
+``fin.area_ratio`` / ``fin.arm_ratio``, or an augmentation gain or time
+constant (``augmentation.yaw_damper_gain`` ..., always SI: s and rad/rad).  Values are in the units of the
 aircraft file (its ``units`` word) and degrees for the angles; they are
 converted to SI and radians here, at the edge.
 """
@@ -53,12 +54,16 @@ class StudyKey:
         """A typed value (file units, degrees) in SI units and radians."""
         if self.dimension == "degree":
             return units.rad(value)
+        if self.dimension in ("second", "ratio"):
+            return value
         return units.to_si(value, self.dimension, self.units)
 
     def from_si(self, value):
         """An SI value in the typed units."""
         if self.dimension == "degree":
             return units.deg(value)
+        if self.dimension in ("second", "ratio"):
+            return value
         return units.from_si(value, self.dimension, self.units)
 
     @property
@@ -82,6 +87,8 @@ def file_units(aircraft) -> str:
 def _dimension(name):
     if name in _ANGLES.values():
         return "degree"
+    if name.startswith("augmentation."):
+        return "ratio" if name == "augmentation.interconnect_gain" else "second"
     for table in (SCHEMA["condition"]["dimensional"], SCHEMA["condition"], SCHEMA["mass"],
                   SCHEMA["geometry"]):
         if name in table and isinstance(table[name], str):

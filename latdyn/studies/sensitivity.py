@@ -34,7 +34,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from latdyn.aircraft import NondimensionalDerivatives
-from latdyn.studies.batch import case_matrices, condition_set, parameter_names
+from latdyn.studies.batch import (AUGMENTATION_PARAMETERS, case_matrices, closed_loop_matrices,
+                                  condition_set, parameter_names, takes_augmented_path)
 
 __all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "sensitivity_parameters",
            "matrix_derivatives", "eigenvalue_derivatives", "condition_sensitivities",
@@ -62,10 +63,17 @@ def sensitivity_parameters(aircraft, condition) -> tuple:
     for key in ("mass", "Ixx", "Izz", "Ixz"):
         if key in allowed and (nondimensional or (not primed and key != "mass")):
             names.append(key)
+    augmentation = getattr(condition, "augmentation", None)
+    if augmentation is not None:
+        # the gains and time constants in use (a block that is absent has no derivative)
+        names += [key for key in AUGMENTATION_PARAMETERS
+                  if getattr(augmentation, key.split(".", 1)[1]) not in (None, 0.0)]
     return tuple(names)
 
 
 def _nominal(aircraft, condition, name):
+    if name.startswith("augmentation."):
+        return float(getattr(condition.augmentation, name.split(".", 1)[1]))
     if name in ("mass", "Ixx", "Izz", "Ixz"):
         return float(getattr(aircraft.mass, name))
     return float(getattr(condition.derivatives, name))
@@ -96,7 +104,9 @@ def matrix_derivatives(aircraft, condition, names) -> np.ndarray:
         column = np.full(4 * count, value)
         column[4 * p:4 * p + 4] = value + offsets * h
         overrides[name] = column
-    A = case_matrices(condition_set(aircraft, condition, overrides)).reshape(count, 4, 4, 4)
+    cases = condition_set(aircraft, condition, overrides)
+    A = closed_loop_matrices(cases) if takes_augmented_path(cases) else case_matrices(cases)
+    A = A.reshape((count, 4) + A.shape[-2:])
     return np.einsum("k,pkij->pij", weights, A) / np.asarray(steps)[:, None, None]
 
 
@@ -214,8 +224,17 @@ def condition_sensitivities(aircraft, condition) -> ConditionSensitivities:
     if isinstance(condition, str):
         condition = aircraft.condition(condition)
     names = sensitivity_parameters(aircraft, condition)
-    A = case_matrices(condition_set(aircraft, condition))[0]
-    modes = analyse_stack(A[None])
+    nominal = condition_set(aircraft, condition)
+    if takes_augmented_path(nominal):
+        from latdyn.augmentation import augmented_modes, condition_model
+        from latdyn.studies.batch import mode_arrays
+
+        model = condition_model(aircraft, condition)
+        A = model.A
+        modes = mode_arrays([augmented_modes(model)])
+    else:
+        A = case_matrices(nominal)[0]
+        modes = analyse_stack(A[None])
     dA = matrix_derivatives(aircraft, condition, names)
     figures = {}
     pattern = int(modes.pattern[0])
