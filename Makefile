@@ -17,11 +17,14 @@ $(STAMP): pyproject.toml
 
 DEMO_BASE := aircraft/kestrel-k40.toml
 DEMO_VARIANTS := aircraft/kestrel-k40-tall-fin.toml aircraft/kestrel-k40-tip-tanks.toml
+DEMO_FLIGHT_TEST := --data aircraft/flight-test/kestrel-k40-cruise-rudder-doublet.csv --data aircraft/flight-test/kestrel-k40-cruise-aileron-3211.csv
 
 demo: $(STAMP)
 	$(BIN)/latdyn modes aircraft/skylark-sv2.toml
 	$(BIN)/latdyn assess $(DEMO_BASE) $(DEMO_VARIANTS)
 	$(BIN)/latdyn report $(DEMO_BASE) --compare $(DEMO_VARIANTS) -o reports/demo --force --progress
+	$(BIN)/latdyn identify $(DEMO_BASE) --condition cruise $(DEMO_FLIGHT_TEST) -o reports/kestrel-k40-identified.toml --plot reports/kestrel-k40-identification.png
+	$(BIN)/latdyn compare $(DEMO_BASE) reports/kestrel-k40-identified.toml
 
 test: $(STAMP)
 	$(BIN)/python -m pytest

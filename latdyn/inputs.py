@@ -27,6 +27,7 @@ from latdyn.input_files import read_input_text
 
 __all__ = [
     "INPUT_KINDS",
+    "freeze_arrays",
     "MAX_DEFLECTION_DEG",
     "InputHistory",
     "InitialDisturbance",
@@ -285,6 +286,14 @@ def time_grid(duration, step_size, breakpoints=()):
     return grid
 
 
+def freeze_arrays(instance, names):
+    """Store the named fields of a frozen dataclass as read-only float arrays (copies)."""
+    for name in names:
+        array = np.array(getattr(instance, name), dtype=float)
+        array.setflags(write=False)
+        object.__setattr__(instance, name, array)
+
+
 @dataclass(frozen=True, eq=False)
 class InputHistory:
     """Aileron and rudder deflections on a time grid.
@@ -307,10 +316,7 @@ class InputHistory:
     description: str = ""
 
     def __post_init__(self):
-        for name in ("time", "aileron", "rudder"):
-            array = np.array(getattr(self, name), dtype=float)
-            array.setflags(write=False)
-            object.__setattr__(self, name, array)
+        freeze_arrays(self, ("time", "aileron", "rudder"))
         if not (self.time.shape == self.aileron.shape == self.rudder.shape) or self.time.ndim != 1:
             raise ValueError("time, aileron and rudder must be 1-D arrays of one length")
 

@@ -317,10 +317,9 @@ class Response:
     input_end: float = 0.0
 
     def __post_init__(self):
-        for name in ("time", "inputs", "states", "outputs"):
-            array = np.array(getattr(self, name), dtype=float)
-            array.setflags(write=False)
-            object.__setattr__(self, name, array)
+        from latdyn.inputs import freeze_arrays
+
+        freeze_arrays(self, ("time", "inputs", "states", "outputs"))
 
     def __iter__(self):
         return iter((self.time, self.inputs, self.states, self.outputs))
