@@ -22,8 +22,7 @@ from latdyn.results import analyse_aircraft
 
 __all__ = [
     "FigureChange", "LevelChange", "InputChange", "ConditionComparison", "Comparison",
-    "compare", "compare_many", "comparison_document", "comparison_rows", "MODE_FIGURES",
-    "relative_change", "FIGURE_COLUMNS", "LEVEL_COLUMNS", "INPUT_COLUMNS",
+    "compare", "compare_many", "comparison_document", "MODE_FIGURES", "relative_change",
 ]
 
 #: (mode figure attribute, label, unit) compared for each mode.
@@ -175,18 +174,9 @@ class Comparison:
                 "only_in_variant": list(self.only_in_variant)}
 
 
-def _severity(level, passed):
-    if level is not None:
-        return level
-    if passed is None:
-        return None
-    return 1 if passed else 2
-
-
 def _verdict(base, variant):
-    a = _severity(base.level, base.passed)
-    b = _severity(variant.level, variant.passed)
-    if a is None or b is None:
+    a, b = base.severity, variant.severity
+    if a == 0 or b == 0:
         return "not assessed"
     if b < a:
         return "improved"
@@ -320,58 +310,3 @@ def comparison_document(comparisons) -> dict:
 
     return {"latdyn_version": __version__, "notice": NOTICE,
             "comparisons": [c.as_dict() for c in comparisons]}
-
-
-FIGURE_COLUMNS = (("condition", "Condition"), ("mode", "Mode"), ("figure", "Figure"),
-                  ("unit", "Unit"), ("base", "Base"), ("variant", "Variant"),
-                  ("change", "Change"), ("change_percent", "Change [%]"))
-LEVEL_COLUMNS = (("condition", "Condition"), ("mode", "Mode"), ("criteria", "Criteria"),
-                 ("base", "Base"), ("variant", "Variant"), ("verdict", "Verdict"))
-INPUT_COLUMNS = (("condition", "Condition"), ("group", "Group"), ("key", "Key"), ("unit", "Unit"),
-                 ("base", "Base"), ("variant", "Variant"), ("change", "Change"),
-                 ("change_percent", "Change [%]"))
-
-
-def _text(value):
-    from latdyn.tables import format_number
-
-    if value is None:
-        return "-"
-    if isinstance(value, str):
-        return value
-    return format_number(value)
-
-
-def _signed(value, digits=4):
-    from latdyn.tables import format_number
-
-    if value is None:
-        return "-"
-    text = format_number(value, digits)
-    return text if text.startswith("-") else "+" + text
-
-
-def comparison_rows(comparison: Comparison):
-    """(figure rows, level rows, input rows) of a comparison, as text."""
-    from latdyn.assessment import level_words
-    from latdyn.tables import MODE_LABELS
-
-    figures, levels, inputs = [], [], []
-    for condition in comparison.conditions:
-        for item in condition.figures:
-            figures.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
-                            "figure": item.figure, "unit": item.unit, "base": _text(item.base),
-                            "variant": _text(item.variant), "change": _signed(item.change),
-                            "change_percent": _signed(item.change_percent, 3)})
-        for item in condition.levels:
-            verdict = item.verdict.upper() if item.verdict in ("improved", "degraded") else item.verdict
-            levels.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
-                           "criteria": item.criteria,
-                           "base": level_words(item.base_level, item.base_pass),
-                           "variant": level_words(item.variant_level, item.variant_pass),
-                           "verdict": verdict})
-        for item in condition.inputs:
-            inputs.append({"condition": condition.name, "group": item.group, "key": item.key,
-                           "unit": item.unit, "base": _text(item.base), "variant": _text(item.variant),
-                           "change": _signed(item.change), "change_percent": _signed(item.change_percent, 3)})
-    return figures, levels, inputs

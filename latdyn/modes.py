@@ -40,11 +40,18 @@ import numpy as np
 from latdyn.eigen import eig_components
 
 __all__ = [
-    "MODE_NAMES", "PATTERNS", "Mode", "ModeShape", "ModeSet", "ModeArrays",
+    "MODE_NAMES", "MODE_LABELS", "PATTERNS", "Mode", "ModeShape", "ModeSet", "ModeArrays",
     "analyse_stack", "find_modes", "modes_from_matrix", "pair_figures", "root_figures",
 ]
 
 MODE_NAMES = ("dutch_roll", "roll_subsidence", "spiral", "roll_spiral")
+#: Each mode's name in words, for tables, reports and figures.
+MODE_LABELS = {
+    "dutch_roll": "Dutch roll",
+    "roll_subsidence": "Roll subsidence",
+    "spiral": "Spiral",
+    "roll_spiral": "Roll-spiral oscillation",
+}
 
 #: Root patterns, by code in :attr:`ModeArrays.pattern`.
 PATTERNS = (

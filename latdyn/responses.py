@@ -25,6 +25,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from latdyn.display import SI, SIGNAL_QUANTITIES
+
 __all__ = [
     "CSV_COLUMNS",
     "HOLDS",
@@ -34,6 +36,9 @@ __all__ = [
     "simulate_arrays",
     "with_heading",
     "simulate",
+    "STANDARD_LIMITS",
+    "StandardResponse",
+    "standard_response",
     "display_columns",
     "write_csv",
 ]
@@ -45,16 +50,13 @@ CSV_COLUMNS = ("time", "aileron_deg", "rudder_deg", "beta_deg", "p_deg_s", "r_de
 #: Input interpolation between grid times: held constant or linear.
 HOLDS = ("zero", "linear")
 
-#: Display column name and factor from SI for each signal.
+#: Column name of each signal in a response CSV file (a public layout: degrees, deg/s and g,
+#: whatever the display units; factors from :data:`latdyn.display.SI`).
 _DISPLAY = {
-    "aileron": ("aileron_deg", 180.0 / math.pi),
-    "rudder": ("rudder_deg", 180.0 / math.pi),
-    "beta": ("beta_deg", 180.0 / math.pi),
-    "p": ("p_deg_s", 180.0 / math.pi),
-    "r": ("r_deg_s", 180.0 / math.pi),
-    "phi": ("phi_deg", 180.0 / math.pi),
-    "psi": ("psi_deg", 180.0 / math.pi),
-    "ny": ("ny_g", 1.0),
+    name: (column, SI.convert(1.0, SIGNAL_QUANTITIES[name]))
+    for name, column in (("aileron", "aileron_deg"), ("rudder", "rudder_deg"), ("beta", "beta_deg"),
+                         ("p", "p_deg_s"), ("r", "r_deg_s"), ("phi", "phi_deg"), ("psi", "psi_deg"),
+                         ("ny", "ny_g"))
 }
 
 
@@ -385,6 +387,86 @@ def simulate(model, history, initial=None, hold="zero", label="") -> Response:
     return Response(history.time, inputs, states, outputs, state_names, tuple(model.input_names)
                     if hasattr(model, "input_names") else ("aileron", "rudder"),
                     output_names, label, description, hold, history.end_time)
+
+
+#: Largest sideslip and bank a standard response is sized to stay within [rad]: 8 deg and 30 deg
+#: (our choice, well inside the small-disturbance range).
+STANDARD_LIMITS = {"beta": math.radians(8.0), "phi": math.radians(30.0)}
+
+
+@dataclass(frozen=True)
+class StandardResponse:
+    """A standard response sized for the aircraft; unpacks as (response, readouts).
+
+    Attributes
+    ----------
+    kind : str
+        ``"rudder-doublet"`` or ``"aileron-step"`` (any kind of
+        :data:`latdyn.inputs.INPUT_KINDS`).
+    response : Response
+    readouts : latdyn.readouts.ResponseReadouts
+    amplitude : float
+        Control deflection used [rad].
+    limits : dict
+        Signal -> the largest magnitude it was sized to stay within [rad].
+    """
+
+    kind: str
+    response: Response
+    readouts: object
+    amplitude: float
+    limits: dict
+
+    def __iter__(self):
+        return iter((self.response, self.readouts))
+
+
+def standard_response(model, modes, kind, label="", limits=None) -> StandardResponse:
+    """The standard rudder-doublet or aileron-step response of a condition, with its read-outs.
+
+    Sized for the aircraft (our choice): the input of
+    :func:`latdyn.inputs.default_inputs`, its amplitude lowered in 0.5 deg
+    steps (5 deg at most, 0.5 deg at least) so that every signal of
+    ``limits`` stays within its limit — found from a 1 deg trial, exact
+    because the model is linear.  An aileron step runs for five roll time
+    constants or one and a half Dutch roll periods, whichever is longer (at
+    least 3 s after the input starts), and no longer than the default run.
+
+    Parameters
+    ----------
+    model : latdyn.model.LateralModel
+    modes : latdyn.modes.ModeSet
+    kind : str
+        An input kind of :data:`latdyn.inputs.INPUT_KINDS`.
+    label : str
+        Name of the case.
+    limits : dict, optional
+        Signal -> largest magnitude [rad]; default :data:`STANDARD_LIMITS`.
+
+    Returns
+    -------
+    StandardResponse
+    """
+    from latdyn.inputs import default_inputs, make_input, switch_times, time_grid
+    from latdyn.readouts import read_response
+
+    limits = STANDARD_LIMITS if limits is None else limits
+    settings = default_inputs(modes)
+    duration = settings.duration
+    if kind == "aileron-step":
+        roll = modes.get("roll_subsidence")
+        dutch = modes.get("dutch_roll")
+        spans = [5 * roll.time_constant if roll is not None and roll.time_constant else 0.0,
+                 1.5 * dutch.period if dutch is not None and dutch.period else 0.0]
+        duration = min(duration, math.ceil(settings.start + max(max(spans), 3.0)))
+    time = time_grid(duration, settings.step, switch_times(kind, settings.half_period, settings.start))
+    unit = make_input(kind, time, math.radians(1.0), settings.half_period, settings.start)
+    trial = simulate(model, unit, label=label)
+    worst = max(float(np.abs(trial.signal(name)).max()) / limit for name, limit in limits.items())
+    degrees = 5.0 if worst == 0 else max(0.5, min(5.0, math.floor(2.0 / worst) / 2.0))
+    history = make_input(kind, time, math.radians(degrees), settings.half_period, settings.start)
+    response = simulate(model, history, label=label)
+    return StandardResponse(kind, response, read_response(response), math.radians(degrees), dict(limits))
 
 
 def display_columns(response) -> dict:

@@ -21,7 +21,7 @@ from hypothesis import strategies as st
 
 from latdyn.aircraft import load_aircraft
 from latdyn.assessment import assess
-from latdyn.assessment_tables import render_assessments
+from latdyn.commands.assess import render_assessments
 from latdyn.cli import main
 from latdyn.criteria_sets import (CATEGORIES, CONFIDENCES, LIMIT_KEYS, MODES, RECALLED_WORDING, builtin_criteria,
                              load_criteria)

@@ -151,7 +151,7 @@ def test_existing_folder_is_not_overwritten_without_force(tmp_path, capsys):
 
 def test_a_failure_part_way_leaves_no_report_folder(tmp_path, monkeypatch):
     (tmp_path / "small.toml").write_text(SMALL)
-    import latdyn.report as report_module
+    import latdyn.report.write as report_module
 
     def broken(*args, **kwargs):
         raise RuntimeError("disk full")

@@ -36,6 +36,7 @@ def load_study_inputs(args):
 def notice_csv() -> str:
     """The guidance-only notice as a one-column CSV block, for CSV outputs that show levels."""
     from latdyn.assessment import NOTICE
-    from latdyn.tables import render
+    from latdyn.report.blocks import Column, Table
+    from latdyn.report.render import render_csv
 
-    return render([("notice", "notice")], [{"notice": NOTICE}], "csv")
+    return render_csv(Table("notice", "", (Column("notice", "notice"),), ({"notice": NOTICE},)))

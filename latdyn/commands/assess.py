@@ -11,7 +11,8 @@ from __future__ import annotations
 import json
 import sys
 
-__all__ = ["add_arguments", "run", "parse_flight_phases"]
+__all__ = ["add_arguments", "run", "parse_flight_phases", "render_assessment", "render_assessments",
+           "worst_lines"]
 
 FORMATS = ("table", "markdown", "csv", "json")
 
@@ -52,12 +53,116 @@ def parse_flight_phases(items, file="--flight-phase"):
     return phases
 
 
+def worst_lines(result):
+    """One line per condition: the worst level under each criteria set and the mode that sets it.
+
+    Examples
+    --------
+    >>> worst_lines(type("R", (), {"conditions": ()})())
+    []
+    """
+    from latdyn.modes import MODE_LABELS
+
+    lines = []
+    for condition in result.conditions:
+        parts = []
+        for name in dict.fromkeys(a.criteria for a in condition.assessments):
+            entry = condition.worst(name)
+            if entry is None:
+                parts.append(f"{name}: not assessed")
+            else:
+                parts.append(f"{name}: {entry.result} ({MODE_LABELS.get(entry.mode, entry.mode)})")
+        lines.append(f"{condition.name}: " + "; ".join(parts))
+    return lines
+
+
+def _notes(result):
+    """"conditions / mode / criteria: note" lines, what is missing included."""
+    from latdyn.modes import MODE_LABELS
+
+    grouped = {}
+    for condition in result.conditions:
+        for a in condition.assessments:
+            label = MODE_LABELS.get(a.mode, a.mode)
+            for note in list(a.notes) + [f"missing {item}" for item in a.missing]:
+                grouped.setdefault((label, a.criteria, note), []).append(condition.name)
+    return [f"{', '.join(names)} / {label} / {criteria}: {note}"
+            for (label, criteria, note), names in grouped.items()]
+
+
+def _title(result):
+    text = f"Handling-qualities assessment: {result.aircraft}"
+    if result.file:
+        text += f"  ({result.file})"
+    if result.airplane_class:
+        text += f"  class {result.airplane_class}"
+    return text
+
+
+def render_assessment(result, style="table") -> str:
+    """The summary table of one aircraft as plain text ("table") or "markdown".
+
+    Both carry the guidance-only notice, the criteria sets with their
+    editions, the numbered sources and the notes.
+    """
+    from latdyn.assessment import NOTICE
+    from latdyn.report.render import escape_markdown, render_markdown_table, render_text
+    from latdyn.report.tables import ASSESSMENT_TEXT_VIEW, assessment_sources, assessment_table
+
+    table = assessment_table(result).select(ASSESSMENT_TEXT_VIEW)
+    sources = assessment_sources(result)
+    notes = list(result.notes) + _notes(result)
+    criteria = [f"{c.name}: {c.edition}" for c in result.criteria]
+    explain = ("Worst: the row that limits each condition under each criteria set. "
+               "Margin: to the next-better boundary, positive inside.")
+    if style == "markdown":
+        lines = [f"## {escape_markdown(_title(result))}", "", f"> **{escape_markdown(NOTICE)}**", "",
+                 "Criteria:"]
+        lines += [f"- {escape_markdown(line)}" for line in criteria]
+        lines += ["", "Worst level per condition:"] + [f"- {escape_markdown(line)}" for line in worst_lines(result)]
+        lines += ["", render_markdown_table(table), "",
+                  escape_markdown(explain) + " Rows below Level 1 (or failing) in bold.", "", "Sources:"]
+        lines += [f"{i}. {escape_markdown(text)}" for i, text in enumerate(sources, 1)]
+        if notes:
+            lines += ["", "Notes:"] + [f"- {escape_markdown(n)}" for n in notes]
+        lines += ["", f"*{escape_markdown(NOTICE)}*"]
+        return "\n".join(lines)
+    lines = [_title(result), NOTICE, "Criteria: " + "; ".join(criteria), "",
+             "Worst level per condition:"] + [f"  {line}" for line in worst_lines(result)]
+    lines += ["", render_text(table), explain, "", "Sources:"]
+    lines += [f"  [{i}] {text}" for i, text in enumerate(sources, 1)]
+    if notes:
+        lines += ["Notes:"] + [f"  - {n}" for n in notes]
+    return "\n".join(lines)
+
+
+def render_assessments(results, style="table") -> str:
+    """All aircraft in one text, Markdown or CSV document.
+
+    CSV: ``#`` comment lines first (the notice, each criteria set and its
+    edition), then one header row and one row per condition, criteria set
+    and mode, with raw SI numbers.
+    """
+    from latdyn.assessment import NOTICE
+    from latdyn.report.render import render_csv
+    from latdyn.report.tables import ASSESSMENT_CSV_VIEW, assessment_table
+
+    if style != "csv":
+        return "\n\n".join(render_assessment(r, style) for r in results) + "\n"
+    lines = [f"# {NOTICE}"]
+    for result in results:
+        for c in result.criteria:
+            line = f"# criteria {c.name}: {c.edition}"
+            if line not in lines:
+                lines.append(line)
+    return "\n".join(lines) + "\n" + render_csv(assessment_table(results).select(ASSESSMENT_CSV_VIEW))
+
+
 def run(args):
     from dataclasses import replace
 
     from latdyn.aircraft import load_aircraft
     from latdyn.assessment import assess
-    from latdyn.assessment_tables import render_assessments
     from latdyn.criteria_sets import load_criteria
     from latdyn.errors import InputError
 

@@ -19,12 +19,13 @@ def add_arguments(parser):
 def render_comparisons(comparisons, style):
     """Text of the comparisons in the table, markdown or csv style."""
     from latdyn.assessment import NOTICE
-    from latdyn.compare import FIGURE_COLUMNS, INPUT_COLUMNS, LEVEL_COLUMNS, comparison_rows
-    from latdyn.tables import render
+    from latdyn.report.render import render
+    from latdyn.report.tables import comparison_tables
 
     parts = []
     for comparison in comparisons:
-        figures, levels, inputs = comparison_rows(comparison)
+        level_table, input_table, figure_table = comparison_tables(comparison)
+        levels = level_table.rows
         criteria = ", ".join(f"{c.name} ({c.edition})" for c in comparison.criteria)
         head = [f"Comparison: {comparison.variant} ({comparison.variant_file})",
                 f"  against base: {comparison.base} ({comparison.base_file})",
@@ -39,15 +40,15 @@ def render_comparisons(comparisons, style):
                         + "; only in variant " + (", ".join(comparison.only_in_variant) or "-"))
         if style == "markdown":
             head = [head[0], "", head[1].strip(), "", f"> {NOTICE}", "", *head[3:]]
-        sections = [("Mode figures", FIGURE_COLUMNS, figures), ("Levels", LEVEL_COLUMNS, levels),
-                    ("Input differences", INPUT_COLUMNS, inputs)]
+        sections = [("Mode figures", figure_table), ("Levels", level_table),
+                    ("Input differences", input_table)]
         body = []
-        for title, columns, rows in sections:
+        for title, table in sections:
             if style == "csv":
-                body.append(f"# {title}\n" + render(columns, rows, "csv").rstrip("\n"))
+                body.append(f"# {title}\n" + render(table, "csv").rstrip("\n"))
             else:
                 body.append((f"### {title}\n\n" if style == "markdown" else f"{title}:\n")
-                            + (render(columns, rows, style) if rows else "(none)"))
+                            + (render(table, style) if table.rows else "(none)"))
         if style == "csv":
             parts.append("\n".join("# " + line.strip() for line in head if line.strip()) + "\n"
                          + "\n".join(body))

@@ -11,7 +11,6 @@ responses with the residuals.  All numbers come from the library.
 from __future__ import annotations
 
 import json
-import math
 import sys
 
 __all__ = ["add_arguments", "run", "derivative_rows", "fit_rows", "mode_rows", "identify_document"]
@@ -27,9 +26,8 @@ FIT_COLUMNS = (("channel", "Channel"), ("unit", "Unit"), ("rms_residual", "RMS r
 MODE_COLUMNS = (("figure", "Mode figure"), ("unit", "Unit"), ("predicted", "Predicted"),
                 ("identified", "Identified"))
 
-_CHANNEL_DISPLAY = {"beta": ("sideslip", "deg", 180 / math.pi), "p": ("roll rate", "deg/s", 180 / math.pi),
-                    "r": ("yaw rate", "deg/s", 180 / math.pi), "phi": ("bank", "deg", 180 / math.pi),
-                    "ny": ("lateral load factor", "g", 1.0)}
+_CHANNEL_NAMES = {"beta": "sideslip", "p": "roll rate", "r": "yaw rate", "phi": "bank",
+                  "ny": "lateral load factor"}
 
 
 def add_arguments(parser):
@@ -88,10 +86,13 @@ def derivative_rows(estimates, dimensional=False):
 
 def fit_rows(result):
     """Rows (raw values, display units) of the fit table."""
+    from latdyn.display import SI, SIGNAL_QUANTITIES
+
     rows = []
     for channel, stats in result.fit["channels"].items():
-        label, unit, factor = _CHANNEL_DISPLAY[channel]
-        rows.append({"channel": label, "unit": unit, "rms_residual": stats["rms_residual"] * factor,
+        quantity = SIGNAL_QUANTITIES[channel]
+        rows.append({"channel": _CHANNEL_NAMES[channel], "unit": SI.label(quantity),
+                     "rms_residual": SI.convert(stats["rms_residual"], quantity),
                      "r_squared": stats["r_squared"], "lag1_autocorrelation": stats["lag1_autocorrelation"]})
     return rows
 
@@ -217,16 +218,19 @@ def run(args):
     return 0
 
 
-def _render(columns, rows, style):
-    from latdyn.tables import format_number, render
+def _table(columns, rows):
+    from latdyn.report.blocks import Column, Table
 
-    shown = [{key: (format_number(value) if isinstance(value, float) else
-                    ("-" if value is None else str(value))) for key, value in row.items()} for row in rows]
-    return render(columns, shown, style)
+    return Table("identify", "", tuple(Column(key, heading) for key, heading in columns), tuple(rows))
+
+
+def _render(columns, rows, style):
+    from latdyn.report.render import render
+
+    return render(_table(columns, rows), style)
 
 
 def _csv(rows):
-    from latdyn.tables import render
+    from latdyn.report.render import render_csv
 
-    return render(DERIVATIVE_COLUMNS, [{k: ("" if v is None else (repr(v) if isinstance(v, float) else v))
-                                        for k, v in row.items()} for row in rows], "csv")
+    return render_csv(_table(DERIVATIVE_COLUMNS, rows), raw=True, header="headings")

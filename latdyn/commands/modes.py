@@ -19,9 +19,9 @@ def add_arguments(parser):
 
 def condition_heading(result):
     """One line describing a flight condition, in SI units with degrees for angles."""
-    from latdyn.tables import format_number
-    from latdyn.units import deg
+    from latdyn.display import SI, format_number
 
+    deg = SI.unit("angle")
     flight = result.condition.flight
     parts = [f'Condition "{flight.name}"',
              f"category {flight.category}" if flight.category else "category not given"]
@@ -61,7 +61,8 @@ def washout_lines(result):
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.results import analyse_aircraft, modes_document
-    from latdyn.tables import MODE_COLUMNS, SHAPE_COLUMNS, mode_rows, render_text, shape_rows
+    from latdyn.report.render import render_text
+    from latdyn.report.tables import MODE_TEXT_VIEW, mode_table, shape_table
 
     aircraft_list = [load_aircraft(path) for path in args.files]
     if args.condition:
@@ -79,12 +80,12 @@ def run(args):
             lines += ["", condition_heading(result),
                       f"  roots: {result.modes.pattern}",
                       *augmentation_lines(result.condition),
-                      render_text(MODE_COLUMNS, mode_rows(result.modes)),
+                      render_text(mode_table(result.modes).select(MODE_TEXT_VIEW)),
                       *washout_lines(result)]
             if args.shapes:
                 lines += ["  mode shapes (real modes: signed magnitude; oscillations: magnitude "
                           "and phase in degrees):",
-                          render_text(SHAPE_COLUMNS, shape_rows(result.modes))]
+                          render_text(shape_table(result.modes))]
         for warning in aircraft.warnings:
             lines.append(f"warning: {warning}")
         texts.append("\n".join(lines))

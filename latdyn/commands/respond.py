@@ -183,14 +183,11 @@ def _histories(args, reference_defaults):
 
 
 def _format(value, digits=4):
-    from latdyn.tables import format_number
+    from latdyn.display import format_number
 
     return format_number(value, digits)
 
 
-_UNITS = {"beta": ("deg", 180 / math.pi), "p": ("deg/s", 180 / math.pi), "r": ("deg/s", 180 / math.pi),
-          "phi": ("deg", 180 / math.pi), "psi": ("deg", 180 / math.pi), "ny": ("g", 1.0),
-          "aileron_surface": ("deg", 180 / math.pi), "rudder_surface": ("deg", 180 / math.pi)}
 
 
 def _dutch_lines(readout, modes):
@@ -216,7 +213,7 @@ def _dutch_lines(readout, modes):
 
 
 def _transfer_lines(model, modes):
-    from latdyn.tables import MODE_LABELS
+    from latdyn.modes import MODE_LABELS
     from latdyn.transfer_functions import bank_numerator_ratios, transfer_functions
 
     transfers = transfer_functions(model, modes=modes)
@@ -244,13 +241,17 @@ def _transfer_lines(model, modes):
 
 
 def _summary(label, aircraft, response, readout, modes, settings):
+    from latdyn.display import SI, SIGNAL_QUANTITIES
+
     lines = [f"{label}  ({aircraft.file})"]
     lines.append(f"  input: {response.description or 'none'}; 0 to {settings['duration']:g} s, "
                  f"step {settings['step']:g} s ({response.time.size} samples)")
     peaks = []
     for peak in readout.peaks:
-        unit, factor = _UNITS.get(peak.signal, ("", 1.0))
-        peaks.append(f"{peak.signal} {_format(peak.value * factor)} {unit} at {peak.time:.2f} s")
+        quantity = SIGNAL_QUANTITIES.get(peak.signal)
+        value = SI.convert(peak.value, quantity) if quantity else peak.value
+        unit = SI.label(quantity) if quantity else ""
+        peaks.append(f"{peak.signal} {_format(value)} {unit} at {peak.time:.2f} s")
     lines.append("  peaks: " + " | ".join(peaks))
     lines += _dutch_lines(readout, modes)
     lines.append(f"  bank angle at the end ({readout.residual_time:g} s): "

@@ -35,8 +35,9 @@ def add_arguments(parser):
 def run(args):
     from latdyn.assessment import NOTICE
     from latdyn.commands import load_study_inputs, notice_csv
-    from latdyn.studies.sweep import parse_range, sweep, sweep_document, sweep_rows
-    from latdyn.tables import render
+    from latdyn.report.render import render
+    from latdyn.report.tables import sweep_table
+    from latdyn.studies.sweep import parse_range, sweep, sweep_document
 
     aircraft, criteria = load_study_inputs(args)
     ranges = [parse_range(text, args.file) for text in args.vary]
@@ -44,8 +45,7 @@ def run(args):
     if args.format == "json":
         text = json.dumps(sweep_document(result), indent=2, allow_nan=False) + "\n"
     else:
-        columns, rows = sweep_rows(result)
-        table = render(columns, rows, "csv" if args.format == "csv" else "text")
+        table = render(sweep_table(result), "csv" if args.format == "csv" else "text")
         if args.format == "csv":
             text = table + notice_csv()
         else:

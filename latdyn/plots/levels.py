@@ -77,7 +77,7 @@ def _level_sets(result):
 
 def _dutch_roll_grid(criteria, airplane_class, category, omega, zeta):
     """Level on a grid for one class/category; 0 where the unknown class/category matters."""
-    from latdyn.criteria import CATEGORIES, CLASSES
+    from latdyn.criteria_sets import CATEGORIES, CLASSES
     from latdyn.levels import dutch_roll_grades, select_bands
 
     classes = [airplane_class] if airplane_class else list(CLASSES)
@@ -338,7 +338,7 @@ def s_plane_map(result, path=None):
     """
     from matplotlib.lines import Line2D
 
-    from latdyn.tables import MODE_LABELS
+    from latdyn.modes import MODE_LABELS
 
     figure = _figure(8.4, 6.0)
     axis = figure.subplots()

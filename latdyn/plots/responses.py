@@ -14,10 +14,10 @@ pyplot (no global state; the Agg canvas renders files).
 
 from __future__ import annotations
 
-import math
 
 import numpy as np
 
+from latdyn.display import SI, SIGNAL_QUANTITIES, format_number
 from latdyn.plots import save_figure
 
 __all__ = ["PALETTE", "time_history_figure", "bode_figure"]
@@ -43,7 +43,7 @@ _PANELS = {
 
 
 def _factor(name):
-    return 1.0 if name == "ny" else 180.0 / math.pi
+    return SI.convert(1.0, SIGNAL_QUANTITIES.get(name, "angle"))
 
 
 def _style_axis(axis):
@@ -58,12 +58,7 @@ def _style_axis(axis):
 
 
 def _fmt(value, digits=3):
-    if value is None or not math.isfinite(value):
-        return "-"
-    if value == 0:
-        return "0"
-    magnitude = math.floor(math.log10(abs(value)))
-    return f"{value:.{max(digits - 1 - magnitude, 0)}f}"
+    return format_number(value, digits)
 
 
 def _eigen_dutch(modes):
@@ -145,7 +140,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     for index, response in enumerate(responses[:1] if shared else responses):
         colour = PALETTE[index % len(PALETTE)]
         for j, name in enumerate(response.input_names):
-            values = response.inputs[:, j] * 180.0 / math.pi
+            values = response.inputs[:, j] * _factor(name)
             if not np.any(values):
                 continue
             top.step(response.time, values, where="post", linewidth=1.4,
@@ -241,7 +236,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                    f"{_fmt(eigen.damping_ratio, 4) if eigen else '-'}")
         row.append(f"{_fmt(dutch.period, 4) if dutch else '-'}  |  "
                    f"{_fmt(eigen.period, 4) if eigen else '-'}")
-        row.append(_fmt(readout.residual_bank_angle * 180.0 / math.pi))
+        row.append(_fmt(readout.residual_bank_angle * _factor("phi")))
         cells.append(row)
     table = table_axis.table(cellText=cells, colLabels=header, cellLoc="center", colLoc="center",
                              colWidths=widths, bbox=[0.0, 0.28, 1.0, 0.72])

@@ -24,7 +24,7 @@ from latdyn.studies.batch import condition_set, parameter_names, run_batch
 from latdyn.studies.keys import StudyKey, file_units, resolve_key
 
 __all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
-           "find_crossings", "boundary_name", "MAX_POINTS", "level_text", "sweep_rows",
+           "find_crossings", "boundary_name", "MAX_POINTS", "level_text",
            "sweep_document"]
 
 #: Largest grid (points per condition) a sweep accepts [-].
@@ -302,12 +302,9 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
 
 
 # ------------------------------------------------------------------ outputs
-_SHOWN = (("dutch_roll_frequency", "DR omega_n [rad/s]"), ("dutch_roll_damping", "DR zeta [-]"),
-          ("roll_time_constant", "T_R [s]"), ("spiral_time_to_double", "spiral T_2 [s]"),
-          ("spiral_time_to_half", "spiral T_half [s]"),
-          ("roll_spiral_frequency", "RS omega_n [rad/s]"), ("roll_spiral_damping", "RS zeta [-]"))
-_MODE_SHORT = {"dutch_roll": "DR", "roll_subsidence": "roll", "spiral": "spiral",
-               "roll_spiral": "RS"}
+#: Figures of a sweep point in the JSON document.
+_SHOWN = ("dutch_roll_frequency", "dutch_roll_damping", "roll_time_constant", "spiral_time_to_double",
+          "spiral_time_to_half", "roll_spiral_frequency", "roll_spiral_damping")
 
 
 def level_text(criteria, level) -> str:
@@ -323,35 +320,6 @@ def level_text(criteria, level) -> str:
 def _json_number(value):
     value = float(value)
     return value if math.isfinite(value) else None
-
-
-def sweep_rows(result: SweepResult):
-    """(columns, rows) of the sweep table: one row per condition and grid point."""
-    from latdyn.tables import format_number
-
-    columns = [("condition", "Condition")]
-    columns += [(f"p{k}", axis.key.label) for k, axis in enumerate(result.axes)]
-    shown = [(key, heading) for key, heading in _SHOWN
-             if any(np.isfinite(getattr(c.result.figures, key)).any() for c in result.conditions)]
-    columns += shown
-    columns += [(f"levels:{c.name}", f"{c.name} levels") for c in result.criteria]
-    grid = result.grid()
-    rows = []
-    for item in result.conditions:
-        figures = item.result.figures
-        for i in range(len(grid)):
-            row = {"condition": item.condition.name}
-            for k in range(len(result.axes)):
-                row[f"p{k}"] = f"{grid[i, k]:.6g}"
-            for key, _ in shown:
-                row[key] = format_number(float(getattr(figures, key)[i]))
-            for criteria in result.criteria:
-                parts = [f"{_MODE_SHORT[mode]} {level_text(criteria, grades.level[i])}"
-                         for (name, mode), grades in item.result.levels.items()
-                         if name == criteria.name and int(grades.level[i]) != 0]
-                row[f"levels:{criteria.name}"] = ", ".join(parts) or "-"
-            rows.append(row)
-    return columns, rows
 
 
 def sweep_document(result: SweepResult) -> dict:
@@ -375,7 +343,7 @@ def sweep_document(result: SweepResult) -> dict:
             points.append({
                 "parameters": {axis.key.text: float(grid[i, k]) for k, axis in enumerate(result.axes)},
                 "pattern": int(figures.pattern[i]),
-                **{key: _json_number(getattr(figures, key)[i]) for key, _ in _SHOWN},
+                **{key: _json_number(getattr(figures, key)[i]) for key in _SHOWN},
                 "phi_to_beta": _json_number(figures.phi_to_beta[i]),
                 "roll_root": _json_number(figures.roll_root[i]),
                 "spiral_root": _json_number(figures.spiral_root[i]),

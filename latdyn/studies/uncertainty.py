@@ -28,7 +28,8 @@ from latdyn.studies.batch import FIGURES, condition_set, parameter_names, run_ba
 from latdyn.studies.keys import file_units, resolve_key
 
 __all__ = ["parse_uncertainty", "condition_uncertainties", "draw_samples", "ConditionUncertainty",
-           "UncertaintyResult", "uncertainty", "level_probabilities", "figure_percentiles",
+           "UncertaintyResult", "uncertainty", "level_probabilities", "standard_errors",
+           "figure_percentiles",
            "PERCENTILES", "uncertainty_document", "MAX_SAMPLES"]
 
 #: Percentiles reported for every figure [%].
@@ -171,6 +172,22 @@ def level_probabilities(criteria, levels) -> dict:
     return out
 
 
+def standard_errors(probabilities, samples) -> dict:
+    """Binomial standard error sqrt(p (1 - p) / n) of each probability of :func:`level_probabilities`.
+
+    The standard error of a proportion estimated from ``n`` independent
+    samples (any statistics text, e.g. Montgomery & Runger, Applied
+    Statistics and Probability for Engineers, 3rd ed., 2003, section 8-4 —
+    from memory; common practice).
+
+    Examples
+    --------
+    >>> standard_errors({"pass": 0.5, "fail": 0.5}, 100)
+    {'pass': 0.05, 'fail': 0.05}
+    """
+    return {word: math.sqrt(p * (1 - p) / samples) for word, p in probabilities.items()}
+
+
 def figure_percentiles(values) -> dict:
     """Percentiles (:data:`PERCENTILES`), mean and the fraction of samples where the figure exists."""
     values = np.asarray(values, dtype=float)
@@ -297,8 +314,7 @@ def uncertainty_document(result: UncertaintyResult) -> dict:
             "uncertainties": [{"key": u.key, "kind": u.kind, "amount": u.amount,
                                "distribution": u.distribution} for u in item.uncertainties],
             "levels": [{"criteria": name, "mode": mode, "probabilities": p,
-                        "standard_error": {k: math.sqrt(v * (1 - v) / result.samples)
-                                           for k, v in p.items()}}
+                        "standard_error": standard_errors(p, result.samples)}
                        for (name, mode), p in item.probabilities.items()],
             "figures": {name: {"unit": FIGURES[name], **values}
                         for name, values in item.percentiles.items()},

@@ -1,0 +1,163 @@
+"""Display: the one number formatter and the one set of display units.
+
+Everything inside latdyn is SI and radians.  What a person reads — a
+terminal table, a report page, a plot label, a CSV meant for a spreadsheet —
+passes through here once:
+
+* :func:`format_number` and :func:`format_root` turn numbers into text (a
+  dash where a figure does not apply: never a stable-looking figure for an
+  unstable mode);
+* a :class:`UnitSystem` maps each physical *quantity* (``"angle"``,
+  ``"angular_rate"``, ``"speed"`` ...) to its display unit and factor from
+  SI.  :data:`SI` (SI with angles in degrees) is the one in use
+  (:data:`DEFAULT`); another system (US customary units for display, for
+  example) is one more :class:`UnitSystem` instance passed where the tables
+  and figures take ``units=``.
+
+No matplotlib, no numpy: plots, reports and the command line all import it.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+__all__ = ["DASH", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "DEFAULT",
+           "SIGNAL_QUANTITIES"]
+
+#: Text of a figure that does not apply (or is not finite).
+DASH = "-"
+
+
+def format_number(value, digits=4, *, style="significant", signed=False):
+    """A number as text, or a dash where it does not apply.
+
+    Parameters
+    ----------
+    value : float, int or None
+    digits : int
+        Significant digits (``"significant"``, ``"general"``) or decimals
+        (``"fixed"``).
+    style : {"significant", "general", "fixed"}
+        ``"significant"``: fixed-point with ``digits`` significant digits
+        (``0.008761``, ``1234``); ``"general"``: Python's ``g`` format
+        (exponent for very large or small values, ``-1.399e-05``);
+        ``"fixed"``: ``digits`` decimals.
+    signed : bool
+        A ``+`` before positive values (and zero): margins and changes.
+
+    Examples
+    --------
+    >>> format_number(0.0087612), format_number(None), format_number(1234.5)
+    ('0.008761', '-', '1234')
+    >>> format_number(0.0038, signed=True), format_number(4.75, 1, style="fixed", signed=True)
+    ('+0.003800', '+4.8')
+    >>> format_number(-1.3992e-05, style="general"), format_number(float("nan"))
+    ('-1.399e-05', '-')
+    """
+    if value is None or isinstance(value, bool):
+        return DASH
+    value = float(value)
+    if not math.isfinite(value):
+        return DASH
+    sign = "+" if signed else ""
+    if style == "fixed":
+        return f"{value:{sign}.{digits}f}"
+    if style == "general":
+        return f"{value:{sign}.{digits}g}"
+    if value == 0:
+        return sign + "0" if signed else "0"
+    magnitude = math.floor(math.log10(abs(value)))
+    decimals = max(digits - 1 - magnitude, 0)
+    return f"{value:{sign}.{decimals}f}"
+
+
+def format_root(root, digits=4):
+    """A root as ``re`` or ``re ± im j``.
+
+    Examples
+    --------
+    >>> format_root(complex(-0.25, 1.5)), format_root(complex(-1.121, 0))
+    ('-0.2500 ± 1.500j', '-1.121')
+    """
+    root = complex(root)
+    if root.imag == 0:
+        return format_number(root.real, digits)
+    return f"{format_number(root.real, digits)} ± {format_number(abs(root.imag), digits)}j"
+
+
+@dataclass(frozen=True)
+class DisplayUnit:
+    """A display unit: its label and the factor from the SI value (shown = SI * factor).
+
+    Examples
+    --------
+    >>> DisplayUnit("deg", 180 / math.pi)(math.pi)
+    180.0
+    """
+
+    label: str
+    factor: float = 1.0
+
+    def __call__(self, value):
+        """The SI value in this unit (None stays None)."""
+        return None if value is None else value * self.factor
+
+
+@dataclass(frozen=True)
+class UnitSystem:
+    """Display units by physical quantity.
+
+    Quantities: ``angle``, ``angular_rate``, ``load_factor``, ``length``,
+    ``area``, ``speed``, ``mass``, ``inertia``, ``density``, ``pressure``,
+    ``time``, ``frequency`` (rad/s), ``rate`` (1/s).  A quantity not listed
+    is shown in SI with the label the caller gives.
+
+    Examples
+    --------
+    >>> SI.label("angular_rate"), round(SI.convert(1.0, "angle"), 4)
+    ('deg/s', 57.2958)
+    """
+
+    name: str
+    units: dict = field(default_factory=dict)
+
+    def unit(self, quantity) -> DisplayUnit:
+        """The display unit of a quantity."""
+        return self.units[quantity]
+
+    def label(self, quantity) -> str:
+        """The unit label of a quantity (``"deg"``)."""
+        return self.units[quantity].label
+
+    def convert(self, value, quantity):
+        """An SI value of ``quantity`` in its display unit."""
+        return self.units[quantity](value)
+
+
+_DEGREES = 180.0 / math.pi
+
+#: SI for display, angles in degrees: the units of every table, report and figure.
+SI = UnitSystem("SI", {
+    "angle": DisplayUnit("deg", _DEGREES),
+    "angular_rate": DisplayUnit("deg/s", _DEGREES),
+    "load_factor": DisplayUnit("g", 1.0),
+    "length": DisplayUnit("m"),
+    "area": DisplayUnit("m^2"),
+    "speed": DisplayUnit("m/s"),
+    "mass": DisplayUnit("kg"),
+    "inertia": DisplayUnit("kg m^2"),
+    "density": DisplayUnit("kg/m^3"),
+    "pressure": DisplayUnit("Pa"),
+    "time": DisplayUnit("s"),
+    "frequency": DisplayUnit("rad/s"),
+    "rate": DisplayUnit("1/s"),
+})
+
+#: The unit system tables, reports and figures use unless told otherwise.
+DEFAULT = SI
+
+#: Quantity of each response signal and control (state, output and input names of the model).
+SIGNAL_QUANTITIES = {"beta": "angle", "p": "angular_rate", "r": "angular_rate", "phi": "angle",
+                     "psi": "angle", "ny": "load_factor", "aileron": "angle", "rudder": "angle",
+                     "aileron_surface": "angle", "rudder_surface": "angle"}

@@ -1,0 +1,177 @@
+"""Everything a report shows, computed by the library and collected in one object.
+
+:func:`analyse_report` loads the aircraft (and variant) files, runs the
+pipeline stages — models and modes, assessment, comparison, the standard
+responses, transfer functions — and records the inputs' SHA-256.  It adds
+no formulas; :mod:`latdyn.report.content` turns the result into blocks.
+"""
+
+from __future__ import annotations
+
+import datetime
+import hashlib
+import os
+from dataclasses import dataclass
+
+__all__ = ["ConditionData", "AircraftData", "ReportData", "analyse_report", "sha256_of",
+           "STANDARD_INPUTS"]
+
+#: The standard responses of every condition, in order.
+STANDARD_INPUTS = ("rudder-doublet", "aileron-step")
+
+
+def sha256_of(path) -> str:
+    """SHA-256 of a file's bytes, hexadecimal."""
+    digest = hashlib.sha256()
+    with open(path, "rb") as handle:
+        for chunk in iter(lambda: handle.read(1 << 16), b""):
+            digest.update(chunk)
+    return digest.hexdigest()
+
+
+@dataclass(frozen=True)
+class ConditionData:
+    """One flight condition: model and modes, assessment, standard responses, transfer functions.
+
+    Attributes
+    ----------
+    result : latdyn.results.ConditionResult
+    assessment : latdyn.assessment.ConditionAssessment
+    responses : tuple of latdyn.responses.StandardResponse
+    transfers : tuple of latdyn.transfer_functions.TransferFunction
+    bank_ratios : (float, float) or None
+        omega_phi/omega_d and zeta_phi/zeta_d of phi/da (an oscillatory Dutch roll only).
+    """
+
+    result: object
+    assessment: object
+    responses: tuple
+    transfers: tuple
+    bank_ratios: tuple | None
+
+
+@dataclass(frozen=True)
+class AircraftData:
+    """One aircraft analysed in full."""
+
+    aircraft: object
+    results: tuple
+    assessment: object
+    conditions: tuple
+
+
+@dataclass(frozen=True)
+class ReportData:
+    """The results a report is built from.
+
+    Attributes
+    ----------
+    aircraft : tuple of AircraftData
+        The files analysed in full; the first is the base of the comparison.
+    variants : tuple of (Aircraft, AircraftAssessment)
+    comparisons : tuple of latdyn.compare.Comparison
+    inputs : tuple of dict
+        ``{"file", "sha256"}`` of every input file (aircraft chains, criteria files).
+    generated : str
+        Time of the run (ISO 8601, UTC), for the human-readable files only.
+    argv : tuple of str or None
+        The command line, for the provenance.
+    """
+
+    aircraft: tuple
+    variants: tuple
+    comparisons: tuple
+    inputs: tuple
+    generated: str
+    argv: tuple | None = None
+
+    @property
+    def assessments(self) -> list:
+        """Assessments of every aircraft, variants last."""
+        return [a.assessment for a in self.aircraft] + [s for _, s in self.variants]
+
+    @property
+    def all_aircraft(self) -> list:
+        return [a.aircraft for a in self.aircraft] + [v for v, _ in self.variants]
+
+    @property
+    def criteria(self) -> dict:
+        """Every criteria set used, by name, in order of first use."""
+        return {c.name: c for a in self.assessments for c in a.criteria}
+
+    @property
+    def condition_count(self) -> int:
+        return sum(len(a.conditions) for a in self.aircraft)
+
+
+def _condition(aircraft, result, assessment, step):
+    from latdyn.responses import standard_response
+    from latdyn.transfer_functions import bank_numerator_ratios, transfer_functions
+
+    label = f"{aircraft.name} / {result.condition.name}"
+    responses = tuple(standard_response(result.model, result.modes, kind, label) for kind in STANDARD_INPUTS)
+    transfers = tuple(transfer_functions(result.model, modes=result.modes))
+    ratios = None
+    dutch = result.modes.get("dutch_roll")
+    if dutch is not None and dutch.oscillatory:
+        phi_da = next((t for t in transfers if t.output == "phi" and t.input == "aileron"), None)
+        if phi_da is not None:
+            ratios = bank_numerator_ratios(phi_da, dutch.eigenvalue)
+    if step is not None:
+        step()
+    return ConditionData(result, assessment, responses, transfers, ratios)
+
+
+def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, step=None) -> ReportData:
+    """Load and analyse the aircraft files of a report.
+
+    Parameters
+    ----------
+    files : sequence of str
+        Aircraft files analysed in full; the first is the base of the comparison.
+    variants : sequence of str
+        Variant files compared with the first file.
+    criteria_sets : sequence of str, optional
+        Criteria set names or files; default per aircraft (military with a class).
+    now : datetime.datetime, optional
+        Time of the run; default now (UTC).
+    argv : sequence of str, optional
+        The command line, recorded in the provenance.
+    step : callable, optional
+        Called once per condition analysed (progress).
+
+    Returns
+    -------
+    ReportData
+
+    Raises
+    ------
+    latdyn.errors.InputError
+        Bad input.
+    """
+    from latdyn.aircraft import load_aircraft
+    from latdyn.assessment import assess
+    from latdyn.compare import compare_many
+    from latdyn.criteria_sets import load_criteria
+    from latdyn.results import analyse_aircraft
+
+    now = now or datetime.datetime.now(datetime.timezone.utc)
+    aircraft_list = [load_aircraft(path) for path in files]
+    variant_list = [load_aircraft(path) for path in variants]
+    criteria_objects = [load_criteria(c) for c in criteria_sets] if criteria_sets else None
+    analyses = [analyse_aircraft(a) for a in aircraft_list]
+    assessments = [assess(a, criteria_objects) for a in aircraft_list]
+    variant_assessments = [assess(v, criteria_objects) for v in variant_list]
+    comparisons = compare_many(aircraft_list[0], variant_list, criteria_objects) if variant_list else ()
+    aircraft_data = []
+    for aircraft, results, assessment in zip(aircraft_list, analyses, assessments):
+        conditions = tuple(_condition(aircraft, result, condition, step)
+                           for result, condition in zip(results, assessment.conditions))
+        aircraft_data.append(AircraftData(aircraft, results, assessment, conditions))
+    inputs = [{"file": path, "sha256": sha256_of(path)}
+              for a in [*aircraft_list, *variant_list] for path in a.files]
+    inputs += [{"file": path, "sha256": sha256_of(path)}
+               for path in (criteria_sets or ()) if os.path.exists(path)]
+    return ReportData(tuple(aircraft_data), tuple(zip(variant_list, variant_assessments)),
+                      tuple(comparisons), tuple(inputs), now.isoformat(timespec="seconds"),
+                      tuple(argv) if argv else None)

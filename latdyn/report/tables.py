@@ -1,0 +1,620 @@
+"""Every table latdyn shows, defined once: one function per table.
+
+Each function takes result objects of the library and returns a
+:class:`~latdyn.report.blocks.Table`: rows of raw values (numbers stay
+numbers; angles and rates already in the display units of ``units``) and
+the columns with their names, symbols and units.  The terminal text,
+Markdown, CSV, HTML and JSON renderers (:mod:`latdyn.report.render`) only
+format them; where two outputs show different columns of the same table
+they take a view (:meth:`Table.select`), never a second definition.
+
+No formulas here: every number comes from the pipeline stages.
+"""
+
+from __future__ import annotations
+
+from latdyn.display import DEFAULT, SIGNAL_QUANTITIES
+from latdyn.modes import MODE_LABELS
+from latdyn.report.blocks import Absent, Column, Table
+
+__all__ = [
+    "MODE_TEXT_VIEW", "MODE_REPORT_VIEW", "ASSESSMENT_TEXT_VIEW", "ASSESSMENT_REPORT_VIEW",
+    "ASSESSMENT_CSV_VIEW", "SUMMARY_VIEW",
+    "mode_status", "mode_table", "shape_table", "flight_condition_table", "mass_table",
+    "derivative_table", "derivative_caption", "assessment_table", "assessment_sources",
+    "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
+    "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
+]
+
+
+def _columns(*columns):
+    return tuple(columns)
+
+
+# ------------------------------------------------------------------ modes
+
+def mode_status(mode) -> str:
+    """``stable``, ``neutral`` or ``DIVERGENT``: the same word in every output.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace as M
+    >>> mode_status(M(neutral=False, stable=False)), mode_status(M(neutral=True, stable=False))
+    ('DIVERGENT', 'neutral')
+    """
+    if mode.neutral:
+        return "neutral"
+    return "stable" if mode.stable else "DIVERGENT"
+
+
+MODE_COLUMNS = _columns(
+    Column("mode", "Mode"),
+    Column("roots", "Root(s)", "1/s"),
+    Column("re", "Re(root)", "1/s"),
+    Column("im", "Im(root)", "1/s"),
+    Column("natural_frequency", "omega_n", "rad/s"),
+    Column("damping_ratio", "zeta", "-"),
+    Column("period", "Period", "s"),
+    Column("time_constant", "T", "s"),
+    Column("time_to_half", "T_half", "s"),
+    Column("time_to_double", "T_double", "s"),
+    Column("cycles_to_half", "N_half", "cycles", digits=3),
+    Column("phi_to_beta", "|phi/beta|", "-", digits=3),
+    Column("status", "Status"),
+)
+#: Columns of the mode table on the terminal (roots as ``re ± im j``).
+MODE_TEXT_VIEW = ("mode", "roots", "natural_frequency", "damping_ratio", "period", "time_constant",
+                  "time_to_half", "time_to_double", "cycles_to_half", "phi_to_beta", "status")
+#: Columns of the mode table in a report (real and imaginary parts as numbers).
+MODE_REPORT_VIEW = ("mode", "re", "im", "natural_frequency", "damping_ratio", "period",
+                    "time_constant", "time_to_half", "time_to_double", "cycles_to_half",
+                    "phi_to_beta", "status")
+
+
+def mode_table(modes, name="modes", caption="Modes") -> Table:
+    """The mode table of a :class:`~latdyn.modes.ModeSet`.
+
+    A divergent mode has its time to double and no time constant or time to
+    half (None): no stable-looking figure for an unstable mode.  Rows of
+    modes that are not stable are emphasised.  The roots an augmentation
+    adds (``modes.added``) follow the airframe's modes, labelled
+    "added: <block>".
+    """
+    rows, emphasis = [], []
+    added = tuple(getattr(modes, "added", ()))
+    for mode in tuple(modes) + added:
+        if mode.name in MODE_LABELS:
+            label = MODE_LABELS[mode.name]
+        else:
+            from latdyn.augmentation import added_label
+
+            label = f"added: {added_label(mode.name)}"
+        if mode.name == "dutch_roll" and not mode.oscillatory:
+            label += " (non-oscillatory)"
+        roots = (complex(mode.eigenvalues[0]),) if mode.oscillatory else tuple(
+            complex(r) for r in mode.eigenvalues)
+        rows.append({"mode": label, "roots": roots, "re": float(mode.eigenvalue.real),
+                     "im": abs(float(mode.eigenvalue.imag)),
+                     "natural_frequency": mode.natural_frequency, "damping_ratio": mode.damping_ratio,
+                     "period": mode.period, "time_constant": mode.time_constant,
+                     "time_to_half": mode.time_to_half, "time_to_double": mode.time_to_double,
+                     "cycles_to_half": mode.cycles_to_half, "phi_to_beta": mode.phi_to_beta,
+                     "status": mode_status(mode)})
+        if not mode.stable:
+            emphasis.append(len(rows) - 1)
+    return Table(name, caption, MODE_COLUMNS, tuple(rows), tuple(emphasis))
+
+
+def shape_table(modes, units=DEFAULT) -> Table:
+    """Mode shapes: each state's magnitude relative to the reference state, with its phase.
+
+    Oscillatory modes: ``magnitude (phase)`` with the phase in degrees;
+    real modes: the signed magnitude.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> from latdyn.modes import modes_from_matrix
+    >>> A = np.array([[-0.1113, 0.0, -1.0, 0.1321], [-1.328, -0.951, 0.609, 0.0],
+    ...               [0.757, -0.124, -0.265, 0.0], [0.0, 1.0, 0.0, 0.0]])
+    >>> shape_table(modes_from_matrix(A)).rows[0]["reference"]
+    'beta'
+    """
+    from latdyn.display import format_number
+
+    angle = units.unit("angle")
+    columns = (Column("mode", "Mode"), Column("reference", "Relative to"),
+               *(Column(state, f"{state} [{unit}] (phase {angle.label})")
+                 for state, unit in (("beta", "rad"), ("p", "rad/s"), ("r", "rad/s"), ("phi", "rad"))))
+    rows = []
+    for mode in modes:
+        shape = mode.mode_shape
+        if shape is None:
+            continue
+        row = {"mode": MODE_LABELS[mode.name], "reference": shape.normalised_to}
+        for state in ("beta", "p", "r", "phi"):
+            magnitude = shape.magnitude[state]
+            phase = angle(shape.phase[state])
+            row[state] = (f"{format_number(magnitude, 3)} ({phase:+.0f})" if mode.oscillatory
+                          else f"{'-' if abs(phase) > 90 else '+'}{format_number(magnitude, 3)}")
+        rows.append(row)
+    return Table("mode-shapes", "Mode shapes", columns, tuple(rows))
+
+
+# ------------------------------------------------------------------ inputs
+
+_QUANTITY_COLUMNS = _columns(Column("quantity", "Quantity"), Column("unit", "Unit"),
+                             Column("value", "Value"))
+
+
+def flight_condition_table(result, name="flight-condition", units=DEFAULT) -> Table:
+    """Flight condition and derived quantities of a :class:`~latdyn.results.ConditionResult`."""
+    flight = result.condition.flight
+    rows = [
+        ("category", "Flight-phase category", "-", flight.category or "not given"),
+        ("altitude", "Geopotential altitude", units.label("length"), units.convert(flight.altitude, "length")),
+        ("speed", "True airspeed", units.label("speed"), units.convert(flight.speed, "speed")),
+        ("mach", "Mach number", "-", flight.mach),
+        ("density", "Density", units.label("density"), units.convert(flight.density, "density")),
+        ("dynamic_pressure", "Dynamic pressure", units.label("pressure"),
+         units.convert(flight.dynamic_pressure, "pressure")),
+        ("alpha", "Trim angle of attack", units.label("angle"), units.convert(flight.alpha, "angle")),
+        ("gamma", "Flight-path angle", units.label("angle"), units.convert(flight.gamma, "angle")),
+        ("axes", "Axes of the equations", "-", result.model.axes),
+    ]
+    return Table(name, "Flight condition and derived quantities",
+                 _QUANTITY_COLUMNS,
+                 tuple({"key": k, "quantity": q, "unit": u, "value": v} for k, q, u, v in rows))
+
+
+def mass_table(aircraft, name="mass-geometry", units=DEFAULT) -> Table:
+    """Mass, inertia and geometry of an aircraft."""
+    rows = []
+    if aircraft.mass is not None:
+        m = aircraft.mass
+        inertia = units.label("inertia")
+        rows += [("Mass", units.label("mass"), units.convert(m.mass, "mass")),
+                 ("Ixx", inertia, units.convert(m.Ixx, "inertia")),
+                 ("Izz", inertia, units.convert(m.Izz, "inertia")),
+                 ("Ixz (integral of x z dm)", inertia, units.convert(m.Ixz, "inertia")),
+                 ("Inertia axes", "-", m.axes)]
+    if aircraft.geometry is not None:
+        g = aircraft.geometry
+        rows += [("Wing area S", units.label("area"), units.convert(g.wing_area, "area")),
+                 ("Span b", units.label("length"), units.convert(g.span, "length")),
+                 ("Mean chord", units.label("length"), units.convert(g.mean_chord, "length"))]
+    return Table(name, f"Mass, inertia and geometry ({units.name}, as read from the file)",
+                 _QUANTITY_COLUMNS, tuple({"quantity": q, "unit": u, "value": v} for q, u, v in rows))
+
+
+def derivative_caption(result) -> str:
+    from latdyn.aircraft import NondimensionalDerivatives
+
+    given = result.condition.derivatives
+    kind = "non-dimensional" if isinstance(given, NondimensionalDerivatives) else (
+        "dimensional, " + ("primed" if given.primed else "not primed"))
+    return (f"Derivatives as given ({kind}, {given.axes} axes) and as used "
+            f"(primed dimensional, {result.model.axes} axes, SI)")
+
+
+def derivative_table(result, name="derivatives") -> Table:
+    """One row per derivative: as given in the file, and the primed dimensional one used."""
+    from latdyn.aircraft import NondimensionalDerivatives
+    from latdyn.model import COEFFICIENT_NAMES, DIMENSIONAL_NAMES, DIMENSIONAL_UNITS
+
+    given = result.condition.derivatives
+    if isinstance(given, NondimensionalDerivatives):
+        given_names = COEFFICIENT_NAMES
+        given_units = ["1/rad"] * len(given_names)
+    else:
+        given_names = DIMENSIONAL_NAMES
+        given_units = [DIMENSIONAL_UNITS[n] for n in given_names]
+    used = result.model.derivatives
+    rows = []
+    for given_name, unit, used_name in zip(given_names, given_units, DIMENSIONAL_NAMES):
+        rows.append({"given": given_name, "given_unit": unit, "given_value": getattr(given, given_name),
+                     "used": used_name + "'" if used_name[0] in "LN" else used_name,
+                     "used_unit": DIMENSIONAL_UNITS[used_name], "used_value": getattr(used, used_name)})
+    columns = (Column("given", "As given"), Column("given_unit", "Unit"), Column("given_value", "Value"),
+               Column("used", "Used"), Column("used_unit", "Unit"), Column("used_value", "Value"))
+    return Table(name, derivative_caption(result), columns, tuple(rows))
+
+
+# ------------------------------------------------------------------ assessment
+
+def parameter_label(mode, parameter) -> str:
+    """Trade symbol of a governing parameter with its unit, e.g. ``zeta_d*omega_nd [rad/s]``.
+
+    Examples
+    --------
+    >>> parameter_label("roll_subsidence", "time_constant")
+    'T_R [s]'
+    """
+    from latdyn.levels import SYMBOLS, UNITS
+
+    if parameter is None:
+        return "-"
+    symbol = SYMBOLS.get((mode, parameter), parameter)
+    unit = UNITS.get(parameter, "")
+    return f"{symbol} [{unit}]" if unit else symbol
+
+
+def value_reason(assessment) -> str:
+    """Why a governing value is missing: never a stable-looking figure for an unstable mode.
+
+    Examples
+    --------
+    >>> from latdyn.assessment import Assessment
+    >>> value_reason(Assessment("x", "e", "spiral", 1, None, "time_to_double", None, 12.0, None, None))
+    'convergent'
+    """
+    a = assessment
+    if a.governing == "time_to_double" and a.mode == "spiral":
+        return "convergent"
+    if a.governing == "time_constant":
+        return "divergent"
+    if a.governing == "permitted":
+        return "not permitted"
+    if a.governing == "damping_ratio" and a.notes and "divergence" in a.notes[0]:
+        return "static divergence"
+    return "-"
+
+
+ASSESSMENT_COLUMNS = _columns(
+    Column("aircraft", "Aircraft"),
+    Column("file", "File"),
+    Column("condition", "Condition"),
+    Column("category", "Cat."),
+    Column("airplane_class", "Class"),
+    Column("mode", "Mode"),
+    Column("mode_name", "Mode (name)"),
+    Column("criteria", "Criteria"),
+    Column("edition", "Edition"),
+    Column("level", "Level"),
+    Column("pass", "Pass"),
+    Column("result", "Result"),
+    Column("governing", "Governing"),
+    Column("governing_name", "Governing (name)"),
+    Column("unit", "Unit"),
+    Column("value", "Value"),
+    Column("limit", "Limit"),
+    Column("margin", "Margin", signed=True),
+    Column("margin_fraction", "Margin fraction", signed=True),
+    Column("margin_percent", "Margin", "%", digits=1, style="fixed", signed=True),
+    Column("ref", "Source"),
+    Column("source", "Source"),
+    Column("notes", "Notes"),
+    Column("missing", "Missing"),
+    Column("worst", "Worst", words=((True, "<< worst"), (False, ""))),
+)
+#: Columns of ``latdyn assess`` (text and Markdown).
+ASSESSMENT_TEXT_VIEW = ("condition", "category", "mode", "criteria", "result", "governing", "value",
+                        "limit", "margin", "margin_percent", "ref", "worst")
+#: Columns of the assessment of one condition in a report.
+ASSESSMENT_REPORT_VIEW = ("mode", "criteria", "result", "governing", "value", "limit", "margin",
+                          "margin_percent", "source")
+#: Columns of ``latdyn assess --format csv`` (a public layout: names, not labels).
+ASSESSMENT_CSV_VIEW = ("aircraft", "file", "condition", "category", "airplane_class", "criteria",
+                       "edition", ("mode", "mode_name"), "level", "pass", "result",
+                       ("governing", "governing_name"), "unit", "value", "limit", "margin",
+                       "margin_fraction", "worst", "source", "notes", "missing")
+
+
+def assessment_sources(assessment) -> list:
+    """The sources cited by an :class:`~latdyn.assessment.AircraftAssessment`, numbered in order
+    of first use (``[1]`` is the first)."""
+    sources = []
+    for condition in assessment.conditions:
+        for entry in condition.assessments:
+            if entry.source and entry.source not in sources:
+                sources.append(entry.source)
+    return sources
+
+
+def _worst_ids(condition):
+    ids = set()
+    for name in dict.fromkeys(a.criteria for a in condition.assessments):
+        entry = condition.worst(name)
+        if entry is not None:
+            ids.add(id(entry))
+    return ids
+
+
+def _assessment_row(assessment, condition, entry, sources, worst):
+    ref = "-"
+    if entry.source:
+        ref = f"[{sources.index(entry.source) + 1}]" + (f" {entry.confidence}" if entry.confidence else "")
+    return {
+        "aircraft": assessment.aircraft, "file": assessment.file,
+        "condition": condition.name,
+        "category": condition.category or Absent("not given"),
+        "airplane_class": condition.airplane_class,
+        "mode": MODE_LABELS.get(entry.mode, entry.mode), "mode_name": entry.mode,
+        "criteria": entry.criteria, "edition": entry.edition,
+        "level": entry.level, "pass": entry.passed, "result": entry.result,
+        "governing": parameter_label(entry.mode, entry.governing), "governing_name": entry.governing,
+        "unit": entry.unit,
+        "value": entry.value if entry.value is not None else Absent(value_reason(entry)),
+        "limit": entry.limit, "margin": entry.margin, "margin_fraction": entry.margin_fraction,
+        "margin_percent": None if entry.margin_fraction is None else 100 * entry.margin_fraction,
+        "ref": ref, "source": entry.source, "notes": " | ".join(entry.notes),
+        "missing": " | ".join(entry.missing), "worst": id(entry) in worst,
+    }
+
+
+def assessment_table(assessments, condition=None, name="assessment",
+                     caption="Assessment against the criteria (guidance only)") -> Table:
+    """One row per aircraft, condition, criteria set and mode.
+
+    Parameters
+    ----------
+    assessments : AircraftAssessment or sequence of them
+    condition : str, optional
+        Only this condition.
+
+    Returns
+    -------
+    Table
+        ``worst`` marks the row that limits its condition under its criteria
+        set; rows below Level 1 (or failing) are emphasised.  ``ref`` numbers
+        the sources per aircraft (:func:`assessment_sources`).
+    """
+    if hasattr(assessments, "conditions"):
+        assessments = (assessments,)
+    rows, emphasis = [], []
+    for assessment in assessments:
+        sources = assessment_sources(assessment)
+        for item in assessment.conditions:
+            if condition is not None and item.name != condition:
+                continue
+            worst = _worst_ids(item)
+            for entry in item.assessments:
+                rows.append(_assessment_row(assessment, item, entry, sources, worst))
+                if entry.severity >= 2:
+                    emphasis.append(len(rows) - 1)
+    return Table(name, caption, ASSESSMENT_COLUMNS, tuple(rows), tuple(emphasis))
+
+
+#: Columns of the handling-qualities summary of a report.
+SUMMARY_VIEW = ("aircraft", "condition", "category", "criteria", "result", "mode", "governing", "value",
+                "limit", "margin", "margin_percent")
+
+
+def summary_table(assessments, name="summary", caption="Worst result per condition") -> Table:
+    """The worst row per aircraft, condition and criteria set, worst first (by severity)."""
+    rows = []
+    for assessment in assessments:
+        sources = assessment_sources(assessment)
+        for item in assessment.conditions:
+            for criteria in assessment.criteria:
+                worst = item.worst(criteria.name)
+                if worst is not None:
+                    rows.append((worst.severity,
+                                 _assessment_row(assessment, item, worst, sources, {id(worst)})))
+    order = sorted(range(len(rows)), key=lambda i: (-rows[i][0], i))
+    emphasis = tuple(k for k, i in enumerate(order) if rows[i][0] >= 2)
+    columns = tuple(Column(c.key, {"result": "Worst result", "mode": "Limiting mode"}.get(c.key, c.title),
+                           c.unit, c.symbol, c.digits, c.style, c.signed, c.words)
+                    for c in ASSESSMENT_COLUMNS)
+    table = Table(name, caption, columns, tuple(rows[i][1] for i in order), emphasis)
+    return table.select(SUMMARY_VIEW)
+
+
+# ------------------------------------------------------------------ comparison
+
+def comparison_tables(comparison, prefix="comparison") -> tuple:
+    """(levels, inputs, figures) tables of a :class:`~latdyn.compare.Comparison`.
+
+    Level changes that moved read IMPROVED / DEGRADED and are emphasised.
+    """
+    from latdyn.assessment import level_words
+
+    figures, levels, inputs, moved = [], [], [], []
+    for condition in comparison.conditions:
+        for item in condition.figures:
+            figures.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
+                            "figure": item.figure, "unit": item.unit, "base": item.base,
+                            "variant": item.variant, "change": item.change,
+                            "change_percent": item.change_percent})
+        for item in condition.levels:
+            verdict = item.verdict.upper() if item.verdict in ("improved", "degraded") else item.verdict
+            if verdict != item.verdict:
+                moved.append(len(levels))
+            levels.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
+                           "criteria": item.criteria,
+                           "base": level_words(item.base_level, item.base_pass),
+                           "variant": level_words(item.variant_level, item.variant_pass),
+                           "verdict": verdict})
+        for item in condition.inputs:
+            inputs.append({"condition": condition.name, "group": item.group, "key": item.key,
+                           "unit": item.unit, "base": item.base, "variant": item.variant,
+                           "change": item.change, "change_percent": item.change_percent})
+    change = (Column("change", "Change", signed=True),
+              Column("change_percent", "Change", "%", digits=3, signed=True))
+    where = (Column("condition", "Condition"),)
+    values = (Column("base", "Base"), Column("variant", "Variant"))
+    return (
+        Table(f"{prefix}-levels", "Levels, base against variant",
+              where + (Column("mode", "Mode"), Column("criteria", "Criteria")) + values
+              + (Column("verdict", "Verdict"),), tuple(levels), tuple(moved)),
+        Table(f"{prefix}-inputs", "Input differences (what caused the change)",
+              where + (Column("group", "Group"), Column("key", "Key"), Column("unit", "Unit"))
+              + values + change, tuple(inputs)),
+        Table(f"{prefix}-figures", "Mode figures, base against variant",
+              where + (Column("mode", "Mode"), Column("figure", "Figure"), Column("unit", "Unit"))
+              + values + change, tuple(figures)),
+    )
+
+
+# ------------------------------------------------------------------ responses
+
+def readout_table(responses, modes, name="readouts", units=DEFAULT) -> Table:
+    """Read-outs of responses beside the eigenvalue figures.
+
+    Parameters
+    ----------
+    responses : sequence of (str, ResponseReadouts)
+        Input kind and the read-outs of its response.
+    modes : ModeSet
+    """
+    rows = []
+    dutch = modes.get("dutch_roll")
+    for kind, readouts in responses:
+        for peak in readouts.peaks:
+            quantity = SIGNAL_QUANTITIES.get(peak.signal)
+            rows.append({"input": kind, "signal": peak.signal,
+                         "peak": units.convert(peak.value, quantity) if quantity else peak.value,
+                         "unit": units.label(quantity) if quantity else "", "time": peak.time})
+        rows.append({"input": kind, "signal": "phi at the end",
+                     "peak": units.convert(readouts.residual_bank_angle, "angle"),
+                     "unit": units.label("angle"), "time": readouts.residual_time})
+        estimate = readouts.dutch_roll
+        if estimate is not None:
+            rows.append({"input": kind, "signal": f"Dutch roll zeta from the trace ({estimate.signal})",
+                         "peak": estimate.damping_ratio, "unit": "-", "time": None})
+            rows.append({"input": kind, "signal": "Dutch roll period from the trace",
+                         "peak": estimate.period, "unit": "s", "time": None})
+        if dutch is not None and dutch.oscillatory:
+            rows.append({"input": kind, "signal": "Dutch roll zeta from the eigenvalues",
+                         "peak": dutch.damping_ratio, "unit": "-", "time": None})
+            rows.append({"input": kind, "signal": "Dutch roll period from the eigenvalues",
+                         "peak": dutch.period, "unit": "s", "time": None})
+    columns = (Column("input", "Input"), Column("signal", "Signal"), Column("peak", "Peak"),
+               Column("unit", "Unit"), Column("time", "At", "s"))
+    return Table(name, "Read-outs from the responses, beside the eigenvalue figures", columns, tuple(rows))
+
+
+def transfer_table(transfers, name="transfer-functions") -> Table:
+    """Transfer functions in factored form (output per rad of control)."""
+    rows = []
+    for transfer in transfers:
+        rows.append({"transfer": transfer.name, "gain": float(transfer.gain),
+                     "numerator": "".join(f.text(4) for f in transfer.numerator) or "1",
+                     "denominator": "".join(f.text(4) for f in transfer.denominator),
+                     "static_gain": transfer.static_gain})
+    columns = (Column("transfer", "Transfer function"), Column("gain", "Gain"),
+               Column("numerator", "Numerator"), Column("denominator", "Denominator"),
+               Column("static_gain", "Static gain"))
+    return Table(name, "Transfer functions in factored form (output per rad of control)", columns,
+                 tuple(rows))
+
+
+# ------------------------------------------------------------------ provenance
+
+def provenance_tables(inputs, criteria_sets) -> tuple:
+    """(input files with their SHA-256, criteria sets with their editions)."""
+    return (
+        Table("provenance-inputs", "Input files (SHA-256 of their bytes)",
+              (Column("file", "File"), Column("sha256", "SHA-256")), tuple(inputs)),
+        Table("provenance-criteria", "Criteria sets",
+              (Column("name", "Set"), Column("edition", "Edition"), Column("title", "Title")),
+              tuple({"name": c.name, "edition": c.edition, "title": c.title} for c in criteria_sets)),
+    )
+
+
+# ------------------------------------------------------------------ studies
+
+_SWEEP_FIGURES = (("dutch_roll_frequency", "DR omega_n", "rad/s"), ("dutch_roll_damping", "DR zeta", "-"),
+                  ("roll_time_constant", "T_R", "s"), ("spiral_time_to_double", "spiral T_2", "s"),
+                  ("spiral_time_to_half", "spiral T_half", "s"),
+                  ("roll_spiral_frequency", "RS omega_n", "rad/s"), ("roll_spiral_damping", "RS zeta", "-"))
+_MODE_SHORT = {"dutch_roll": "DR", "roll_subsidence": "roll", "spiral": "spiral", "roll_spiral": "RS"}
+
+
+def sweep_table(result, name="sweep") -> Table:
+    """One row per condition and grid point of a :class:`~latdyn.studies.sweep.SweepResult`:
+    the parameters (file units), the mode figures present anywhere (SI) and the levels in short."""
+    import numpy as np
+
+    from latdyn.studies.sweep import level_text
+
+    columns = [Column("condition", "Condition")]
+    columns += [Column(f"p{k}", axis.key.label, digits=6, style="general")
+                for k, axis in enumerate(result.axes)]
+    shown = [Column(key, title, unit) for key, title, unit in _SWEEP_FIGURES
+             if any(np.isfinite(getattr(c.result.figures, key)).any() for c in result.conditions)]
+    columns += shown
+    columns += [Column(f"levels:{c.name}", f"{c.name} levels") for c in result.criteria]
+    grid = result.grid()
+    rows = []
+    for item in result.conditions:
+        figures = item.result.figures
+        for i in range(len(grid)):
+            row = {"condition": item.condition.name}
+            for k in range(len(result.axes)):
+                row[f"p{k}"] = float(grid[i, k])
+            for column in shown:
+                value = float(getattr(figures, column.key)[i])
+                row[column.key] = value if np.isfinite(value) else None
+            for criteria in result.criteria:
+                parts = [f"{_MODE_SHORT[mode]} {level_text(criteria, grades.level[i])}"
+                         for (set_name, mode), grades in item.result.levels.items()
+                         if set_name == criteria.name and int(grades.level[i]) != 0]
+                row[f"levels:{criteria.name}"] = ", ".join(parts) or "-"
+            rows.append(row)
+    return Table(name, "Sweep", tuple(columns), tuple(rows))
+
+
+_SENSITIVITY_FIGURES = {
+    "dutch_roll_frequency": "Dutch roll omega_n [rad/s]",
+    "dutch_roll_damping": "Dutch roll zeta [-]",
+    "roll_time_constant": "Roll time constant T_R [s]",
+    "spiral_root": "Spiral root [1/s]",
+    "roll_spiral_frequency": "Roll-spiral omega_n [rad/s]",
+    "roll_spiral_damping": "Roll-spiral zeta [-]",
+}
+
+
+def sensitivity_table(results, top=0, name="sensitivity") -> Table:
+    """Ranked sensitivities (per condition and figure) of
+    :func:`latdyn.studies.sensitivity.sensitivities`; ``top`` > 0 keeps the N largest."""
+    rows = []
+    for result in results:
+        for figure in dict.fromkeys(s.figure for s in result.items):
+            ranked = result.for_figure(figure)
+            for rank, item in enumerate(ranked[:top] if top > 0 else ranked, start=1):
+                rows.append({"condition": result.condition.name,
+                             "figure": _SENSITIVITY_FIGURES[figure], "rank": rank,
+                             "parameter": item.parameter, "value": item.value,
+                             "derivative": item.derivative, "normalised": item.normalised})
+    columns = (Column("condition", "Condition"), Column("figure", "Figure"), Column("rank", "Rank"),
+               Column("parameter", "Parameter"), Column("value", "Value", "SI"),
+               Column("derivative", "d figure / d parameter", "SI", style="general"),
+               Column("normalised", "% per %", digits=3, style="fixed", signed=True))
+    return Table(name, "Normalised sensitivities", columns, tuple(rows))
+
+
+def uncertainty_tables(result) -> tuple:
+    """(level probabilities, figure percentiles) of an
+    :class:`~latdyn.studies.uncertainty.UncertaintyResult`."""
+    from latdyn.display import format_number
+    from latdyn.studies.uncertainty import standard_errors
+
+    level_rows, figure_rows = [], []
+    for item in result.conditions:
+        for (set_name, mode), probabilities in item.probabilities.items():
+            if mode == "roll_spiral" and probabilities["not assessed"] == 1.0:
+                continue  # no sample has a roll-spiral oscillation
+            errors = standard_errors(probabilities, result.samples)
+            parts = [f"{word} {format_number(100 * p, 2, style='fixed')}% "
+                     f"(±{format_number(100 * errors[word], 2, style='fixed')})"
+                     for word, p in probabilities.items() if p > 0]
+            level_rows.append({"condition": item.condition.name, "criteria": set_name,
+                               "mode": MODE_LABELS[mode], "probabilities": "; ".join(parts)})
+        for figure, values in item.percentiles.items():
+            if not values["available"]:
+                continue
+            figure_rows.append({"condition": item.condition.name, "figure": figure,
+                                **{key: values[key] for key in ("p5", "p50", "p95", "mean")},
+                                "available": 100 * values["available"]})
+    return (
+        Table("uncertainty-levels", "Level probabilities",
+              (Column("condition", "Condition"), Column("criteria", "Criteria"), Column("mode", "Mode"),
+               Column("probabilities", "Probability of each level (± standard error)")),
+              tuple(level_rows)),
+        Table("uncertainty-figures", "Percentiles of the mode figures",
+              (Column("condition", "Condition"), Column("figure", "Figure"), Column("p5", "5 %"),
+               Column("p50", "median"), Column("p95", "95 %"), Column("mean", "mean"),
+               Column("available", "samples with the mode", "%", digits=1, style="fixed")),
+              tuple(figure_rows)),
+    )
