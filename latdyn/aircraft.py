@@ -970,5 +970,14 @@ def load_aircraft(path) -> Aircraft:
     InputError
         One line naming the file, the condition, the key, what was expected
         and what was found.
+
+    Warns
+    -----
+    latdyn.errors.LatdynWarning
+        Each of ``Aircraft.warnings`` (implausible derivative signs).
     """
-    return aircraft_from_tree(read_tree(os.fspath(path)))
+    from latdyn.errors import warn
+
+    aircraft = aircraft_from_tree(read_tree(os.fspath(path)))
+    warn(aircraft.warnings)
+    return aircraft

@@ -146,6 +146,20 @@ class Assessment:
             return 0
         return 1 if self.passed else 2
 
+    def summary(self) -> str:
+        """One line: criteria set, mode, result and the governing parameter against its limit."""
+        text = f"{self.criteria} {self.mode}: {self.result}"
+        if self.governing is not None:
+            value = "n/a" if self.value is None else f"{self.value:.4g}"
+            unit = f" {self.unit}" if self.unit and self.unit != "-" else ""
+            text += f", {self.governing} {value}{unit}"
+            if self.limit is not None:
+                text += f" (limit {self.limit:.4g})"
+        return text
+
+    def __repr__(self):
+        return f"<Assessment {self.summary()}; guidance only>"
+
     def as_dict(self) -> dict:
         """The JSON entry of ``latdyn assess --format json``."""
         return {"criteria": self.criteria, "edition": self.edition, "mode": self.mode,
@@ -212,6 +226,18 @@ class ConditionAssessment:
                 "assessments": [a.as_dict() for a in self.assessments], "flight_phase": self.flight_phase,
                 "worst": worst}
 
+    def __repr__(self):
+        worst = [self.worst(name) for name in dict.fromkeys(a.criteria for a in self.assessments)]
+        text = "; ".join(f"worst {entry.summary()}" for entry in worst if entry is not None)
+        return (f"<ConditionAssessment {self.name} (category {self.category or '-'}): "
+                f"{len(self.assessments)} assessments; {text or 'nothing assessed'}; guidance only>")
+
+    def to_pandas(self):
+        """The assessments as a DataFrame (needs pandas); see :func:`latdyn.frames.assessment_frame`."""
+        from latdyn.frames import assessment_frame
+
+        return assessment_frame(self)
+
 
 @dataclass(frozen=True)
 class AircraftAssessment:
@@ -251,6 +277,27 @@ class AircraftAssessment:
                 "criteria": [{"name": c.name, "edition": c.edition, "title": c.title,
                               "document": c.document} for c in self.criteria],
                 "notes": list(self.notes)}
+
+    def __repr__(self):
+        counts = {}
+        for condition in self.conditions:
+            for entry in condition.assessments:
+                key = f"{entry.criteria} {entry.result}"
+                counts[key] = counts.get(key, 0) + 1
+        tally = ", ".join(f"{key} x{count}" for key, count in counts.items())
+        return (f"<AircraftAssessment {self.aircraft}: {len(self.conditions)} conditions; "
+                f"{tally or 'nothing assessed'}; guidance only>")
+
+    def to_pandas(self):
+        """The assessments as a DataFrame, one row per condition, mode and criteria set (needs pandas).
+
+        Columns are the fields of ``latdyn assess --format json``; the
+        guidance-only notice is in ``frame.attrs["notice"]``.  See
+        :func:`latdyn.frames.assessment_frame`.
+        """
+        from latdyn.frames import assessment_frame
+
+        return assessment_frame(self)
 
 
 def default_criteria(airplane_class) -> tuple:

@@ -11,8 +11,9 @@ from __future__ import annotations
 import argparse
 import importlib
 import sys
+import warnings
 
-from latdyn.errors import InputError
+from latdyn.errors import InputError, LatdynWarning
 
 __all__ = ["main", "COMMANDS"]
 
@@ -73,7 +74,10 @@ def main(argv=None) -> int:
     args = parser.parse_args(argv)
     debug = getattr(args, "debug", False)
     try:
-        status = _command_module(args.command).run(args)
+        with warnings.catch_warnings():
+            # the commands print these texts themselves (from Aircraft.warnings and the read-outs)
+            warnings.simplefilter("ignore", LatdynWarning)
+            status = _command_module(args.command).run(args)
     except InputError as error:
         if debug:
             raise

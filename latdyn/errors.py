@@ -8,7 +8,26 @@ exits with status 2.
 
 from __future__ import annotations
 
-__all__ = ["InputError", "format_problem", "describe_value"]
+__all__ = ["InputError", "LatdynWarning", "warn", "format_problem", "describe_value"]
+
+
+class LatdynWarning(UserWarning):
+    """Something worth a look that does not stop the work: an implausible derivative sign,
+    a response beyond the small-disturbance range.
+
+    The same texts stay on the result objects (``Aircraft.warnings``,
+    ``ResponseReadouts.warnings``); the command line prints them from there
+    and silences this category.  In a script or notebook, filter them as any
+    warning: ``warnings.simplefilter("ignore", latdyn.LatdynWarning)``.
+    """
+
+
+def warn(texts, stacklevel=3):
+    """Raise each text as a :class:`LatdynWarning` (``stacklevel`` 3: the caller's caller)."""
+    import warnings
+
+    for text in texts:
+        warnings.warn(text, LatdynWarning, stacklevel=stacklevel)
 
 
 def describe_value(value, limit: int = 60) -> str:

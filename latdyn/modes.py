@@ -437,6 +437,32 @@ class Mode:
         """The least stable root has a positive real part."""
         return not self.stable and not self.neutral
 
+    def summary(self) -> str:
+        """One line: the root and the figures that matter for this mode (4 significant digits).
+
+        An oscillation gives its root pair, natural frequency and signed
+        damping ratio; a real mode its root and time constant, or its time to
+        double when divergent; an unstable or neutral mode says so.
+        """
+        root = self.eigenvalue
+        if self.oscillatory:
+            text = (f"{self.name}: {root.real:.4g} ± {abs(root.imag):.4g}j 1/s, "
+                    f"omega_n {self.natural_frequency:.4g} rad/s, zeta {self.damping_ratio:.4g}")
+        elif self.time_constant is not None:
+            text = f"{self.name}: {root.real:.4g} 1/s, time constant {self.time_constant:.4g} s"
+        elif self.time_to_double is not None:
+            text = f"{self.name}: {root.real:+.4g} 1/s, time to double {self.time_to_double:.4g} s"
+        else:
+            text = f"{self.name}: {root.real:.4g} 1/s"
+        if self.neutral:
+            text += " (NEUTRAL)"
+        elif not self.stable:
+            text += " (DIVERGENT)"
+        return text
+
+    def __repr__(self):
+        return f"<Mode {self.summary()}>"
+
     def as_dict(self) -> dict:
         """The entry of the ``latdyn modes --json`` contract (SI; null where it does not apply)."""
         root = self.eigenvalue
@@ -501,6 +527,20 @@ class ModeSet:
         if mode is None:
             raise KeyError(f"no {name} mode here ({self.pattern})")
         return mode
+
+    def __repr__(self):
+        added = f"; {len(self.added)} added roots" if self.added else ""
+        return "<ModeSet " + "; ".join(mode.summary() for mode in self.modes) + added + ">"
+
+    def to_pandas(self, added=False):
+        """The modes as a DataFrame, one row per mode (needs pandas).
+
+        Columns are the fields of a mode in ``latdyn modes --json``; see
+        :func:`latdyn.frames.modes_frame`.
+        """
+        from latdyn.frames import modes_frame
+
+        return modes_frame(self, added)
 
 
 def _make_mode(name, roots, vector, neutral_tolerance, phi_to_beta=None, reference="phi"):

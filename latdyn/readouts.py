@@ -282,7 +282,15 @@ def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseRe
     Returns
     -------
     ResponseReadouts
+
+    Warns
+    -----
+    latdyn.errors.LatdynWarning
+        Each of ``ResponseReadouts.warnings`` (a signal beyond the
+        small-disturbance range).
     """
+    from latdyn.errors import warn
+
     time = np.asarray(response.time)
     peaks = []
     for index, name in enumerate(response.output_names):
@@ -310,4 +318,5 @@ def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseRe
                             f"{math.degrees(limit):.0f} deg small-disturbance range of the linear "
                             f"model: reduce the amplitude or the duration")
     phi = response.signal("phi")
+    warn(warnings)
     return ResponseReadouts(tuple(peaks), dutch, float(phi[-1]), float(time[-1]), tuple(warnings))

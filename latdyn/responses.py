@@ -343,6 +343,23 @@ class Response:
             return self.inputs[:, self.input_names.index(name)]
         raise KeyError(f"no signal {name!r} in the response")
 
+    def __repr__(self):
+        label = f" {self.label}" if self.label else ""
+        what = f": {self.description}" if self.description else ""
+        end = float(self.time[-1]) if len(self.time) else 0.0
+        return (f"<Response{label}{what}; t = 0 to {end:.4g} s, {len(self.time)} samples; "
+                f"states {', '.join(self.state_names)}>")
+
+    def to_pandas(self):
+        """The time history as a DataFrame indexed by time [s] (needs pandas).
+
+        Columns are those of ``latdyn respond --csv`` (display units: deg,
+        deg/s, g); see :func:`latdyn.frames.response_frame`.
+        """
+        from latdyn.frames import response_frame
+
+        return response_frame(self)
+
 
 def simulate(model, history, initial=None, hold="zero", label="") -> Response:
     """Time response of a lateral model to an input history.

@@ -164,6 +164,22 @@ class SweepResult:
         mesh = np.meshgrid(*[axis.values for axis in self.axes], indexing="ij")
         return np.stack([m.ravel() for m in mesh], axis=1)
 
+    def __repr__(self):
+        axes = " x ".join(f"{a.key.text} {a.values[0]:.4g} to {a.values[-1]:.4g} ({len(a.values)})"
+                          for a in self.axes)
+        return (f"<SweepResult {self.aircraft.name}: {axes}; {len(self.conditions)} conditions; "
+                f"{len(self.crossings)} level-boundary crossings; guidance only>")
+
+    def to_pandas(self):
+        """One row per condition and grid point, as in ``latdyn sweep --format json`` (needs pandas).
+
+        See :func:`latdyn.frames.sweep_frame`; the crossings and the notice
+        are in ``frame.attrs``.
+        """
+        from latdyn.frames import sweep_frame
+
+        return sweep_frame(self)
+
 
 def boundary_name(criteria, grade_index) -> str:
     """Name of a grade's boundary: "level 1".. or "pass" for a pass/fail set."""

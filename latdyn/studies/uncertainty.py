@@ -239,6 +239,21 @@ class UncertaintyResult:
     criteria: tuple
     conditions: tuple
 
+    def __repr__(self):
+        names = ", ".join(c.name for c in self.criteria)
+        return (f"<UncertaintyResult {self.aircraft.name}: {self.samples} samples (seed {self.seed}); "
+                f"{len(self.conditions)} conditions; criteria {names}; guidance only>")
+
+    def to_pandas(self, table="levels"):
+        """Level probabilities (``table="levels"``) or figure percentiles (``"figures"``) (needs pandas).
+
+        Columns follow ``latdyn uncertainty --format json``; see
+        :func:`latdyn.frames.uncertainty_frame`.
+        """
+        from latdyn.frames import uncertainty_frame
+
+        return uncertainty_frame(self, table)
+
 
 def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, criteria_sets=None,
                 progress=False) -> UncertaintyResult:
