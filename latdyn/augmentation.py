@@ -275,7 +275,9 @@ def augmentation_blocks(model: LateralModel, augmentation: Augmentation, loop_ga
     Parameters
     ----------
     model : LateralModel
-        The bare airframe (states beta, p, r, phi; inputs aileron, rudder surface).
+        The bare airframe (states beta, p, r, phi; inputs aileron and rudder
+        surface, then any further inputs such as gusts, which pass straight
+        to the airframe as external inputs of the closed loop).
     augmentation : Augmentation
     loop_gain : float
         Factor on the yaw- and roll-damper gains (1: as given; 0: the loops open).
@@ -289,9 +291,10 @@ def augmentation_blocks(model: LateralModel, augmentation: Augmentation, loop_ga
     aug = augmentation
     airframe = Block("airframe", np.asarray(model.A, float), np.asarray(model.B, float),
                      np.asarray(model.C, float), np.asarray(model.D, float),
-                     ("airframe.aileron", "airframe.rudder"), tuple(model.output_names),
+                     tuple(f"airframe.{name}" for name in model.input_names), tuple(model.output_names),
                      tuple(model.state_names))
-    blocks, feeds = [airframe], {}
+    blocks = [airframe]
+    feeds = {f"airframe.{name}": [(name, 1.0)] for name in model.input_names[2:]}
     k_yaw = aug.yaw_damper_gain * loop_gain
     k_roll = aug.roll_damper_gain * loop_gain
 

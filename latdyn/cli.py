@@ -27,6 +27,7 @@ COMMANDS = (
     ("sweep", "parameter sweeps: mode figures and levels on a grid, level-boundary crossings"),
     ("sensitivity", "ranked sensitivities of the mode figures to each derivative and mass property"),
     ("uncertainty", "Monte Carlo: probability of each level and percentiles of the mode figures"),
+    ("turbulence", "RMS response to Dryden lateral turbulence, spectra and a seeded time history"),
     ("schema", "the JSON Schema of the aircraft file's keys, for editors that check TOML"),
     ("identify", "derivatives from measured flight-test time histories, beside the prediction"),
 )

@@ -1,0 +1,156 @@
+"""``latdyn turbulence FILE --sigma-v S --scale-length L [--condition NAME] [--format table|json]
+[--plot OUT] [--csv OUT --duration T --dt DT --seed N]``: RMS response to Dryden lateral turbulence.
+
+All the work is done by latdyn.turbulence (and latdyn.augmentation for an augmented aircraft);
+this module checks the options, prints and writes.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import sys
+
+__all__ = ["add_arguments", "run", "turbulence_rows"]
+
+FORMATS = ("table", "json")
+_COMMAND_LINE = "command line"
+COLUMNS = (("condition", "Condition"), ("aircraft", "Aircraft"), ("beta", "RMS beta [deg]"),
+           ("p", "RMS p [deg/s]"), ("r", "RMS r [deg/s]"), ("phi", "RMS phi [deg]"),
+           ("ny", "RMS n_y [g]"), ("left_out", "Modes left out"))
+
+
+def add_arguments(parser):
+    parser.add_argument("file", metavar="FILE", help="aircraft file (TOML)")
+    parser.add_argument("--sigma-v", type=float, required=True, metavar="S",
+                        help="RMS lateral gust velocity sigma_v [m/s]")
+    parser.add_argument("--scale-length", type=float, required=True, metavar="L",
+                        help="lateral scale length L_v [m]")
+    parser.add_argument("--sigma-w", type=float, metavar="S",
+                        help="RMS vertical gust velocity for the roll-rate gust [m/s] (default sigma_v)")
+    parser.add_argument("--scale-length-w", type=float, metavar="L",
+                        help="vertical scale length for the roll-rate gust [m] (default L_v)")
+    parser.add_argument("--no-rotary", action="store_true", help="leave out the roll- and yaw-rate gusts")
+    parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
+    parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default table)")
+    parser.add_argument("--plot", metavar="OUT", help="write the output spectra (.png, .pdf, .svg)")
+    parser.add_argument("--csv", metavar="OUT",
+                        help="write a seeded time history (one file per condition when several)")
+    parser.add_argument("--duration", type=float, default=120.0, metavar="T",
+                        help="length of the time history [s] (default 120)")
+    parser.add_argument("--dt", type=float, default=0.02, metavar="DT", help="time step [s] (default 0.02)")
+    parser.add_argument("--seed", type=int, default=1, metavar="N", help="random seed (default 1)")
+
+
+def _positive(value, option):
+    from latdyn.errors import InputError
+
+    if value is not None and (not math.isfinite(value) or value <= 0):
+        raise InputError(_COMMAND_LINE, option, "a number > 0", repr(value))
+
+
+def turbulence_rows(entries):
+    """Table rows of (condition name, label, TurbulenceResult) entries, in degrees and g."""
+    from latdyn.tables import format_number
+    from latdyn.turbulence import DEGREES, RMS_OUTPUTS
+
+    rows = []
+    for name, label, result in entries:
+        row = {"condition": name, "aircraft": label}
+        for key in RMS_OUTPUTS:
+            row[key] = format_number(result.rms[key] * DEGREES[key])
+        row["left_out"] = ", ".join(f"{r.real:.4g} 1/s" for r in result.left_out) or "-"
+        rows.append(row)
+    return rows
+
+
+def run(args):
+    from latdyn import __version__
+    from latdyn.aircraft import load_aircraft
+    from latdyn.augmentation import AugmentedModel, condition_model
+    from latdyn.errors import InputError
+    from latdyn.tables import render_text
+    from latdyn.turbulence import Gust, turbulence_response
+
+    for value, option in ((args.sigma_v, "--sigma-v"), (args.scale_length, "--scale-length"),
+                          (args.sigma_w, "--sigma-w"), (args.scale_length_w, "--scale-length-w"),
+                          (args.duration, "--duration"), (args.dt, "--dt")):
+        _positive(value, option)
+    if args.dt >= args.duration:
+        raise InputError(_COMMAND_LINE, "--dt", f"a step smaller than the duration ({args.duration:g} s)",
+                         f"{args.dt:g} s")
+    if args.duration / args.dt > 2_000_000:
+        raise InputError(_COMMAND_LINE, "--dt", "at most 2000000 samples", f"{args.duration / args.dt:.3g}")
+    from latdyn.output_files import check_output_file
+
+    if args.plot:
+        check_output_file(args.plot, "--plot", figure=True)
+    if args.csv:
+        check_output_file(args.csv, "--csv")
+    aircraft = load_aircraft(args.file)
+    if aircraft.geometry is None:
+        raise InputError(aircraft.file, "geometry.span", "a [geometry] span (the rotary gusts need it)",
+                         "no [geometry] block")
+    chosen = (aircraft.condition(args.condition),) if args.condition else aircraft.conditions
+    gust = Gust(args.sigma_v, args.scale_length, args.sigma_w, args.scale_length_w, not args.no_rotary)
+    span = aircraft.geometry.span
+    entries, documents, primary = [], [], []
+    for condition in chosen:
+        model = condition_model(aircraft, condition)
+        result = turbulence_response(model, gust, span)
+        primary.append(result)
+        document = {"name": condition.name, "turbulence": result.as_dict(),
+                    "turbulence_notes": result.notes()}
+        if isinstance(model, AugmentedModel):
+            bare = turbulence_response(model.bare, gust, span)
+            entries += [(condition.name, "augmented", result), (condition.name, "bare airframe", bare)]
+            document["bare"] = {"turbulence": bare.as_dict(), "turbulence_notes": bare.notes()}
+        else:
+            entries.append((condition.name, "bare airframe", result))
+        documents.append(document)
+    written = []
+    if args.csv:
+        from latdyn.commands.respond import case_csv_paths
+
+        paths = case_csv_paths(args.csv, [c.name for c in chosen])
+        for path, result in zip(paths, primary):
+            _write_history(path, result, args)
+            written.append(path)
+    if args.plot:
+        from latdyn.plots.turbulence import spectra_figure
+
+        spectra_figure(entries, path=args.plot, title=aircraft.name)
+        written.append(args.plot)
+    if args.format == "json":
+        payload = {"latdyn_version": __version__, "aircraft": aircraft.name, "file": aircraft.file,
+                   "conditions": documents}
+        sys.stdout.write(json.dumps(payload, indent=2, allow_nan=False) + "\n")
+    else:
+        lines = [f"{aircraft.name}  ({aircraft.file})",
+                 f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2): sigma_v {args.sigma_v:g} m/s, "
+                 f"L_v {args.scale_length:g} m"
+                 + ("" if args.no_rotary else "; with roll- and yaw-rate gusts (forms from memory), "
+                    f"sigma_w {gust.sigma_w or args.sigma_v:g} m/s, L_w {gust.scale_length_w or args.scale_length:g} m"),
+                 "RMS from the stationary covariance (Lyapunov); a neutral or divergent mode (usually the "
+                 "spiral) is left out and named: the pilot holds the bank against it.",
+                 render_text(COLUMNS, turbulence_rows(entries))]
+        lines += [f"wrote {path}" for path in written]
+        sys.stdout.write("\n".join(lines) + "\n")
+    return 0
+
+
+def _write_history(path, result, args):
+    import numpy as np
+
+    from latdyn.output_files import atomic_output
+    from latdyn.turbulence import DEGREES, RMS_OUTPUTS, time_history
+
+    time, outputs = time_history(result.system, args.duration, args.dt, args.seed)
+    names = {"beta": "beta_deg", "p": "p_deg_s", "r": "r_deg_s", "phi": "phi_deg", "ny": "ny_g"}
+    factors = np.array([DEGREES[k] for k in RMS_OUTPUTS])
+    with atomic_output(path, text=True) as handle:
+        handle.write(f"# seeded turbulence time history, seed {args.seed}, sigma_v {args.sigma_v:g} m/s, "
+                     f"L_v {args.scale_length:g} m\n")
+        handle.write("time," + ",".join(names[k] for k in RMS_OUTPUTS) + "\n")
+        for t, row in zip(time, outputs * factors):
+            handle.write(f"{t:.6g}," + ",".join(f"{v:.8g}" for v in row) + "\n")
