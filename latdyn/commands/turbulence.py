@@ -11,13 +11,10 @@ import json
 import math
 import sys
 
-__all__ = ["add_arguments", "run", "turbulence_rows"]
+__all__ = ["add_arguments", "run"]
 
 FORMATS = ("table", "json")
 _COMMAND_LINE = "command line"
-COLUMNS = (("condition", "Condition"), ("aircraft", "Aircraft"), ("beta", "RMS beta [deg]"),
-           ("p", "RMS p [deg/s]"), ("r", "RMS r [deg/s]"), ("phi", "RMS phi [deg]"),
-           ("ny", "RMS n_y [g]"), ("left_out", "Modes left out"))
 
 
 def add_arguments(parser):
@@ -49,27 +46,13 @@ def _positive(value, option):
         raise InputError(_COMMAND_LINE, option, "a number > 0", repr(value))
 
 
-def turbulence_rows(entries):
-    """Table rows of (condition name, label, TurbulenceResult) entries, in degrees and g."""
-    from latdyn.tables import format_number
-    from latdyn.turbulence import DEGREES, RMS_OUTPUTS
-
-    rows = []
-    for name, label, result in entries:
-        row = {"condition": name, "aircraft": label}
-        for key in RMS_OUTPUTS:
-            row[key] = format_number(result.rms[key] * DEGREES[key])
-        row["left_out"] = ", ".join(f"{r.real:.4g} 1/s" for r in result.left_out) or "-"
-        rows.append(row)
-    return rows
-
-
 def run(args):
     from latdyn import __version__
     from latdyn.aircraft import load_aircraft
     from latdyn.augmentation import AugmentedModel, condition_model
     from latdyn.errors import InputError
-    from latdyn.tables import render_text
+    from latdyn.report.render import render
+    from latdyn.report.tables import turbulence_table
     from latdyn.turbulence import Gust, turbulence_response
 
     for value, option in ((args.sigma_v, "--sigma-v"), (args.scale_length, "--scale-length"),
@@ -133,7 +116,7 @@ def run(args):
                     f"sigma_w {gust.sigma_w or args.sigma_v:g} m/s, L_w {gust.scale_length_w or args.scale_length:g} m"),
                  "RMS from the stationary covariance (Lyapunov); a neutral or divergent mode (usually the "
                  "spiral) is left out and named: the pilot holds the bank against it.",
-                 render_text(COLUMNS, turbulence_rows(entries))]
+                 render(turbulence_table(entries), "text")]
         lines += [f"wrote {path}" for path in written]
         sys.stdout.write("\n".join(lines) + "\n")
     return 0

@@ -24,6 +24,7 @@ __all__ = [
     "derivative_table", "derivative_caption", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
+    "turbulence_table",
 ]
 
 
@@ -618,3 +619,21 @@ def uncertainty_tables(result) -> tuple:
                Column("available", "samples with the mode", "%", digits=1, style="fixed")),
               tuple(figure_rows)),
     )
+
+
+def turbulence_table(entries, name="turbulence") -> Table:
+    """RMS response to turbulence of (condition name, aircraft label, TurbulenceResult) entries
+    (:func:`latdyn.turbulence.turbulence_response`), in degrees, deg/s and g."""
+    from latdyn.turbulence import DEGREES, RMS_OUTPUTS
+
+    rows = []
+    for condition, label, result in entries:
+        row = {"condition": condition, "aircraft": label}
+        row.update({key: result.rms[key] * DEGREES[key] for key in RMS_OUTPUTS})
+        row["left_out"] = ", ".join(f"{r.real:.4g} 1/s" for r in result.left_out) or "-"
+        rows.append(row)
+    columns = (Column("condition", "Condition"), Column("aircraft", "Aircraft"),
+               Column("beta", "RMS beta", "deg"), Column("p", "RMS p", "deg/s"),
+               Column("r", "RMS r", "deg/s"), Column("phi", "RMS phi", "deg"), Column("ny", "RMS n_y", "g"),
+               Column("left_out", "Roots left out"))
+    return Table(name, "RMS response to Dryden lateral turbulence", columns, tuple(rows))
