@@ -24,14 +24,18 @@ __all__ = [
     "Geometry", "MassProperties", "FlightCondition", "NondimensionalDerivatives",
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
     "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES", "FLIGHT_PHASES",
-    "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG", "Augmentation", "MAX_PADE_ORDER",
+    "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG", "PHASE_CATEGORIES", "Augmentation", "MAX_PADE_ORDER",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
 CATEGORIES = ("A", "B", "C")
 AXES = ("body", "stability")
-#: Sub-phases of Category A named by MIL-F-8785C for its combat and ground-attack bands.
-FLIGHT_PHASES = ("combat", "ground_attack")
+#: Flight phases a condition may state, with the category each belongs to: the Category A
+#: combat and ground-attack phases of MIL-F-8785C's bands, and the phases the roll-performance
+#: rules name (14 CFR 23.157 take-off and approach; the en-route phases).
+PHASE_CATEGORIES = {"combat": "A", "ground_attack": "A", "climb": "B", "cruise": "B", "descent": "B",
+                    "takeoff": "C", "approach": "C", "landing": "C"}
+FLIGHT_PHASES = tuple(PHASE_CATEGORIES)
 
 
 @dataclass(frozen=True)
@@ -104,8 +108,9 @@ class FlightCondition:
     description : str or None
         Free text.
     flight_phase : str or None
-        Sub-phase within the category for bands that hold only in some
-        phases, "combat" or "ground_attack" (MIL-F-8785C Category A).
+        The flight phase, for bands that hold only in some phases:
+        "combat" or "ground_attack" (MIL-F-8785C Category A), "climb",
+        "cruise", "descent" (B), "takeoff", "approach", "landing" (C).
     """
 
     name: str
@@ -721,9 +726,16 @@ def _flight(entry, name, context):
     category = _word(entry, "category", "condition.category", context, CATEGORIES, required=False)
     flight_phase = _word(entry, "flight_phase", "condition.flight_phase", context, FLIGHT_PHASES,
                          required=False)
-    if flight_phase is not None and category != "A":
+    if flight_phase in ("combat", "ground_attack") and category != "A":
         context.fail("condition.flight_phase", 'category = "A" with a combat or ground-attack phase',
                      f"category {describe_value(category) if category else 'not given'}",
+                     entry["flight_phase"])
+    if (flight_phase is not None and category is not None
+            and PHASE_CATEGORIES[flight_phase] != category):
+        context.fail("condition.flight_phase",
+                     f"a phase of category {category} (" + ", ".join(
+                         f'"{p}"' for p, c in PHASE_CATEGORIES.items() if c == category) + ")",
+                     f'"{flight_phase}", a category {PHASE_CATEGORIES[flight_phase]} phase',
                      entry["flight_phase"])
     altitude = _number(entry, "altitude", "condition.altitude", context, "length", required=False)
     if altitude is not None and not (atmosphere.MIN_ALTITUDE <= altitude <= atmosphere.MAX_ALTITUDE):

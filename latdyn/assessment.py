@@ -25,7 +25,7 @@ The level bands are guidance only (:data:`NOTICE`).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, fields, replace
 
 import numpy as np
 
@@ -41,7 +41,7 @@ __all__ = [
     "BandSelection", "grade", "dutch_roll_grades", "roll_grades", "spiral_grades",
     "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
     "phi_to_beta_excess", "stack_levels", "Assessment", "ConditionAssessment", "AircraftAssessment",
-    "assess_modes", "assess", "default_criteria", "level_words",
+    "assess_modes", "assess", "default_criteria", "level_words", "assess_roll_performance",
 ]
 
 #: The guidance-only notice carried by every table, report and plot that shows a level.
@@ -50,7 +50,7 @@ NOTICE = ("GUIDANCE ONLY: handling-qualities levels are guidance against publish
           "local regulations and licensed engineering judgement govern.")
 
 DEFAULT_MILITARY = ("mil-f-8785c",)
-DEFAULT_CIVIL = ("14cfr23-181", "14cfr25-181")
+DEFAULT_CIVIL = ("14cfr23-181", "14cfr25-181", "14cfr23-157", "amc25-147f")
 
 # ============================================================ dataclass layer
 def level_words(level, passed=None) -> str:
@@ -108,6 +108,8 @@ class Assessment:
     notes : tuple of str
     missing : tuple of str
         What the file lacks for a full assessment.
+    bank_change : float or None
+        Roll performance: the bank-angle change the governing row asks for [rad].
     """
 
     criteria: str
@@ -126,6 +128,7 @@ class Assessment:
     confidence: str | None = None
     notes: tuple = ()
     missing: tuple = ()
+    bank_change: float | None = None
 
     def __iter__(self):
         return (getattr(self, f.name) for f in fields(self))
@@ -162,11 +165,14 @@ class Assessment:
 
     def as_dict(self) -> dict:
         """The JSON entry of ``latdyn assess --format json``."""
-        return {"criteria": self.criteria, "edition": self.edition, "mode": self.mode,
-                "level": self.level, "pass": self.passed, "governing": self.governing,
-                "value": self.value, "limit": self.limit, "margin": self.margin,
-                "source": self.source, "margin_fraction": self.margin_fraction, "unit": self.unit,
-                "notes": list(self.notes), "missing": list(self.missing)}
+        out = {"criteria": self.criteria, "edition": self.edition, "mode": self.mode,
+               "level": self.level, "pass": self.passed, "governing": self.governing,
+               "value": self.value, "limit": self.limit, "margin": self.margin,
+               "source": self.source, "margin_fraction": self.margin_fraction, "unit": self.unit,
+               "notes": list(self.notes), "missing": list(self.missing)}
+        if self.mode == "roll_performance":
+            out["bank_change"] = self.bank_change
+        return out
 
 
 @dataclass(frozen=True)
@@ -181,6 +187,8 @@ class ConditionAssessment:
     assessments : tuple of Assessment
     modes : object
         The ModeSet the assessments were made from (None when built from values).
+    roll : latdyn.roll_performance.RollResult or None
+        The rolls after a full roll command (where the file gives aileron travel).
     """
 
     name: str
@@ -190,6 +198,7 @@ class ConditionAssessment:
     altitude: float | None
     assessments: tuple
     modes: object = None
+    roll: object = None
 
     def __iter__(self):
         return iter(self.assessments)
@@ -306,7 +315,7 @@ def default_criteria(airplane_class) -> tuple:
     Examples
     --------
     >>> default_criteria(None)
-    ('14cfr23-181', '14cfr25-181')
+    ('14cfr23-181', '14cfr25-181', '14cfr23-157', 'amc25-147f')
     """
     return DEFAULT_MILITARY if airplane_class else DEFAULT_CIVIL
 
@@ -462,7 +471,7 @@ def _assess_one(criteria, mode_name, mode, airplane_class, category, flight_phas
                 notes.append(f"{words} not given: every {words} gives {chosen.result}"
                              + ("" if len({(r.limit, r.governing) for r in defined}) == 1
                                 else f"; margin shown for the least favourable {words}"))
-        return Assessment(*list(chosen)[:-2], notes=tuple(notes), missing=())
+        return replace(chosen, notes=tuple(notes), missing=())
     # The unknowns change the result: say which ones, assess nothing more.
     keys = list(results)
     missing = []
@@ -545,6 +554,151 @@ def assess_modes(modes, criteria_sets, airplane_class=None, category=None, fligh
     return tuple(out)
 
 
+def _roll_entry(criteria, **values):
+    fields_ = dict(level=None, passed=None, governing="time_to_bank", value=None, limit=None,
+                   margin=None, margin_fraction=None, unit="s")
+    fields_.update(values)
+    return Assessment(criteria.name, criteria.edition, "roll_performance", **fields_)
+
+
+def assess_roll_performance(model, controls, criteria_sets, airplane_class=None, category=None,
+                            flight_phase=None, mass=None, speed=None, condition_name="") -> tuple:
+    """Roll performance of one condition against the roll-performance rows of criteria sets.
+
+    The graded figure is the time to reach each row's bank-angle change after
+    an abrupt full roll command, rate-limited where a rate limit is given,
+    rudder pedals free, from wings level (:mod:`latdyn.roll_performance`).
+    The row that sets the margin is the next-better boundary, as for the modes.
+
+    Parameters
+    ----------
+    model : latdyn.model.LateralModel
+    controls : latdyn.aircraft.Controls or None
+    criteria_sets : iterable of CriteriaSet or str
+    airplane_class, category, flight_phase : str or None
+    mass : float or None
+        [kg], for the civil weight rules.
+    speed : float or None
+        True airspeed [m/s], for rows with a speed range.
+    condition_name : str
+
+    Returns
+    -------
+    assessments : tuple of Assessment
+        One per criteria set with roll-performance rows (``mode`` "roll_performance").
+    roll : latdyn.roll_performance.RollResult or None
+        The rolls themselves (None without aileron travel).
+    """
+    from latdyn import roll_performance as rp
+
+    sets = [c for c in _load_sets(criteria_sets) if c.roll_performance is not None]
+    if not sets:
+        return (), None
+    aileron = getattr(controls, "aileron", None)
+    if aileron is None:
+        missing = (f'aileron travel (aircraft file [controls] aileron_deg, or condition "{condition_name}" '
+                   "[condition.controls])",)
+        return tuple(_roll_entry(c, notes=("no aileron travel given: roll performance not assessed",),
+                                 missing=missing) for c in sets), None
+    rate = getattr(controls, "aileron_rate", None)
+    longest = max(b.max_time for c in sets for b in c.roll_performance.bands)
+    roll = rp.roll_performance(model, aileron, rate, duration=max(10.0, 1.5 * longest))
+    A, B = np.asarray(model.A, float)[None], np.asarray(model.B, float)[None]
+    column = list(model.input_names).index("aileron")
+    bank_row = np.asarray(model.C, float)[list(model.output_names).index("phi")]
+    rate_value = np.inf if rate is None else rate
+    out = []
+    for criteria in sets:
+        entry = criteria.roll_performance
+        bands = [b for b in entry.bands
+                 if b.applies(airplane_class, category, flight_phase, mass, speed, None)]
+        grades_wanted = range(1, criteria.grades + 1) if criteria.assessment == "levels" else [None]
+        chosen = []
+        for level in grades_wanted:
+            candidates = [b for b in bands if b.level == level]
+            chosen.append(min(candidates, key=lambda b: b.time_limit(mass) / b.bank_change)
+                          if candidates else None)
+        if any(b is None for b in chosen):
+            out.append(_roll_entry(criteria, notes=_roll_gap_notes(criteria, entry, airplane_class, category,
+                                                                   flight_phase, mass),
+                                   missing=_roll_missing(entry, airplane_class, category, flight_phase, mass,
+                                                         condition_name)))
+            continue
+        changes = np.array([b.bank_change for b in chosen])
+        times = rp.time_to_bank(np.repeat(A, len(chosen), 0), np.repeat(B, len(chosen), 0),
+                                np.full(len(chosen), aileron), np.full(len(chosen), rate_value), changes,
+                                bank_row, column)
+        limits = np.array([b.time_limit(mass) for b in chosen])
+        grades = grade(times[None, :, None], limits[:, None], PARAMETERS.index("time_to_bank"), -1.0)
+        level = int(grades.level[0])
+        target = min(max(level - 2, 0), len(chosen) - 1)
+        band = chosen[target]
+        value = _number(grades.value[0])
+        notes = [rp.PEDALS_FREE_NOTE, rp.ROLL_DIRECTION_NOTE]
+        if band.bank_change == math.radians(60.0) and criteria.assessment == "pass_fail":
+            notes.append(rp.REVERSAL_NOTE)
+        notes.append(f"aileron {math.degrees(aileron):.3g} deg "
+                     + (f"at {math.degrees(rate):.3g} deg/s" if rate else "as an abrupt step"))
+        if value is None:
+            notes.append(f"the pedals-free roll does not reach {math.degrees(band.bank_change):.3g} deg "
+                         f"within {rp.HORIZON:g} s")
+        coordinated = roll.time_to(band.bank_change, coordinated=True)
+        if math.isfinite(coordinated):
+            notes.append(f"rudder-coordinated roll (zero sideslip, not graded): "
+                         f"{math.degrees(band.bank_change):.3g} deg in {coordinated:.3g} s")
+        if band.time_weight_divisor is not None:
+            notes.append(f"time allowed from the weight formula at W = {mass / POUND_KG:.0f} lb")
+        source = (f'{band.source.document}, {band.source.reference}, row "{band.row}" [{band.source.confidence}]'
+                  + (f": {band.source.caution}" if band.source.caution else ""))
+        passed = None
+        if criteria.assessment == "pass_fail":
+            passed, level = level == 1, None
+        out.append(_roll_entry(criteria, level=level, passed=passed, value=value,
+                               limit=_number(grades.limit[0]),
+                               margin=None if value is None else _number(grades.margin[0]),
+                               margin_fraction=None if value is None else _number(grades.margin_fraction[0]),
+                               source=source, row=band.row, confidence=band.source.confidence,
+                               notes=tuple(notes), bank_change=band.bank_change))
+    return tuple(out), roll
+
+
+POUND_KG = 0.45359237
+
+
+def _roll_gap_notes(criteria, entry, airplane_class, category, flight_phase, mass):
+    """Why no row decides: the rows not built in, or what the condition must state."""
+    notes = []
+    phases = sorted({p for b in entry.bands for p in (b.flight_phases or ())})
+    if phases and flight_phase is None:
+        notes.append(f"{criteria.name}: its rows hold in the " + " and ".join(phases)
+                     + " phases: state the condition's flight_phase")
+    elif phases and flight_phase not in phases and all(b.flight_phases for b in entry.bands):
+        notes.append(f"{criteria.name}: no row for the {flight_phase} phase (rows for "
+                     + " and ".join(phases) + ")")
+    else:
+        notes.append(f"{criteria.name}: no roll-performance row for Class {airplane_class or '(not given)'}, "
+                     f"Category {category or '(not given)'}")
+        if entry.note:
+            notes.append(entry.note)
+    if any(b.speed_low or b.speed_high for b in entry.bands):
+        notes.append("rows with a speed range need V_min and V_max, which the aircraft file does not carry: "
+                     "not applied")
+    return tuple(notes)
+
+
+def _roll_missing(entry, airplane_class, category, flight_phase, mass, condition_name):
+    missing = []
+    if airplane_class is None and any(b.classes is not None for b in entry.bands):
+        missing.append("airplane_class (aircraft file key airplane_class)")
+    if category is None and any(b.categories is not None for b in entry.bands):
+        missing.append(f'category (condition "{condition_name}" key category)')
+    if flight_phase is None and all(b.flight_phases for b in entry.bands):
+        missing.append(f'flight_phase (condition "{condition_name}" key flight_phase)')
+    if mass is None and any("mass" in b.needs() for b in entry.bands):
+        missing.append("mass ([mass] mass)")
+    return tuple(missing)
+
+
 def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessment:
     """Assess every condition of an aircraft against handling-qualities criteria.
 
@@ -587,11 +741,16 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
     for condition in aircraft.conditions:
         flight = condition.flight
         phase = flight_phases.get(condition.name, getattr(flight, "flight_phase", None))
-        modes = model_modes(condition_model(aircraft, condition))
+        model = condition_model(aircraft, condition)
+        modes = model_modes(model)
         assessments = assess_modes(modes, sets, airplane_class, flight.category, phase, flight.altitude,
                                    condition.name)
+        mass = aircraft.mass.mass if aircraft.mass is not None else None
+        rolls, roll = assess_roll_performance(model, getattr(condition, "controls", None), sets,
+                                              airplane_class, flight.category, phase, mass, flight.speed,
+                                              condition.name)
         conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
-                                              flight.altitude, assessments, modes))
+                                              flight.altitude, assessments + rolls, modes, roll))
     notes = []
     if airplane_class is None and any(s.assessment == "levels" for s in sets):
         notes.append("the aircraft file gives no airplane_class: military levels are given only where "

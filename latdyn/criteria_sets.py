@@ -57,6 +57,30 @@ caution wording); ``derivation`` derived by latdyn from a published rule;
 ``programme`` a programme's or company's own rule.  A number known only from
 memory with low confidence is not shipped as a band: a user holding the
 document adds it.
+Roll performance (MIL-F-8785C 3.3.4 and the civil rate-of-roll rules): a
+``[roll_performance]`` table (optional ``note``, ``controls``) with rows::
+
+    [[roll_performance.band]]
+    row = "Class I, Category A, Level 1"
+    level = 1                         # levels sets (omit in a pass_fail set)
+    categories = ["A"]                # and classes, flight_phases, except_flight_phases as above
+    bank_change_deg = 60.0            # the bank-angle change to reach [deg]
+    max_time = 1.3                    # in at most this time [s] from the start of the command
+    # optional, civil weight rules (time = (W + offset) / divisor, W in lb, not more than max_time):
+    min_weight_lb = 6000.0            # the row holds above this weight (strictly)
+    max_weight_lb = 6000.0            # the row holds at or below this weight
+    time_weight_offset_lb = 500.0
+    time_weight_divisor_lb = 1300.0   # [lb/s]
+    # optional speed range (Class III and IV tables): the row holds for low <= V < high
+    speed_low = {reference = "V_min", factor = 1.4, offset_kt = 0.0}
+    speed_high = {reference = "V_max", factor = 0.7}
+    source = "<key of [sources]>"
+
+Speed references are ``V_min``, ``V_max``, ``V_o_min`` and ``V_o_max``; a
+row with a speed range is applied only where the condition states those
+speeds (latdyn's aircraft file does not yet carry them, so such rows are
+reported as not applied).
+
 Mode-wide rules: ``[dutch_roll.phi_to_beta_rule]`` (threshold, coefficients
 per level, source), ``[dutch_roll.damping_ratio_cap]`` (classes, value,
 source), ``[dutch_roll.frequency_excusal]`` (classes, note, source) and
@@ -79,7 +103,8 @@ from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml, read_input_text
 
 __all__ = [
-    "Source", "Band", "PhiToBetaRule", "ClassRule", "ModeCriteria", "CriteriaSet",
+    "Source", "Band", "PhiToBetaRule", "ClassRule", "ModeCriteria", "CriteriaSet", "RollBand",
+    "RollPerformanceCriteria", "SpeedBound", "POUND", "KNOT", "SPEED_REFERENCES",
     "load_criteria", "builtin_criteria", "criteria_path", "expand_classes",
     "damping_ratio_for_cycles", "MODES", "CLASSES", "CATEGORIES", "CONFIDENCES",
     "LIMIT_KEYS", "FORMAT", "BUILTIN_FOLDER",
@@ -123,8 +148,15 @@ _MODE_KEYS = {
     "roll_spiral": ("band", "note", "controls", "not_permitted"),
 }
 _TOP_KEYS = ("format", "name", "title", "document", "edition", "assessment", "notes",
-             "sources") + MODES
+             "sources", "roll_performance") + MODES
 _NUMBER_OF_LEVELS = 3
+POUND = 0.45359237          # kg per lb (exact)
+KNOT = 1852.0 / 3600.0      # m/s per kt (exact)
+SPEED_REFERENCES = ("V_min", "V_max", "V_o_min", "V_o_max")
+_ROLL_BAND_KEYS = ("row", "level", "categories", "classes", "flight_phases", "except_flight_phases",
+                   "bank_change_deg", "max_time", "min_weight_lb", "max_weight_lb",
+                   "time_weight_offset_lb", "time_weight_divisor_lb", "speed_low", "speed_high",
+                   "source", "note")
 
 
 def damping_ratio_for_cycles(cycles, amplitude_ratio=0.1):
@@ -352,6 +384,144 @@ class ModeCriteria:
 
 
 @dataclass(frozen=True)
+class SpeedBound:
+    """One end of a speed range: ``factor * reference + offset``.
+
+    Attributes
+    ----------
+    reference : str
+        "V_min", "V_max", "V_o_min" or "V_o_max".
+    factor : float
+    offset : float
+        [m/s] (given in knots in the file).
+    """
+
+    reference: str
+    factor: float
+    offset: float
+
+    def value(self, speeds) -> float | None:
+        """The bound [m/s] for a mapping of reference speeds [m/s], or None when it lacks the reference."""
+        reference = (speeds or {}).get(self.reference)
+        return None if reference is None else self.factor * reference + self.offset
+
+
+@dataclass(frozen=True)
+class RollBand:
+    """One roll-performance row: reach a bank-angle change within a time.
+
+    Attributes
+    ----------
+    row : str
+    level : int or None
+        1, 2, 3; None in a pass/fail set.
+    categories, classes, flight_phases, except_flight_phases : tuple of str or None
+        Where the row holds (as :class:`Band`).
+    bank_change : float
+        Bank-angle change to reach [rad].
+    max_time : float
+        Time allowed [s] (the cap where a weight formula is given).
+    min_weight, max_weight : float or None
+        The row holds for min_weight < W <= max_weight [kg].
+    time_weight_offset, time_weight_divisor : float or None
+        Time allowed = (W + offset) / divisor with W, offset in lb and the
+        divisor in lb/s, not more than ``max_time`` (kept in the
+        regulation's pounds).
+    speed_low, speed_high : SpeedBound or None
+        The row holds for low <= V < high.
+    source : Source
+    note : str or None
+    index : int
+    """
+
+    row: str
+    level: int | None
+    categories: tuple | None
+    classes: tuple | None
+    flight_phases: tuple | None
+    except_flight_phases: tuple | None
+    bank_change: float
+    max_time: float
+    min_weight: float | None
+    max_weight: float | None
+    time_weight_offset: float | None
+    time_weight_divisor: float | None
+    speed_low: SpeedBound | None
+    speed_high: SpeedBound | None
+    source: Source
+    note: str | None
+    index: int
+
+    def needs(self) -> tuple:
+        """What a condition must state for the row to be decided: "mass", "speeds"."""
+        out = []
+        if self.min_weight is not None or self.max_weight is not None or self.time_weight_divisor:
+            out.append("mass")
+        if self.speed_low is not None or self.speed_high is not None:
+            out.append("speeds")
+        return tuple(out)
+
+    def applies(self, airplane_class, category, flight_phase=None, mass=None, speed=None,
+                speeds=None) -> bool:
+        """Whether the row holds (False where it needs a mass or reference speeds not given)."""
+        if self.classes is not None and airplane_class not in self.classes:
+            return False
+        if self.categories is not None and category not in self.categories:
+            return False
+        if self.flight_phases is not None and flight_phase not in self.flight_phases:
+            return False
+        if self.except_flight_phases is not None and flight_phase in self.except_flight_phases:
+            return False
+        if self.min_weight is not None and (mass is None or not mass > self.min_weight):
+            return False
+        if self.max_weight is not None and (mass is None or not mass <= self.max_weight):
+            return False
+        for bound, sense in ((self.speed_low, 1), (self.speed_high, -1)):
+            if bound is None:
+                continue
+            value = bound.value(speeds)
+            if value is None or speed is None:
+                return False
+            if (sense > 0 and speed < value) or (sense < 0 and speed >= value):
+                return False
+        return True
+
+    def time_limit(self, mass=None) -> float:
+        """Time allowed [s]: ``max_time``, or the weight formula capped by it (mass in kg).
+
+        Examples
+        --------
+        14 CFR 23.157(a)(2): (W + 500)/1300 s at W = 9,000 lb is 7.31 s.
+
+        >>> band = RollBand("r", None, None, None, None, None, 1.0, 10.0, 6000 * POUND, None,
+        ...                 500.0, 1300.0, None, None, None, None, 0)
+        >>> round(band.time_limit(9000 * POUND), 4)
+        7.3077
+        """
+        if self.time_weight_divisor is None:
+            return self.max_time
+        if mass is None:
+            return math.nan
+        pounds = mass / POUND
+        return min((pounds + (self.time_weight_offset or 0.0)) / self.time_weight_divisor, self.max_time)
+
+
+@dataclass(frozen=True)
+class RollPerformanceCriteria:
+    """The roll-performance rows of a criteria set.
+
+    Attributes
+    ----------
+    bands : tuple of RollBand
+    note, controls : str or None
+    """
+
+    bands: tuple
+    note: str | None = None
+    controls: str | None = None
+
+
+@dataclass(frozen=True)
 class CriteriaSet:
     """A loaded, validated criteria set.
 
@@ -376,6 +546,7 @@ class CriteriaSet:
     sources: tuple
     modes: tuple
     file: str
+    roll_performance: RollPerformanceCriteria | None = None
 
     @property
     def grades(self) -> int:
@@ -556,12 +727,89 @@ class _Reader:
         for mode in MODES:
             if mode in tree:
                 modes.append(self.mode(mode, tree[mode]))
-        if not modes:
-            self.fail(None, "at least one mode table (" + ", ".join(MODES) + ")", "none")
+        roll = None
+        if "roll_performance" in tree:
+            roll = self.roll_performance(tree["roll_performance"])
+        if not modes and roll is None:
+            self.fail(None, "at least one mode table (" + ", ".join(MODES + ("roll_performance",)) + ")",
+                      "none")
         return CriteriaSet(name=name, title=title, document=document, edition=edition,
                            assessment=assessment, notes=tuple(notes),
                            sources=tuple(self.sources.values()), modes=tuple(modes),
-                           file=self.path)
+                           file=self.path, roll_performance=roll)
+
+    def roll_performance(self, table):
+        where = "roll_performance"
+        if not isinstance(table, dict):
+            self.fail(where, "a table [roll_performance]", describe_value(table))
+        self.known(table, ("band", "note", "controls"), where)
+        raw_bands = table.get("band")
+        if not isinstance(raw_bands, list) or not raw_bands or not all(isinstance(b, dict) for b in raw_bands):
+            self.fail(f"{where}.band", "a list of bands ([[roll_performance.band]])",
+                      "nothing (the key is missing)" if raw_bands is None else describe_value(raw_bands))
+        bands = tuple(self.roll_band(index, raw) for index, raw in enumerate(raw_bands))
+        return RollPerformanceCriteria(bands, self.string(table, "note", where, required=False),
+                                       self.string(table, "controls", where, required=False))
+
+    def positive(self, raw, key, where, words, required=False):
+        if key not in raw:
+            if required:
+                self.fail(f"{where}.{key}", words, "nothing (the key is missing)")
+            return None
+        value = self.number(raw[key], f"{where}.{key}", words)
+        if value <= 0.0:
+            self.fail(f"{where}.{key}", words, describe_value(raw[key]))
+        return value
+
+    def speed_bound(self, raw, key, where):
+        if key not in raw:
+            return None
+        full = f"{where}.{key}"
+        entry = raw[key]
+        if not isinstance(entry, dict):
+            self.fail(full, "a table {reference = \"V_min\", factor = 1.0, offset_kt = 0.0}", describe_value(entry))
+        self.known(entry, ("reference", "factor", "offset_kt"), full)
+        reference = self.string(entry, "reference", full)
+        if reference not in SPEED_REFERENCES:
+            self.fail(f"{full}.reference", "one of " + ", ".join(SPEED_REFERENCES), describe_value(reference))
+        factor = self.positive(entry, "factor", full, "a number > 0") or 1.0
+        offset = self.number(entry.get("offset_kt", 0.0), f"{full}.offset_kt", "a finite number [kt]")
+        return SpeedBound(reference, factor, offset * KNOT)
+
+    def roll_band(self, index, raw):
+        where = f"roll_performance.band[{index}]"
+        self.known(raw, _ROLL_BAND_KEYS, where)
+        row = self.string(raw, "row", where)
+        source = self.source(raw, where)
+        note = self.string(raw, "note", where, required=False)
+        categories, classes, phases = self.where_fields(raw, where)
+        excepted = self.excepted(raw, where, phases)
+        level = raw.get("level")
+        if self.assessment == "pass_fail":
+            if level is not None:
+                self.fail(f"{where}.level", "no level in a pass_fail criteria set", describe_value(level))
+        elif isinstance(level, bool) or not isinstance(level, int) or not 1 <= level <= _NUMBER_OF_LEVELS:
+            self.fail(f"{where}.level", "1, 2 or 3", "nothing (the key is missing)" if level is None
+                      else describe_value(level))
+        bank = self.positive(raw, "bank_change_deg", where, "a bank-angle change in degrees, > 0 and <= 360",
+                             required=True)
+        if bank > 360.0:
+            self.fail(f"{where}.bank_change_deg", "a bank-angle change in degrees, > 0 and <= 360",
+                      describe_value(raw["bank_change_deg"]))
+        max_time = self.positive(raw, "max_time", where, "a time > 0 [s]", required=True)
+        weights = [self.positive(raw, key, where, "a weight > 0 [lb]")
+                   for key in ("min_weight_lb", "max_weight_lb")]
+        offset = None if "time_weight_offset_lb" not in raw else self.number(
+            raw["time_weight_offset_lb"], f"{where}.time_weight_offset_lb", "a finite number [lb]")
+        divisor = self.positive(raw, "time_weight_divisor_lb", where, "a number > 0 [lb/s]")
+        if offset is not None and divisor is None:
+            self.fail(f"{where}.time_weight_divisor_lb", "a number > 0 [lb/s] with time_weight_offset_lb",
+                      "nothing (the key is missing)")
+        return RollBand(row, level, categories, classes, phases, excepted, math.radians(bank), max_time,
+                        None if weights[0] is None else weights[0] * POUND,
+                        None if weights[1] is None else weights[1] * POUND, offset, divisor,
+                        self.speed_bound(raw, "speed_low", where), self.speed_bound(raw, "speed_high", where),
+                        source, note, index)
 
     def read_source(self, key, entry):
         where = f"sources.{key}"

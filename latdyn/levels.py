@@ -32,16 +32,16 @@ __all__ = [
 
 #: Parameters a band can limit; ``Grades.governing`` indexes this tuple.
 PARAMETERS = ("damping_ratio", "zeta_omega", "natural_frequency", "time_constant",
-              "time_to_double", "permitted")
+              "time_to_double", "permitted", "time_to_bank")
 #: Unit of each parameter ("" for a ratio).
 UNITS = {"damping_ratio": "", "zeta_omega": "rad/s", "natural_frequency": "rad/s",
-         "time_constant": "s", "time_to_double": "s", "permitted": ""}
+         "time_constant": "s", "time_to_double": "s", "permitted": "", "time_to_bank": "s"}
 #: Trade symbols of each parameter per mode, for tables and plots.
 SYMBOLS = {
     ("dutch_roll", "damping_ratio"): "zeta_d", ("dutch_roll", "zeta_omega"): "zeta_d*omega_nd",
     ("dutch_roll", "natural_frequency"): "omega_nd", ("roll_subsidence", "time_constant"): "T_R",
     ("spiral", "time_to_double"): "T_2", ("roll_spiral", "zeta_omega"): "zeta_RS*omega_RS",
-    ("roll_spiral", "permitted"): "permitted",
+    ("roll_spiral", "permitted"): "permitted", ("roll_performance", "time_to_bank"): "t_phi",
 }
 _INDEX = {name: i for i, name in enumerate(PARAMETERS)}
 _LIMIT_PARAMETER = {"min_damping_ratio": "damping_ratio", "min_zeta_omega": "zeta_omega",

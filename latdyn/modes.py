@@ -51,6 +51,7 @@ MODE_LABELS = {
     "roll_subsidence": "Roll subsidence",
     "spiral": "Spiral",
     "roll_spiral": "Roll-spiral oscillation",
+    "roll_performance": "Roll performance",
 }
 
 #: Root patterns, by code in :attr:`ModeArrays.pattern`.

@@ -99,3 +99,26 @@ MIL_8785C_ROLL_SPIRAL = (0.5, 0.3, 0.15)
 FT = 0.3048                       # exact definition of the international foot [m]
 CFR23_SPLIT_ALTITUDE = 18000 * FT  # [m]
 CFR23_CYCLES = {"below": 7, "above": 13}
+
+# MIL-F-8785C 3.3.4, Table IXa (printed p. 27), roll performance of Classes I and II
+# [secondary: one transcription of the public PDF; the Level 1 Category A cells of Classes I
+# and II also agree with a textbook summary (Raymer, Aircraft Design, Table 16.2)].
+# (class, category, bank-angle change [deg], (Level 1, 2, 3 times [s]))
+MIL_8785C_TABLE_IXA = (
+    ("I", "A", 60.0, (1.3, 1.7, 2.6)), ("I", "B", 60.0, (1.7, 2.5, 3.4)), ("I", "C", 30.0, (1.3, 1.8, 2.6)),
+    ("II-L", "A", 45.0, (1.4, 1.9, 2.8)), ("II-L", "B", 45.0, (1.9, 2.8, 3.8)),
+    ("II-L", "C", 30.0, (1.8, 2.5, 3.6)),
+    ("II-C", "A", 45.0, (1.4, 1.9, 2.8)), ("II-C", "B", 45.0, (1.9, 2.8, 3.8)),
+    ("II-C", "C", 25.0, (1.0, 1.5, 2.0)),
+)
+
+# 14 CFR 23.157 rate of roll [published: (c) on printed p. 201 of the 1 January 2014 edition,
+# (a) in verbatim copies of the regulation text]: 60 deg (30 deg bank to 30 deg the other way).
+# Take-off: 5 s at 6,000 lb or less maximum weight, (W + 500)/1,300 s but at most 10 s above;
+# approach: 4 s, (W + 2,800)/2,200 s but at most 7 s.  W in lb.
+CFR23_157 = {"takeoff": (5.0, 500.0, 1300.0, 10.0), "approach": (4.0, 2800.0, 2200.0, 7.0)}
+LB = 0.45359237            # kg per lb (exact definition)
+
+# EASA AMC 25.147(f) [secondary: a quotation of the EASA page]: a roll from a steady 30 deg bank
+# through 60 deg to reverse the turn in at most 7 s, en-route and approach.
+AMC25_147F = (60.0, 7.0)

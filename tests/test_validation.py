@@ -234,10 +234,13 @@ def test_extends_keeps_each_files_units(write_file):
 
 @pytest.mark.parametrize("old,new,pattern", [
     ('category = "C"', 'category = "A"\nflight_phase = "dogfight"',
-     r'condition\.flight_phase: expected "combat" or "ground_attack", found "dogfight"'),
+     r'condition\.flight_phase: expected "combat" or "ground_attack" or .* found "dogfight"'),
     ('category = "C"', 'category = "C"\nflight_phase = "combat"',
      r'condition\.flight_phase: expected category = "A" with a combat or ground-attack phase, found category "C"'),
-], ids=["flight-phase-word", "flight-phase-outside-category-A"])
+    ('category = "C"', 'category = "B"\nflight_phase = "approach"',
+     r'condition\.flight_phase: expected a phase of category B \("climb", "cruise", "descent"\), '
+     r'found "approach", a category C phase'),
+], ids=["flight-phase-word", "flight-phase-outside-category-A", "phase-of-another-category"])
 def test_flight_phase_rules(old, new, pattern, write_file):
     with pytest.raises(InputError, match=pattern):
         load_aircraft(write_file("phase.toml", edit(old, new)))

@@ -13,6 +13,8 @@ No formulas here: every number comes from the pipeline stages.
 
 from __future__ import annotations
 
+import math
+
 from latdyn.display import DEFAULT, SIGNAL_QUANTITIES
 from latdyn.modes import MODE_LABELS
 from latdyn.report.blocks import Absent, Column, Table
@@ -256,6 +258,8 @@ def value_reason(assessment) -> str:
         return "divergent"
     if a.governing == "permitted":
         return "not permitted"
+    if a.governing == "time_to_bank" and a.bank_change is not None:
+        return "not reached"
     if a.governing == "damping_ratio" and a.notes and "divergence" in a.notes[0]:
         return "static divergence"
     return "-"
@@ -333,7 +337,8 @@ def _assessment_row(assessment, condition, entry, sources, worst):
         "mode": MODE_LABELS.get(entry.mode, entry.mode), "mode_name": entry.mode,
         "criteria": entry.criteria, "edition": entry.edition,
         "level": entry.level, "pass": entry.passed, "result": entry.result,
-        "governing": parameter_label(entry.mode, entry.governing), "governing_name": entry.governing,
+        "governing": parameter_label(entry.mode, entry.governing) if entry.bank_change is None
+        else f"t to {math.degrees(entry.bank_change):.0f} deg [s]", "governing_name": entry.governing,
         "unit": entry.unit,
         "value": entry.value if entry.value is not None else Absent(value_reason(entry)),
         "limit": entry.limit, "margin": entry.margin, "margin_fraction": entry.margin_fraction,
