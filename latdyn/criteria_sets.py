@@ -250,6 +250,17 @@ class Source:
         return f"{self.document} {reference} [{self.confidence}]"
 
 
+def _holds_for(row, airplane_class, category, flight_phase) -> bool:
+    """Whether a row (a band or a roll-performance row) holds for a class, category and flight phase."""
+    if row.classes is not None and airplane_class not in row.classes:
+        return False
+    if row.categories is not None and category not in row.categories:
+        return False
+    if row.flight_phases is not None and flight_phase not in row.flight_phases:
+        return False
+    return not (row.except_flight_phases is not None and flight_phase in row.except_flight_phases)
+
+
 @dataclass(frozen=True)
 class Band:
     """One band (table row) of a criteria set, for one level or pass/fail.
@@ -308,13 +319,7 @@ class Band:
         that value is None; a band restricted to flight phases applies only
         when the condition states one of them.
         """
-        if self.classes is not None and airplane_class not in self.classes:
-            return False
-        if self.categories is not None and category not in self.categories:
-            return False
-        if self.flight_phases is not None and flight_phase not in self.flight_phases:
-            return False
-        if self.except_flight_phases is not None and flight_phase in self.except_flight_phases:
+        if not _holds_for(self, airplane_class, category, flight_phase):
             return False
         if self.min_altitude is not None and (altitude is None or altitude < self.min_altitude):
             return False
@@ -464,13 +469,7 @@ class RollBand:
     def applies(self, airplane_class, category, flight_phase=None, mass=None, speed=None,
                 speeds=None) -> bool:
         """Whether the row holds (False where it needs a mass or reference speeds not given)."""
-        if self.classes is not None and airplane_class not in self.classes:
-            return False
-        if self.categories is not None and category not in self.categories:
-            return False
-        if self.flight_phases is not None and flight_phase not in self.flight_phases:
-            return False
-        if self.except_flight_phases is not None and flight_phase in self.except_flight_phases:
+        if not _holds_for(self, airplane_class, category, flight_phase):
             return False
         if self.min_weight is not None and (mass is None or not mass > self.min_weight):
             return False
