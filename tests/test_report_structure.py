@@ -104,7 +104,8 @@ def test_report_markdown_tables_are_recognised(demo_report):
     assert "|phi/beta| [-]" in headings and "zeta_d*omega_nd [rad/s]" not in headings
     # cells come back as the renderer's text: a sign, a dash and the neutral word survive
     cells = [_inline_text(tokens[i + 1]) for i, t in enumerate(tokens) if t.type == "td_open"]
-    assert "DIVERGENT" in cells and "zeta_d*omega_nd [rad/s]" in cells
+    # (the worst rows of the demo are now roll-performance rows; the asterisk survives in the test below)
+    assert "DIVERGENT" in cells and "t to 30 deg [s]" in cells
 
 
 @pytest.mark.parametrize("text", ["|phi/beta| [-]", "zeta_d*omega_nd [rad/s]", "# not a heading",
