@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import math
 import os
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, fields, replace
 
 from latdyn import atmosphere, units
 from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
@@ -25,6 +25,7 @@ __all__ = [
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
     "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES", "FLIGHT_PHASES",
     "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG", "PHASE_CATEGORIES", "Augmentation", "MAX_PADE_ORDER",
+    "Wing", "Fuselage", "Aileron", "SOURCES",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
@@ -335,12 +336,29 @@ class Condition:
     derivatives: NondimensionalDerivatives | DimensionalDerivatives
     controls: Controls | None = None
     augmentation: Augmentation | None = None
+    provenance: tuple = ()
 
     @property
     def name(self) -> str:
         """Name of the condition."""
         return self.flight.name
 
+    def source(self, name) -> str:
+        """Where a derivative came from: "given", "estimated" or "default" (0, not written).
+
+        ``provenance`` holds (name, source) pairs; a derivative it does not
+        name was written in the file ("given").
+        """
+        return dict(self.provenance).get(name, "given")
+
+    @property
+    def estimated(self) -> tuple:
+        """Names of the derivatives estimated from the geometry."""
+        return tuple(name for name, source in self.provenance if source == "estimated")
+
+
+#: Where a derivative of a condition came from.
+SOURCES = ("given", "estimated", "default")
 
 DISTRIBUTIONS = ("normal", "uniform")
 
@@ -364,14 +382,132 @@ class Fin:
         Dynamic-pressure ratio at the fin, eta_F [-].
     sidewash_factor : float
         1 + d(sigma)/d(beta), the sidewash factor on the sideslip terms [-].
+    span : float or None
+        Fin span from root to tip [m].
+    sweep : float or None
+        Sweep of the chord line at ``sweep_chord`` [rad].
+    sweep_chord : float
+        Chord fraction of that line (0 leading edge, 0.25 quarter chord) [-].
+    taper : float or None
+        Tip chord over root chord [-].
+    aspect_ratio : float or None
+        Effective aspect ratio (with the end-plate effect of fuselage and
+        tailplane) [-].
+    rudder_span_fraction, rudder_chord_fraction : float or None
+        Fraction of the fin span the rudder covers; rudder chord over fin chord [-].
+    given_efficiency, given_sidewash : bool
+        Whether the file gave ``efficiency`` and ``sidewash_factor`` (else
+        they are the defaults, 1).
+
+    ``lift_slope`` is None when the file gives the fin's span or aspect ratio
+    instead; the estimation stage then computes it
+    (:func:`latdyn.estimation.planform.lift_curve_slope`).
     """
 
     area: float
     arm: float
     height: float
-    lift_slope: float
+    lift_slope: float | None
     efficiency: float = 1.0
     sidewash_factor: float = 1.0
+    span: float | None = None
+    sweep: float | None = None
+    sweep_chord: float = 0.25
+    taper: float | None = None
+    aspect_ratio: float | None = None
+    rudder_span_fraction: float | None = None
+    rudder_chord_fraction: float | None = None
+    given_efficiency: bool = False
+    given_sidewash: bool = False
+
+
+@dataclass(frozen=True)
+class Wing:
+    """Wing geometry for the estimation of the derivatives (every field optional).
+
+    Attributes
+    ----------
+    area, span : float or None
+        Planform area [m^2] and span [m]; default the reference [geometry] ones.
+    sweep : float or None
+        Sweep of the chord line at ``sweep_chord`` [rad].
+    sweep_chord : float
+        Chord fraction of that line [-] (default 0.25, the quarter chord).
+    taper : float or None
+        Tip chord over root chord [-].
+    dihedral : float or None
+        Dihedral angle [rad].
+    vertical_position : float or None
+        Height of the wing root quarter-chord above the fuselage centreline [m]
+        (negative: low wing).
+    arm : float
+        Centre of gravity to the wing's aerodynamic centre along body x,
+        positive aft [m] (default 0).
+    lift_slope : float or None
+        Wing lift-curve slope [1/rad]; else estimated from the planform.
+    section_lift_slope : float
+        Aerofoil lift-curve slope [1/rad] (default 2 pi, thin-aerofoil theory).
+    zero_lift_drag : float or None
+        C_D0 [-].
+    span_efficiency : float or None
+        Oswald factor e [-].
+    """
+
+    area: float | None = None
+    span: float | None = None
+    sweep: float | None = None
+    sweep_chord: float = 0.25
+    taper: float | None = None
+    dihedral: float | None = None
+    vertical_position: float | None = None
+    arm: float = 0.0
+    lift_slope: float | None = None
+    section_lift_slope: float = 2.0 * math.pi
+    zero_lift_drag: float | None = None
+    span_efficiency: float | None = None
+
+
+@dataclass(frozen=True)
+class Fuselage:
+    """Fuselage geometry for the estimation (every field optional).
+
+    Attributes
+    ----------
+    length : float or None
+        [m].
+    depth, width : float or None
+        Largest depth and width, at the wing [m].
+    volume : float or None
+        [m^3].
+    cross_section_area : float or None
+        Largest cross-section [m^2]; default pi/4 depth width.
+    interference_factor : float
+        Wing-body interference factor K_i on the fuselage side force [-] (default 1).
+    """
+
+    length: float | None = None
+    depth: float | None = None
+    width: float | None = None
+    volume: float | None = None
+    cross_section_area: float | None = None
+    interference_factor: float = 1.0
+
+
+@dataclass(frozen=True)
+class Aileron:
+    """Aileron geometry (one side; the other is its mirror image).
+
+    Attributes
+    ----------
+    inboard, outboard : float
+        Span stations of its ends from the plane of symmetry [m].
+    chord_fraction : float
+        Aileron chord over local wing chord [-].
+    """
+
+    inboard: float
+    outboard: float
+    chord_fraction: float
 
 
 @dataclass(frozen=True)
@@ -432,6 +568,9 @@ class Aircraft:
     fin: Fin | None = None
     uncertainties: tuple = ()
     controls: Controls | None = None
+    wing: Wing | None = None
+    fuselage: Fuselage | None = None
+    aileron: Aileron | None = None
 
     @property
     def file(self) -> str:
@@ -550,18 +689,119 @@ def _mass(tree, context):
     return MassProperties(mass, Ixx, Izz, Ixz, axes)
 
 
+def _bounded(table, key, dotted, context, low, high, dimension="none", default=None,
+             open_low=False):
+    """An optional number within [low, high] (file units), or the default."""
+    value = _number(table, key, dotted, context, dimension, required=False, default=None)
+    if value is None:
+        return default
+    raw = table[key].value
+    shown = units.from_si(value, dimension, table[key].units) if dimension != "none" else value
+    if shown > high or shown < low or (open_low and shown == low):
+        bracket = "(" if open_low else "["
+        context.fail(dotted, f"a number in {bracket}{low:g}, {high:g}]", describe_value(raw),
+                     table[key])
+    return value
+
+
+def _angle(table, key, dotted, context, limit):
+    value = _bounded(table, key, dotted, context, -limit, limit)
+    return None if value is None else units.rad(value)
+
+
 def _fin(tree, context):
     table = _table(tree, "fin")
     if table is None:
         return None
-    positive = {"area": "area", "arm": "length", "lift_slope": "none"}
     values = {key: _number(table, key, f"fin.{key}", context, dimension, positive=True)
-              for key, dimension in positive.items()}
+              for key, dimension in (("area", "area"), ("arm", "length"))}
     values["height"] = _number(table, "height", "fin.height", context, "length")
+    values["span"] = _number(table, "span", "fin.span", context, "length", required=False,
+                             positive=True)
+    values["aspect_ratio"] = _number(table, "aspect_ratio", "fin.aspect_ratio", context,
+                                     required=False, positive=True)
+    values["lift_slope"] = _number(
+        table, "lift_slope", "fin.lift_slope", context, positive=True,
+        required=values["span"] is None and values["aspect_ratio"] is None)
     for key in ("efficiency", "sidewash_factor"):
         values[key] = _number(table, key, f"fin.{key}", context, required=False, default=1.0,
                               positive=True)
+    values["given_efficiency"] = "efficiency" in table
+    values["given_sidewash"] = "sidewash_factor" in table
+    values["sweep"] = _angle(table, "sweep_deg", "fin.sweep_deg", context, 80.0)
+    values["sweep_chord"] = _bounded(table, "sweep_chord", "fin.sweep_chord", context, 0.0, 1.0,
+                                     default=0.25)
+    values["taper"] = _bounded(table, "taper", "fin.taper", context, 0.0, 1.0)
+    for key in ("rudder_span_fraction", "rudder_chord_fraction"):
+        values[key] = _bounded(table, key, f"fin.{key}", context, 0.0, 1.0, open_low=True)
     return Fin(**values)
+
+
+def _wing(tree, context, geometry):
+    table = _table(tree, "wing")
+    if table is None:
+        return None
+    prefix = "wing."
+    values = {
+        "area": _number(table, "area", prefix + "area", context, "area", required=False,
+                        positive=True),
+        "span": _number(table, "span", prefix + "span", context, "length", required=False,
+                        positive=True),
+        "sweep": _angle(table, "sweep_deg", prefix + "sweep_deg", context, 80.0),
+        "sweep_chord": _bounded(table, "sweep_chord", prefix + "sweep_chord", context, 0.0, 1.0,
+                                default=0.25),
+        "taper": _bounded(table, "taper", prefix + "taper", context, 0.0, 1.0),
+        "dihedral": _angle(table, "dihedral_deg", prefix + "dihedral_deg", context, 45.0),
+        "vertical_position": _number(table, "vertical_position", prefix + "vertical_position",
+                                     context, "length", required=False),
+        "arm": _number(table, "arm", prefix + "arm", context, "length", required=False,
+                       default=0.0),
+        "lift_slope": _number(table, "lift_slope", prefix + "lift_slope", context,
+                              required=False, positive=True),
+        "section_lift_slope": _number(table, "section_lift_slope", prefix + "section_lift_slope",
+                                      context, required=False, default=2.0 * math.pi,
+                                      positive=True),
+        "zero_lift_drag": _number(table, "zero_lift_drag", prefix + "zero_lift_drag", context,
+                                  required=False, positive=True),
+        "span_efficiency": _bounded(table, "span_efficiency", prefix + "span_efficiency",
+                                    context, 0.0, 1.0, open_low=True),
+    }
+    if geometry is None and (values["area"] is None or values["span"] is None):
+        context.fail("geometry", "a [geometry] block, or wing.area and wing.span",
+                     "neither")
+    return Wing(**values)
+
+
+def _fuselage(tree, context):
+    table = _table(tree, "fuselage")
+    if table is None:
+        return None
+    dimensions = {"length": "length", "depth": "length", "width": "length", "volume": "volume",
+                  "cross_section_area": "area", "interference_factor": "none"}
+    values = {key: _number(table, key, f"fuselage.{key}", context, dimension, required=False,
+                           positive=True) for key, dimension in dimensions.items()}
+    if values["interference_factor"] is None:
+        values["interference_factor"] = 1.0
+    return Fuselage(**values)
+
+
+def _aileron(tree, context, half_span):
+    table = _table(tree, "aileron")
+    if table is None:
+        return None
+    inboard = _number(table, "inboard", "aileron.inboard", context, "length")
+    outboard = _number(table, "outboard", "aileron.outboard", context, "length", positive=True)
+    if inboard < 0.0 or inboard >= outboard:
+        context.fail("aileron.inboard", "a span station >= 0 and below aileron.outboard",
+                     describe_value(table["inboard"].value), table["inboard"])
+    if half_span is not None and outboard > half_span * (1.0 + 1e-9):
+        context.fail("aileron.outboard", "a span station within the wing's half span",
+                     describe_value(table["outboard"].value), table["outboard"])
+    chord = _bounded(table, "chord_fraction", "aileron.chord_fraction", context, 0.0, 1.0,
+                     open_low=True)
+    if chord is None:
+        context.fail("aileron.chord_fraction", "a number in (0, 1]", "nothing (the key is missing)")
+    return Aileron(inboard, outboard, chord)
 
 
 _CONTROL_FIELDS = (("aileron_deg", "aileron", "travel"), ("rudder_deg", "rudder", "travel"),
@@ -792,8 +1032,8 @@ def _sign_warnings(block_name, values, table, context, written=None):
     """Warnings for implausible signs; ``written`` maps a quantity to the key the file used."""
     notes = []
     for key, bad_sign, usual in _SIGN_CHECKS[block_name]:
-        value = values[key]
-        if value * bad_sign > 0:
+        value = values.get(key)
+        if value is not None and value * bad_sign > 0:
             name = (written or {}).get(key, key)
             leaf = table[name]
             notes.append(f"{leaf.file}: condition \"{context.condition}\": "
@@ -802,14 +1042,30 @@ def _sign_warnings(block_name, values, table, context, written=None):
     return notes
 
 
-def _derivatives(entry, context):
+@dataclass(frozen=True)
+class _Partial:
+    """Written non-dimensional derivatives of a condition whose others are estimated."""
+
+    axes: str
+    given: dict
+
+    def __getattr__(self, name):
+        given = self.__dict__.get("given", {})
+        if name in given:
+            return given[name]
+        raise AttributeError(name)
+
+
+def _derivatives(entry, context, estimating=False):
     has_nd = isinstance(entry.get("derivatives"), dict)
     has_dim = isinstance(entry.get("dimensional"), dict)
-    if has_nd == has_dim:
+    if has_nd and has_dim or not (has_nd or has_dim or estimating):
         found = "both [condition.derivatives] and [condition.dimensional]" if has_nd else "neither"
         context.fail("condition.derivatives",
                      "exactly one derivative block, [condition.derivatives] or [condition.dimensional]",
                      found)
+    if not (has_nd or has_dim):
+        return _Partial("stability", {}), []
     if has_nd:
         table = entry["derivatives"]
         prefix = "condition.derivatives."
@@ -817,9 +1073,10 @@ def _derivatives(entry, context):
         values = {}
         for key in NONDIMENSIONAL_KEYS:
             values[key] = _number(table, key, prefix + key, context,
-                                  required=key in _REQUIRED_NONDIMENSIONAL, default=0.0)
-        return NondimensionalDerivatives(axes=axes, **values), _sign_warnings(
-            "derivatives", values, table, context)
+                                  required=key in _REQUIRED_NONDIMENSIONAL and not estimating,
+                                  default=None)
+        notes = _sign_warnings("derivatives", values, table, context)
+        return _Partial(axes, {k: v for k, v in values.items() if v is not None}), notes
     table = entry["dimensional"]
     prefix = "condition.dimensional."
     axes = _word(table, "axes", prefix + "axes", context, AXES)
@@ -910,6 +1167,11 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
     airplane_class = _word(tree, "airplane_class", "airplane_class", context, AIRPLANE_CLASSES,
                            required=False)
     geometry = _geometry(tree, context)
+    wing = _wing(tree, context, geometry)
+    if geometry is None and wing is not None:
+        geometry = Geometry(wing.area, wing.span)
+    half_span = None if wing is None else 0.5 * (wing.span or geometry.span)
+    estimating = wing is not None
     mass = _mass(tree, context)
     controls = _controls(_table(tree, "controls"), "controls.", context)
     entries = tree.get("condition") or []
@@ -931,7 +1193,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         seen.add(condition_name)
         context = _Context(files, condition_name)
         flight = _flight(entry, condition_name, context)
-        derivatives, notes = _derivatives(entry, context)
+        derivatives, notes = _derivatives(entry, context, estimating)
         warnings.extend(notes)
         given = derivatives[0] if isinstance(derivatives, tuple) else derivatives
         augmentation, notes = _augmentation(tree, entry, context, given)
@@ -953,16 +1215,34 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
                              "nothing (the key is missing)")
         condition_controls = _controls(_table(entry, "controls"), "condition.controls.", context,
                                        controls)
-        conditions.append(Condition(flight, derivatives, condition_controls, augmentation))
+        conditions.append((flight, derivatives, condition_controls, augmentation))
         context = _Context(files)
     description = tree.get("description")
-    return Aircraft(
+    aircraft = Aircraft(
         name=name, airplane_class=airplane_class, geometry=geometry, mass=mass,
-        conditions=tuple(conditions), files=tuple(files), warnings=tuple(warnings),
+        conditions=(), files=tuple(files), warnings=(),
         description=description.value if isinstance(description, Leaf) else None,
         fin=_fin(tree, context), uncertainties=_uncertainties(tree, context),
-        controls=controls,
+        controls=controls, wing=wing, fuselage=_fuselage(tree, context),
+        aileron=_aileron(tree, context, half_span),
     )
+    done = []
+    for flight, derivatives, condition_controls, augmentation in conditions:
+        provenance = ()
+        if isinstance(derivatives, _Partial):
+            if estimating:
+                from latdyn.estimation import complete_condition
+
+                values, provenance, notes = complete_condition(
+                    aircraft, flight, derivatives.axes, derivatives.given, files[0])
+                warnings.extend(notes)
+            else:
+                values = {key: derivatives.given.get(key, 0.0) for key in NONDIMENSIONAL_KEYS}
+                provenance = tuple((key, "given" if key in derivatives.given else "default")
+                                   for key in NONDIMENSIONAL_KEYS)
+            derivatives = NondimensionalDerivatives(axes=derivatives.axes, **values)
+        done.append(Condition(flight, derivatives, condition_controls, augmentation, provenance))
+    return replace(aircraft, conditions=tuple(done), warnings=tuple(warnings))
 
 
 def load_aircraft(path) -> Aircraft:

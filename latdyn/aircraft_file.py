@@ -23,7 +23,7 @@ from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml
 
 __all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
-           "read_tree", "MAX_FILE_BYTES"]
+           "GEOMETRY_TABLES", "read_tree", "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
 MAX_FILE_BYTES = 5 * 1024 * 1024
@@ -119,12 +119,25 @@ SCHEMA = {
     },
     # optional control travel (latdyn.aircraft.Controls): degrees and degrees per second
     "controls": dict(CONTROL_KEYS),
-    # optional fin geometry (latdyn.studies.fin): SI or US lengths and area
+    # optional fin geometry (latdyn.studies.fin, latdyn.estimation): SI or US lengths and area
     "fin": {"area": "area", "arm": "length", "height": "length", "lift_slope": "none",
-            "efficiency": "none", "sidewash_factor": "none"},
+            "efficiency": "none", "sidewash_factor": "none", "span": "length",
+            "sweep_deg": "none", "sweep_chord": "none", "taper": "none", "aspect_ratio": "none",
+            "rudder_span_fraction": "none", "rudder_chord_fraction": "none"},
+    # optional geometry for estimating the derivatives (latdyn.estimation)
+    "wing": {"area": "area", "span": "length", "sweep_deg": "none", "sweep_chord": "none",
+             "taper": "none", "dihedral_deg": "none", "vertical_position": "length",
+             "arm": "length", "lift_slope": "none", "section_lift_slope": "none",
+             "zero_lift_drag": "none", "span_efficiency": "none"},
+    "fuselage": {"length": "length", "depth": "length", "width": "length", "volume": "volume",
+                 "cross_section_area": "area", "interference_factor": "none"},
+    "aileron": {"inboard": "length", "outboard": "length", "chord_fraction": "none"},
     # optional stability augmentation (latdyn.augmentation)
     "augmentation": AUGMENTATION_KEYS,
 }
+
+#: The geometry tables read by the estimation stage (latdyn.estimation).
+GEOMETRY_TABLES = ("wing", "fuselage", "fin", "aileron")
 
 #: Keys that may carry an uncertainty, with the dimension of an absolute amount.
 UNCERTAIN_KEYS = {

@@ -39,6 +39,7 @@ DIMENSION_FACTORS = {
     "none": (1.0, 1.0),
     "length": (FOOT, 1.0),            # ft -> m
     "area": (FOOT**2, 1.0),           # ft^2 -> m^2
+    "volume": (FOOT**3, 1.0),         # ft^3 -> m^3
     "mass": (SLUG, 1.0),              # slug -> kg
     "inertia": (SLUG_FOOT2, 1.0),     # slug ft^2 -> kg m^2
     "density": (SLUG_PER_FOOT3, 1.0), # slug/ft^3 -> kg/m^3

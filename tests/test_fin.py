@@ -87,7 +87,8 @@ def test_stability_axes_use_the_rotated_fin_position():
 @pytest.mark.parametrize("text,message", [
     ("[fin]\narea = 5.0\narm = 8.0\nheight = 1.0\n", r"fin\.lift_slope: expected a number"),
     ("[fin]\narea = -5.0\narm = 8.0\nheight = 1.0\nlift_slope = 3.0\n", r"fin\.area: expected a number > 0"),
-    ("[fin]\nspan = 3.0\n", r"fin\.span: expected one of the known keys here"),
+    ("[fin]\narea = 5.0\narm = 8.0\nheight = 1.0\nlift_slope = 3.0\nchord = 3.0\n",
+     r"fin\.chord: expected a known key"),
 ], ids=["missing-slope", "negative-area", "unknown-key"])
 def test_bad_fin_blocks_are_input_errors(write_file, text, message):
     path = write_file("bad.toml", f'extends = "{KESTREL}"\n' + text)
@@ -102,3 +103,32 @@ def test_fin_area_sweep_from_the_command_line(write_file, capsys):
     assert status == 0
     out = capsys.readouterr().out
     assert out.startswith("Condition,fin.area_ratio") and "GUIDANCE ONLY" in out
+
+
+@pytest.mark.parametrize("k", [0.5, 1.35, 2.0], ids=["half", "tall-fin", "double"])
+def test_area_ratio_rescales_the_rudder_derivatives_by_k_minus_1(finned, k):
+    """The rudder is all fin: its derivatives follow the (k - 1) rule too.
+
+    Without rudder fractions the file's Cy_dr, Cn_dr, Cl_dr are the fin part;
+    with them the fin part is the rudder formula of latdyn.estimation.fin.
+    """
+    condition = finned.condition("approach")
+    nominal = case_inputs(condition_set(finned, condition))
+    resized = case_inputs(condition_set(finned, condition, {"fin.area_ratio": [k]}))
+    for name in ("Cy_dr", "Cn_dr", "Cl_dr"):
+        written = getattr(condition.derivatives, name)
+        assert resized[name][0] - nominal[name] == pytest.approx((k - 1) * written, abs=1e-15)
+    assert condition.derivatives.Cn_dr != 0.0
+
+
+def test_area_ratio_with_rudder_geometry_uses_the_rudder_formula(write_file):
+    from latdyn.studies.fin import rudder_share
+
+    aircraft = load_aircraft(write_file("rudder.toml", FIN_TEXT + "rudder_span_fraction = 0.9\n"
+                                        "rudder_chord_fraction = 0.35\n"))
+    condition = aircraft.condition("approach")
+    nominal = case_inputs(condition_set(aircraft, condition))
+    resized = case_inputs(condition_set(aircraft, condition, {"fin.area_ratio": [1.5]}))
+    share = rudder_share(aircraft.fin, aircraft.geometry, condition.flight.alpha, "stability")
+    for name in ("Cy_dr", "Cn_dr", "Cl_dr"):
+        assert resized[name][0] - nominal[name] == pytest.approx(0.5 * float(share[name]), rel=1e-12)

@@ -79,8 +79,8 @@ L_da = -0.7
 CASES = [
     ("unknown-key-did-you-mean", edit("Cn_beta = 0.11", "Cn_betta = 0.11"),
      r'condition "approach": condition\.derivatives\.Cn_betta: expected a known key \(did you mean condition\.derivatives\.Cn_beta\?\), found unknown key Cn_betta'),
-    ("unknown-top-level-table", BASE + "\n[wing]\narea = 3\n",
-     r"wing: expected one of the known keys .*found unknown key wing"),
+    ("unknown-top-level-table", BASE + "\n[canard]\narea = 3\n",
+     r"canard: expected one of the known keys .*found unknown key canard"),
     ("missing-name", edit('name = "Test airplane"\n', ""),
      r"name: expected a text in quotes, found nothing \(the key is missing\)"),
     ("mass-wrong-type", edit("mass = 13500.0", 'mass = "heavy"'),

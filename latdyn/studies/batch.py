@@ -65,6 +65,7 @@ _FIN_KEYS = ("fin.area_ratio", "fin.arm_ratio")
 AUGMENTATION_PARAMETERS = tuple(f"augmentation.{name}" for name in (
     "yaw_damper_gain", "washout_time_constant", "roll_damper_gain", "interconnect_gain",
     "interconnect_time_constant", "actuator_time_constant", "sensor_time_constant", "time_delay"))
+RUDDER = ("Cy_dr", "Cn_dr", "Cl_dr")
 
 
 @dataclass(frozen=True)
@@ -158,7 +159,8 @@ def case_inputs(cases: CaseSet) -> dict:
         geometry = Geometry(values["wing_area"], values["span"])
         increments = fin_increments(aircraft.fin, geometry, values["alpha"], derivatives.axes,
                                     1.0 if ratios[0] is None else ratios[0],
-                                    1.0 if ratios[1] is None else ratios[1])
+                                    1.0 if ratios[1] is None else ratios[1], flight.mach,
+                                    {name: getattr(derivatives, name) for name in RUDDER})
         for name, increment in increments.items():
             values[name] = values[name] + increment
     values["nondimensional"] = nondimensional

@@ -1,125 +1,45 @@
 """The fin's share of the lateral-directional derivatives, and fin resizing.
 
-The fin (vertical tail) is modelled as one lifting surface whose side force
-acts at its aerodynamic centre, a distance l_F aft of the centre of gravity
-and z_F above the body x axis (the strip/point-force method).  Its local
-sideslip is
-
-    beta_F = sigma_F beta - r l_F / V + p z_F / V
-
-with sigma_F = 1 + d(sigma)/d(beta) the sidewash factor, and its side force
-coefficient (on the wing area S, with eta_F the dynamic-pressure ratio) is
-Cy_F = -a_F eta_F (S_F / S) beta_F.  The moments follow from the lever arms:
-Cn_F = -(l_F / b) Cy_F, Cl_F = (z_F / b) Cy_F.  With p and r normalised by
-b / (2V) this gives, in body axes::
-
-    Cy_beta = -a_F eta sigma S_F/S             Cn_beta = a_F eta sigma S_F l_F / (S b)
-    Cl_beta = -a_F eta sigma S_F z_F / (S b)
-    Cy_r = 2 a_F eta S_F l_F / (S b)           Cn_r = -2 a_F eta S_F l_F^2 / (S b^2)
-    Cl_r = 2 a_F eta S_F l_F z_F / (S b^2)
-    Cy_p = -2 a_F eta S_F z_F / (S b)          Cn_p = 2 a_F eta S_F l_F z_F / (S b^2)
-    Cl_p = -2 a_F eta S_F z_F^2 / (S b^2)
-
-In stability axes the fin's position is taken in those axes,
-l = l_F cos(alpha) + z_F sin(alpha), z = z_F cos(alpha) - l_F sin(alpha),
-the form of USAF DATCOM section 7.4 (from memory).
-
-Sources: the fin-volume result Cn_beta_F = a_F V_F eta_F (1 + d sigma/d beta),
-V_F = S_F l_F / (S b), and the vertical-tail terms of Cy_beta, Cl_beta,
-Cy_r, Cn_r, Cl_r, Cl_p are those of R. C. Nelson, *Flight Stability and
-Automatic Control*, 2nd ed., McGraw-Hill, 1998, section 2.6 (directional
-stability) and table 3.5 (summary of lateral derivative estimates)
-(section and table numbers from memory); the rate terms with both arms are
-those of USAF Stability and Control DATCOM, sections 7.3 and 7.4 (vertical
-tail contributions to Cy_p, Cl_p, Cn_p, Cy_r, Cl_r, Cn_r) (from memory).
-The derivation above is given so every term can be checked by hand.
+The fin formulas are those of the component build-up
+(:mod:`latdyn.estimation.fin`, with the derivation and sources): one code
+path for the fin part of an estimate and for resizing the fin of a file
+whose derivatives are given.
 
 Semantics in latdyn: an aircraft file's derivatives are the whole aircraft
 *with* its fin.  ``fin.area_ratio`` k_S and ``fin.arm_ratio`` k_l scale the
 fin area and arm; only the fin's part of each derivative changes:
 C(k_S, k_l) = C_file + C_F(k_S S_F, k_l l_F) - C_F(S_F, l_F).
+
+The rudder sits on the fin, so its derivatives are all the fin's: with the
+rudder's span and chord fractions in ``[fin]`` their fin part is
+:func:`latdyn.estimation.fin.rudder_contributions`; without them the file's
+Cy_dr, Cn_dr, Cl_dr are taken as wholly the rudder's and scale with the
+area, k_S C, and with the lever arm of the fin in the derivatives' axes
+(l' = l cos(alpha) + z sin(alpha), z' = z cos(alpha) - l sin(alpha) in
+stability axes): Cn_dr by l'(k_l) / l'(1), Cl_dr by z'(k_l) / z'(1).
+Either way a fin k times larger changes each rudder derivative by (k - 1)
+times its fin part, as for the other nine.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["FIN_DERIVATIVES", "fin_contributions", "fin_increments", "fin_share"]
+from latdyn.estimation.fin import (FIN_DERIVATIVES, RUDDER_DERIVATIVES, _arms, fin_contributions,
+                                   fin_lift_slope, rudder_contributions)
+from latdyn.estimation.planform import flap_effectiveness
 
-#: The derivatives with a fin contribution.
-FIN_DERIVATIVES = ("Cy_beta", "Cl_beta", "Cn_beta", "Cy_p", "Cl_p", "Cn_p",
-                   "Cy_r", "Cl_r", "Cn_r")
-
-
-def fin_contributions(area, arm, height, lift_slope, efficiency, sidewash_factor, wing_area, span,
-                      alpha=0.0, axes="body"):
-    """The fin's contribution to each lateral-directional derivative.
-
-    .. math::
-        C_{n_\\beta F} = a_F \\eta_F \\sigma_F \\frac{S_F l_F}{S b},\\quad
-        C_{y_\\beta F} = -a_F \\eta_F \\sigma_F \\frac{S_F}{S},\\quad
-        C_{n_r F} = -2 a_F \\eta_F \\frac{S_F l_F^2}{S b^2}
-
-    and the others as in the module docstring (Nelson, *Flight Stability and
-    Automatic Control*, 2nd ed., 1998, section 2.6 and table 3.5; USAF
-    DATCOM sections 7.3-7.4; both from memory).
-
-    Parameters
-    ----------
-    area : float or array
-        Fin area S_F [m^2].
-    arm : float or array
-        c.g. to fin aerodynamic centre along body x, l_F [m].
-    height : float or array
-        Fin aerodynamic centre above the body x axis, z_F [m].
-    lift_slope : float or array
-        Fin lift-curve slope a_F [1/rad].
-    efficiency : float or array
-        Dynamic-pressure ratio eta_F [-].
-    sidewash_factor : float or array
-        1 + d(sigma)/d(beta) [-].
-    wing_area, span : float or array
-        Wing reference area S [m^2] and span b [m].
-    alpha : float or array
-        Trim angle of attack [rad]; used for stability axes.
-    axes : str
-        "body" or "stability": the axes of the derivatives.
-
-    Returns
-    -------
-    dict
-        :data:`FIN_DERIVATIVES` [1/rad; rates per p b/(2V), r b/(2V)].
-
-    Examples
-    --------
-    Fin of 4 m^2 with an arm of 8 m on a 32 m^2, 17.6 m wing, a_F = 3/rad,
-    eta_F sigma_F = 0.9: Cn_beta_F = 3 * 4 * 8 / (32 * 17.6) * 0.9.
-
-    >>> d = fin_contributions(4.0, 8.0, 1.5, 3.0, 0.9, 1.0, 32.0, 17.6)
-    >>> round(float(d["Cn_beta"]), 6), round(3 * 4 * 8 / (32 * 17.6) * 0.9, 6)
-    (0.153409, 0.153409)
-    """
-    if axes == "stability":
-        c, s = np.cos(alpha), np.sin(alpha)
-        arm, height = arm * c + height * s, height * c - arm * s
-    slope = np.asarray(lift_slope, dtype=float) * efficiency * np.asarray(area, dtype=float) / wing_area
-    beta_slope = slope * sidewash_factor
-    l_b = np.asarray(arm, dtype=float) / span
-    z_b = np.asarray(height, dtype=float) / span
-    return {
-        "Cy_beta": -beta_slope,
-        "Cn_beta": beta_slope * l_b,
-        "Cl_beta": -beta_slope * z_b,
-        "Cy_r": 2.0 * slope * l_b,
-        "Cn_r": -2.0 * slope * l_b * l_b,
-        "Cl_r": 2.0 * slope * l_b * z_b,
-        "Cy_p": -2.0 * slope * z_b,
-        "Cn_p": 2.0 * slope * l_b * z_b,
-        "Cl_p": -2.0 * slope * z_b * z_b,
-    }
+__all__ = ["FIN_DERIVATIVES", "RUDDER_DERIVATIVES", "fin_contributions", "fin_increments",
+           "fin_share", "rudder_share", "slope_of"]
 
 
-def fin_share(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1.0):
+def slope_of(fin, mach=0.0):
+    """Lift-curve slope of an :class:`~latdyn.aircraft.Fin` at a Mach number [1/rad]."""
+    return fin_lift_slope(fin.area, fin.span, fin.aspect_ratio, fin.sweep, fin.sweep_chord,
+                          fin.taper, 0.0 if mach is None else mach, fin.lift_slope)
+
+
+def fin_share(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1.0, mach=0.0):
     """:func:`fin_contributions` of an :class:`~latdyn.aircraft.Fin`, resized.
 
     Parameters
@@ -131,14 +51,50 @@ def fin_share(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1
     axes : str
     area_ratio, arm_ratio : float or array
         Fin area and arm relative to the file's fin [-].
+    mach : float or array
+        Mach number, for a lift slope from the fin's planform [-].
     """
     return fin_contributions(fin.area * np.asarray(area_ratio, dtype=float),
                              fin.arm * np.asarray(arm_ratio, dtype=float), fin.height,
-                             fin.lift_slope, fin.efficiency, fin.sidewash_factor,
+                             slope_of(fin, mach), fin.efficiency, fin.sidewash_factor,
                              geometry.wing_area, geometry.span, alpha, axes)
 
 
-def fin_increments(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1.0):
+def rudder_share(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1.0, mach=0.0,
+                 given=None):
+    """The rudder derivatives' fin part, resized (see the module docstring).
+
+    Parameters
+    ----------
+    fin, geometry, alpha, axes, area_ratio, arm_ratio, mach
+        As for :func:`fin_share`.
+    given : mapping or None
+        The file's Cy_dr, Cn_dr, Cl_dr, used when the fin has no rudder fractions.
+
+    Returns
+    -------
+    dict
+        :data:`RUDDER_DERIVATIVES` [1/rad].
+    """
+    k_area = np.asarray(area_ratio, dtype=float)
+    k_arm = np.asarray(arm_ratio, dtype=float)
+    if fin.rudder_span_fraction is not None and fin.rudder_chord_fraction is not None:
+        effectiveness = flap_effectiveness(fin.rudder_chord_fraction) * fin.rudder_span_fraction
+        return rudder_contributions(fin.area * k_area, fin.arm * k_arm, fin.height,
+                                    slope_of(fin, mach), fin.efficiency, effectiveness,
+                                    geometry.wing_area, geometry.span, alpha, axes)
+    given = given or {}
+    arm, height = _arms(fin.arm * k_arm, fin.height, alpha, axes)
+    arm0, height0 = _arms(fin.arm, fin.height, alpha, axes)
+    height_ratio = np.where(np.abs(height0) > 1e-12 * fin.arm, height / np.where(
+        np.abs(height0) > 1e-12 * fin.arm, height0, 1.0), 1.0)
+    return {"Cy_dr": k_area * given.get("Cy_dr", 0.0),
+            "Cn_dr": k_area * given.get("Cn_dr", 0.0) * arm / arm0,
+            "Cl_dr": k_area * given.get("Cl_dr", 0.0) * height_ratio}
+
+
+def fin_increments(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1.0,
+                   mach=0.0, given=None):
     """Change of each derivative when the fin is resized: C_F(k_S, k_l) - C_F(1, 1).
 
     Parameters
@@ -151,11 +107,15 @@ def fin_increments(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ra
         Axes of the derivatives.
     area_ratio, arm_ratio : float or array
         k_S, k_l [-].
+    mach : float or array
+        Mach number [-] (for a fin lift slope from the planform).
+    given : mapping or None
+        The file's rudder derivatives (see :func:`rudder_share`).
 
     Returns
     -------
     dict
-        :data:`FIN_DERIVATIVES` increments [1/rad].
+        :data:`FIN_DERIVATIVES` and :data:`RUDDER_DERIVATIVES` increments [1/rad].
 
     Examples
     --------
@@ -167,6 +127,10 @@ def fin_increments(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ra
     ...                 fin_share(fin, wing)["Cn_beta"]))
     True
     """
-    resized = fin_share(fin, geometry, alpha, axes, area_ratio, arm_ratio)
-    nominal = fin_share(fin, geometry, alpha, axes)
-    return {name: resized[name] - nominal[name] for name in FIN_DERIVATIVES}
+    out = {}
+    for share in (fin_share, rudder_share):
+        extra = {"given": given} if share is rudder_share else {}
+        resized = share(fin, geometry, alpha, axes, area_ratio, arm_ratio, mach, **extra)
+        nominal = share(fin, geometry, alpha, axes, 1.0, 1.0, mach, **extra)
+        out.update({name: resized[name] - nominal[name] for name in resized})
+    return out
