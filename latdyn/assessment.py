@@ -189,6 +189,11 @@ class ConditionAssessment:
         The ModeSet the assessments were made from (None when built from values).
     roll : latdyn.roll_performance.RollResult or None
         The rolls after a full roll command (where the file gives aileron travel).
+    equivalent : object
+        The fitted equivalent low-order system of an augmented condition
+        (:class:`latdyn.equivalent_systems.EquivalentSystem`), else None.
+    equivalent_assessments : tuple of Assessment
+        Its Dutch roll, roll and spiral graded with the same criteria sets.
     """
 
     name: str
@@ -199,6 +204,8 @@ class ConditionAssessment:
     assessments: tuple
     modes: object = None
     roll: object = None
+    equivalent: object = None
+    equivalent_assessments: tuple = ()
 
     def __iter__(self):
         return iter(self.assessments)
@@ -231,9 +238,13 @@ class ConditionAssessment:
             entry = self.worst(name)
             worst[name] = None if entry is None else {"mode": entry.mode, "level": entry.level,
                                                       "pass": entry.passed}
-        return {"name": self.name, "category": self.category, "airplane_class": self.airplane_class,
-                "assessments": [a.as_dict() for a in self.assessments], "flight_phase": self.flight_phase,
-                "worst": worst}
+        document = {"name": self.name, "category": self.category, "airplane_class": self.airplane_class,
+                    "assessments": [a.as_dict() for a in self.assessments], "flight_phase": self.flight_phase,
+                    "worst": worst}
+        if self.equivalent is not None:
+            document["equivalent_system"] = {**self.equivalent.as_dict(), "assessments": [
+                a.as_dict() for a in self.equivalent_assessments]}
+        return document
 
     def __repr__(self):
         worst = [self.worst(name) for name in dict.fromkeys(a.criteria for a in self.assessments)]
@@ -276,6 +287,21 @@ class AircraftAssessment:
 
     def __iter__(self):
         return iter(self.conditions)
+
+    def equivalent_view(self):
+        """The grades of the equivalent low-order systems as an AircraftAssessment of their own
+        (the augmented conditions only), or None when no condition is augmented."""
+        from dataclasses import replace
+
+        conditions = tuple(replace(c, assessments=c.equivalent_assessments, modes=c.equivalent.modes,
+                                   roll=None, equivalent=None, equivalent_assessments=())
+                           for c in self.conditions if c.equivalent is not None)
+        if not conditions:
+            return None
+        return replace(self, aircraft=f"{self.aircraft}: equivalent low-order systems", conditions=conditions,
+                       notes=("equivalent Dutch roll, roll and spiral of the fitted low-order system "
+                              "(MIL-STD-1797A approach, forms from memory); the equivalent delays and the "
+                              "mismatch are indicators, not graded",))
 
     def as_dict(self, version=None) -> dict:
         """The JSON document of ``latdyn assess --format json``."""
@@ -699,7 +725,7 @@ def _roll_missing(entry, airplane_class, category, flight_phase, mass, condition
     return tuple(missing)
 
 
-def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessment:
+def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) -> AircraftAssessment:
     """Assess every condition of an aircraft against handling-qualities criteria.
 
     Pipeline: :func:`latdyn.aircraft.load_aircraft` ->
@@ -719,6 +745,10 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
         for the bands that hold only in some phases of a category.  A
         condition's own ``flight_phase`` attribute, if the aircraft file
         gives one, is used otherwise.
+    equivalent : bool
+        For each augmented condition also fit the equivalent low-order system
+        (:func:`latdyn.equivalent_systems.fit_equivalent_system`) and grade its
+        Dutch roll, roll and spiral with the same criteria sets.
 
     Returns
     -------
@@ -749,8 +779,15 @@ def assess(aircraft, criteria_sets=None, flight_phases=None) -> AircraftAssessme
         rolls, roll = assess_roll_performance(model, getattr(condition, "controls", None), sets,
                                               airplane_class, flight.category, phase, mass, flight.speed,
                                               condition.name)
+        fitted, graded = None, ()
+        if equivalent and getattr(condition, "augmentation", None) is not None:
+            from latdyn.equivalent_systems import fit_equivalent_system
+
+            fitted = fit_equivalent_system(model, modes)
+            graded = assess_modes(fitted.modes, sets, airplane_class, flight.category, phase,
+                                  flight.altitude, condition.name)
         conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
-                                              flight.altitude, assessments + rolls, modes, roll))
+                                              flight.altitude, assessments + rolls, modes, roll, fitted, graded))
     notes = []
     if airplane_class is None and any(s.assessment == "levels" for s in sets):
         notes.append("the aircraft file gives no airplane_class: military levels are given only where "

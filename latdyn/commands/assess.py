@@ -136,6 +136,24 @@ def render_assessment(result, style="table") -> str:
     return "\n".join(lines)
 
 
+def _equivalent_text(result, style):
+    """The equivalent-system section of an aircraft with augmented conditions ("" otherwise)."""
+    view = result.equivalent_view()
+    if view is None:
+        return ""
+    from latdyn.report.render import render_markdown_table, render_text
+    from latdyn.report.tables import equivalent_table
+
+    table = equivalent_table(result)
+    words = ("Equivalent low-order systems: p/da and beta/dr of the augmented aircraft fitted over 0.1 to "
+             "10 rad/s (MIL-STD-1797A's approach; forms, range and mismatch weighting from memory). "
+             "M = (20/n) sum(dB^2 + 0.01745 deg^2): an indicator; the equivalent delays tau_e are shown, "
+             "not graded (their limits are recalled with low confidence).")
+    if style == "markdown":
+        return "\n\n" + "\n\n".join([words, render_markdown_table(table), render_assessment(view, style)])
+    return "\n\n" + "\n".join([words, render_text(table), "", render_assessment(view, style)])
+
+
 def render_assessments(results, style="table") -> str:
     """All aircraft in one text, Markdown or CSV document.
 
@@ -148,7 +166,7 @@ def render_assessments(results, style="table") -> str:
     from latdyn.report.tables import ASSESSMENT_CSV_VIEW, assessment_table
 
     if style != "csv":
-        return "\n\n".join(render_assessment(r, style) for r in results) + "\n"
+        return "\n\n".join(render_assessment(r, style) + _equivalent_text(r, style) for r in results) + "\n"
     lines = [f"# {NOTICE}"]
     for result in results:
         for c in result.criteria:

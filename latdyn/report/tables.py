@@ -26,7 +26,7 @@ __all__ = [
     "derivative_table", "derivative_caption", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
-    "turbulence_table",
+    "turbulence_table", "equivalent_table",
 ]
 
 
@@ -642,3 +642,25 @@ def turbulence_table(entries, name="turbulence") -> Table:
                Column("r", "RMS r", "deg/s"), Column("phi", "RMS phi", "deg"), Column("ny", "RMS n_y", "g"),
                Column("left_out", "Roots left out"))
     return Table(name, "RMS response to Dryden lateral turbulence", columns, tuple(rows))
+
+
+def equivalent_table(assessment, name="equivalent-systems") -> Table:
+    """Parameters and mismatch of the equivalent low-order systems of an AircraftAssessment's
+    augmented conditions (:mod:`latdyn.equivalent_systems`)."""
+    rows = []
+    for item in assessment.conditions:
+        fitted = item.equivalent
+        if fitted is None:
+            continue
+        p = fitted.parameters
+        rows.append({"condition": item.name, "omega_d": p["omega_d"], "zeta_d": p["zeta_d"],
+                     "roll_root": p["roll_root"], "spiral_root": p["spiral_root"],
+                     "tau_p": p["tau_p"], "tau_beta": p["tau_beta"],
+                     "mismatch_p": fitted.mismatch["p/da"], "mismatch_beta": fitted.mismatch["beta/dr"]})
+    columns = (Column("condition", "Condition"), Column("omega_d", "omega_d", "rad/s"),
+               Column("zeta_d", "zeta_d", "-"), Column("roll_root", "lambda_R", "1/s"),
+               Column("spiral_root", "lambda_S", "1/s"), Column("tau_p", "tau_e p/da", "s"),
+               Column("tau_beta", "tau_e beta/dr", "s"), Column("mismatch_p", "M p/da", "-", digits=3),
+               Column("mismatch_beta", "M beta/dr", "-", digits=3))
+    return Table(name, "Equivalent low-order systems (fitted to p/da and beta/dr, 0.1 to 10 rad/s)",
+                 columns, tuple(rows))
