@@ -11,9 +11,16 @@ run, alternating, best of N.  Baselines:
   latdyn's default zero-order hold.
 
 Prints the speed ratios (target >= 10) and the agreement relative to the
-peak (target <= 1e-9).  No assertion: these machines are shared.
+peak (target <= 1e-9).
 
-    python benchmarks/responses.py [--repeat 30]
+Batched doublets: ``--batch`` cases (the same doublet on models whose state
+matrices are scaled at random), latdyn's ``simulate_arrays`` on the stack
+against a plain batched numpy recurrence written as a user would (batched
+``scipy.linalg.expm`` of the augmented matrix, then a step loop with
+``numpy.einsum``); target: at least 1x.  No assertion: these machines are
+shared.
+
+    python benchmarks/responses.py [--repeat 30] [--batch 1000]
 """
 
 from __future__ import annotations
@@ -47,6 +54,7 @@ def main():
 
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--repeat", type=int, default=30)
+    parser.add_argument("--batch", type=int, default=1000, help="cases of the batched-doublet comparison")
     args = parser.parse_args()
 
     demo = sorted((ROOT / "aircraft").glob("*.toml"))[0]
@@ -91,6 +99,46 @@ def main():
           f"agreement {agreement(ours_zoh(), control_zoh()):.1e} of peak (target <= 1e-9)")
     print(f"ratio control.forced_response (continuous) / latdyn zero-order hold: "
           f"{timings['control_continuous'] / timings['ours_zoh']:.1f}")
+    batched_doublets(A, B, C, D, t, u, args.batch, max(1, args.repeat // 10))
+
+
+def batched_doublets(A, B, C, D, t, u, count, repeat):
+    """latdyn's batched held-input simulation against a plain batched numpy recurrence."""
+    from scipy.linalg import expm
+
+    from latdyn.responses import simulate_arrays
+
+    rng = np.random.default_rng(0)
+    stack = A * (1.0 + 0.05 * rng.standard_normal((count, 1, 1)))
+    h = t[1] - t[0]
+
+    def ours():
+        return simulate_arrays(stack, B, C, D, t, u)[1]
+
+    def naive():
+        n, k = B.shape
+        M = np.zeros((count, n + k, n + k))
+        M[:, :n, :n] = stack * h
+        M[:, :n, n:] = B * h
+        E = expm(M)
+        Phi, Gamma = E[:, :n, :n], E[:, :n, n:]
+        x = np.zeros((count, n))
+        states = np.empty((count, t.size, n))
+        states[:, 0] = x
+        for i in range(1, t.size):
+            x = np.einsum("bij,bj->bi", Phi, x) + np.einsum("bij,j->bi", Gamma, u[i - 1])
+            states[:, i] = x
+        return states @ C.T + u @ D.T
+
+    timings = {}
+    for _ in range(2):
+        for name, function in (("ours", ours), ("naive", naive)):
+            timings[name] = min(timings.get(name, math.inf), best(function, repeat))
+    difference = float(np.abs(ours() - naive()).max() / np.abs(naive()).max())
+    print(f"batched doublets: {count} cases x {t.size} samples; latdyn {timings['ours'] * 1e3:.0f} ms, "
+          f"plain batched numpy recurrence {timings['naive'] * 1e3:.0f} ms")
+    print(f"ratio plain numpy batch / latdyn batch: {timings['naive'] / timings['ours']:.2f} "
+          f"(target >= 1); agreement {difference:.1e} of peak")
 
 
 if __name__ == "__main__":

@@ -32,7 +32,9 @@ __all__ = [
     "HOLDS",
     "Response",
     "discretise",
+    "expm_stack",
     "propagate",
+    "SEQUENTIAL_BATCH",
     "simulate_arrays",
     "with_heading",
     "simulate",
@@ -58,6 +60,69 @@ _DISPLAY = {
                          ("p", "p_deg_s"), ("r", "r_deg_s"), ("phi", "phi_deg"), ("psi", "psi_deg"),
                          ("ny", "ny_g"))
 }
+
+
+#: Coefficients b_0 .. b_13 of the [13/13] Pade approximant and the largest 1-norm it serves
+#: unscaled (N. J. Higham, "The scaling and squaring method for the matrix exponential
+#: revisited", SIAM J. Matrix Anal. Appl. 26(4), 2005, table 2.3 and eq. 2.3).
+_PADE13 = (64764752532480000.0, 32382376266240000.0, 7771770303897600.0, 1187353796428800.0,
+           129060195264000.0, 10559470521600.0, 670442572800.0, 33522128640.0, 1323241920.0,
+           40840800.0, 960960.0, 16380.0, 182.0, 1.0)
+_THETA13 = 5.371920351148152
+
+#: Stacks of at least this many matrices take the vectorised exponential.
+_STACK_EXPM = 16
+
+
+def expm_stack(M):
+    """Matrix exponential of a stack of matrices.
+
+    A small stack goes to ``scipy.linalg.expm``.  A large one is computed
+    at once by scaling and squaring with the [13/13] Pade approximant
+    (Higham, SIAM J. Matrix Anal. Appl. 26(4), 2005, algorithm 2.3 --
+    the algorithm's number from memory): each matrix scaled by 2^-s with
+    s = max(0, ceil(log2(||M||_1 / theta_13))), R = (V - U)^-1 (V + U),
+    then squared s times -- the per-matrix loop of scipy replaced by
+    vectorised products over the stack.
+
+    Parameters
+    ----------
+    M : array_like, shape (..., n, n)
+
+    Returns
+    -------
+    numpy.ndarray, shape (..., n, n)
+
+    Examples
+    --------
+    >>> E = expm_stack(np.stack([[[0.0, 1.0], [-1.0, 0.0]]] * 20))  # rotation by 1 rad
+    >>> bool(np.allclose(E[7], [[np.cos(1), np.sin(1)], [-np.sin(1), np.cos(1)]]))
+    True
+    """
+    M = np.asarray(M, dtype=float)
+    if M.ndim < 3 or math.prod(M.shape[:-2]) < _STACK_EXPM:
+        from scipy.linalg import expm
+
+        return expm(M)
+    n = M.shape[-1]
+    norm = np.abs(M).sum(axis=-2).max(axis=-1)
+    with np.errstate(divide="ignore"):
+        squarings = np.maximum(0, np.ceil(np.log2(norm / _THETA13)))
+    squarings = np.where(np.isfinite(squarings), squarings, 0).astype(int)
+    X = M / np.ldexp(1.0, squarings)[..., None, None]
+    b = _PADE13
+    identity = np.eye(n)
+    X2 = X @ X
+    X4 = X2 @ X2
+    X6 = X4 @ X2
+    U = X @ (X6 @ (b[13] * X6 + b[11] * X4 + b[9] * X2) + b[7] * X6 + b[5] * X4 + b[3] * X2
+             + b[1] * identity)
+    V = X6 @ (b[12] * X6 + b[10] * X4 + b[8] * X2) + b[6] * X6 + b[4] * X4 + b[2] * X2 + b[0] * identity
+    R = np.linalg.solve(V - U, V + U)
+    for k in range(int(squarings.max(initial=0))):
+        chosen = squarings > k
+        R[chosen] = R[chosen] @ R[chosen]
+    return R
 
 
 def discretise(A, B, step_size, hold="zero"):
@@ -96,8 +161,6 @@ def discretise(A, B, step_size, hold="zero"):
     """
     if hold not in HOLDS:
         raise ValueError(f"hold must be one of {HOLDS}, found {hold!r}")
-    from scipy.linalg import expm
-
     A = np.asarray(A, dtype=float)
     B = np.asarray(B, dtype=float)
     n, k = B.shape[-2], B.shape[-1]
@@ -109,7 +172,7 @@ def discretise(A, B, step_size, hold="zero"):
     M[..., :n, n:n + k] = B * h
     if hold == "linear":
         M[..., n:n + k, n + k:] = np.eye(k)
-    E = expm(M)
+    E = expm_stack(M)
     Phi = E[..., :n, :n]
     if hold == "zero":
         return Phi, E[..., :n, n:], np.zeros(batch + (n, k))
@@ -117,14 +180,24 @@ def discretise(A, B, step_size, hold="zero"):
     return Phi, E[..., :n, n:n + k] - Gamma1, Gamma1
 
 
-def propagate(Phi, forcing):
-    """Solve ``x[k] = Phi[k] x[k-1] + forcing[k]`` for all k by a prefix scan.
+#: Batch size from which :func:`propagate` runs the plain recurrence instead of the prefix scan
+#: (measured with benchmarks/responses.py: the scan's O(N log N) work with large temporaries
+#: loses to N vectorised steps once the batch holds about a hundred cases).
+SEQUENTIAL_BATCH = 128
 
-    ``forcing[..., 0, :]`` is the initial state.  The scan (Hillis and
-    Steele, "Data parallel algorithms", Comm. ACM 29(12), 1986; the
-    linear-recurrence form in Blelloch, "Prefix sums and their
-    applications", CMU-CS-90-190, 1990) composes the affine maps in
-    ceil(log2 N) vectorised steps.
+
+def propagate(Phi, forcing):
+    """Solve ``x[k] = Phi[k] x[k-1] + forcing[k]`` for all k.
+
+    ``forcing[..., 0, :]`` is the initial state.  For one case or a small
+    batch the affine maps are composed by a parallel prefix scan in
+    ceil(log2 N) vectorised steps (Hillis and Steele, "Data parallel
+    algorithms", Comm. ACM 29(12), 1986; the linear-recurrence form in
+    Blelloch, "Prefix sums and their applications", CMU-CS-90-190, 1990);
+    for a batch of :data:`SEQUENTIAL_BATCH` cases or more with one matrix
+    per case, the recurrence runs step by step, each step vectorised over
+    the batch (state components as contiguous rows).  Both are exact to
+    round-off.
 
     Parameters
     ----------
@@ -147,7 +220,10 @@ def propagate(Phi, forcing):
     x = np.array(forcing, dtype=float)
     Phi = np.asarray(Phi, dtype=float)
     count = x.shape[-2]
-    uniform = Phi.ndim == x.ndim
+    uniform = Phi.ndim != x.ndim + 1
+    batch = x.shape[:-2]
+    if uniform and math.prod(batch) >= SEQUENTIAL_BATCH:
+        return _recurrence(np.broadcast_to(Phi, batch + Phi.shape[-2:]), x)
     if not uniform:
         Phi = Phi.copy()
     power = Phi
@@ -162,6 +238,31 @@ def propagate(Phi, forcing):
                                     power[..., shift:, :, :] @ power[..., :-shift, :, :]], axis=-3)
         shift *= 2
     return x
+
+
+def _recurrence(Phi, forcing):
+    """``x[k] = Phi x[k-1] + forcing[k]`` step by step, vectorised over the batch.
+
+    Layout (N, n, batch): each state component of a step is one contiguous
+    row, so a step is n*n multiply-adds of batch-long rows.
+    """
+    batch = forcing.shape[:-2]
+    count, n = forcing.shape[-2:]
+    size = math.prod(batch)
+    F = np.ascontiguousarray(np.moveaxis(forcing.reshape(size, count, n), 0, -1))   # (N, n, size)
+    P = np.ascontiguousarray(np.moveaxis(Phi.reshape(size, n, n), 0, -1))           # (n, n, size)
+    X = np.empty_like(F)
+    X[0] = F[0]
+    term = np.empty(size)
+    for k in range(1, count):
+        previous, current = X[k - 1], X[k]
+        np.copyto(current, F[k])
+        for i in range(n):
+            row = current[i]
+            for j in range(n):
+                np.multiply(P[i, j], previous[j], out=term)
+                row += term
+    return np.moveaxis(X, -1, 0).reshape(batch + (count, n))
 
 
 def simulate_arrays(A, B, C, D, time, inputs, initial_state=None, hold="zero"):
@@ -222,17 +323,19 @@ def simulate_arrays(A, B, C, D, time, inputs, initial_state=None, hold="zero"):
         if uniform:
             h = (time[-1] - time[0]) / steps.size
             Phi, G0, G1 = discretise(A, B, h, hold)
-            G0 = G0[..., None, :, :]
-            G1 = G1[..., None, :, :]
+            # one Gamma for every step: u @ Gamma^T, one matrix product per case
+            w = u[..., :-1, :] @ np.swapaxes(G0, -1, -2)
+            if hold == "linear":
+                w = w + u[..., 1:, :] @ np.swapaxes(G1, -1, -2)
         else:
             unique, index = np.unique(np.round(steps, 12), return_inverse=True)
             PhiU, G0U, G1U = discretise(A[..., None, :, :], B[..., None, :, :], unique, hold)
             Phi = np.concatenate([np.zeros(PhiU.shape[:-3] + (1, n, n)), PhiU[..., index, :, :]], axis=-3)
             G0 = G0U[..., index, :, :]
             G1 = G1U[..., index, :, :]
-        w = (G0 @ u[..., :-1, :, None])[..., 0]
-        if hold == "linear":
-            w = w + (G1 @ u[..., 1:, :, None])[..., 0]
+            w = (G0 @ u[..., :-1, :, None])[..., 0]
+            if hold == "linear":
+                w = w + (G1 @ u[..., 1:, :, None])[..., 0]
         forcing[..., 1:, :] = w
         if uniform:
             states = propagate(Phi, forcing)

@@ -286,6 +286,44 @@ def test_prefix_scan_equals_the_plain_recursion():
     np.testing.assert_allclose(propagate(per_step, forcing), expected, rtol=1e-12, atol=1e-12)
 
 
+def test_large_batches_take_the_step_recurrence_and_agree_with_scipy_lsim():
+    """A batch of SEQUENTIAL_BATCH cases or more runs step by step: the same states as the prefix
+    scan and as scipy.signal.lsim case by case (zero-order hold of held inputs)."""
+    from scipy.signal import lsim
+
+    from latdyn.responses import SEQUENTIAL_BATCH
+
+    rng = np.random.default_rng(9)
+    model = DEMOS[0][1]
+    count = SEQUENTIAL_BATCH + 5
+    A = model.A * (1.0 + 0.1 * rng.standard_normal((count, 1, 1)))
+    history = _history(model, "3211")
+    states, outputs = simulate_arrays(A, model.B, model.C, model.D, history.time, history.values)
+    few = slice(0, 3)
+    scanned, _ = simulate_arrays(A[few], model.B, model.C, model.D, history.time, history.values)
+    np.testing.assert_allclose(states[few], scanned, rtol=0, atol=1e-12 * np.abs(scanned).max())
+    for i in (0, count - 1):
+        _, y, _ = lsim((A[i], model.B, model.C, model.D), history.values, history.time, interp=False)
+        np.testing.assert_allclose(outputs[i], y, rtol=0, atol=1e-9 * np.abs(y).max())
+    # an unbatched matrix with batched forcing is one matrix for every case (uniform grid)
+    forcing = rng.standard_normal((4, 10, 4))
+    expected = np.stack([propagate(model.A * 0.01, f) for f in forcing])
+    np.testing.assert_allclose(propagate(model.A * 0.01, forcing), expected, rtol=1e-12, atol=1e-12)
+
+
+@pytest.mark.parametrize("scale", [1e-4, 1e-2, 1.0, 20.0], ids=["tiny", "small", "unit", "large"])
+def test_vectorised_matrix_exponential_equals_scipy(scale):
+    """expm_stack (scaling and squaring, [13/13] Pade, Higham 2005) against scipy.linalg.expm."""
+    from scipy.linalg import expm
+
+    from latdyn.responses import expm_stack
+
+    M = scale * np.random.default_rng(12).standard_normal((40, 6, 6))
+    expected = expm(M)
+    size = np.abs(expected).max(axis=(-1, -2), keepdims=True)
+    np.testing.assert_array_less(np.abs(expm_stack(M) - expected) / size, 1e-11)
+
+
 def test_discretise_zero_order_hold_of_a_first_order_lag():
     """Phi = exp(-h/T), Gamma = 1 - exp(-h/T) for x' = (u - x)/T (Franklin, Powell and Workman,
     Digital Control of Dynamic Systems, 3rd ed., sec. 4.3 -- from memory)."""
