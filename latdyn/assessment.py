@@ -163,6 +163,11 @@ class Assessment:
     def __repr__(self):
         return f"<Assessment {self.summary()}; guidance only>"
 
+    def _repr_html_(self):
+        from latdyn.report.notebook import assessment_html
+
+        return assessment_html(self)
+
     def as_dict(self) -> dict:
         """The JSON entry of ``latdyn assess --format json``."""
         out = {"criteria": self.criteria, "edition": self.edition, "mode": self.mode,
@@ -252,6 +257,11 @@ class ConditionAssessment:
         return (f"<ConditionAssessment {self.name} (category {self.category or '-'}): "
                 f"{len(self.assessments)} assessments; {text or 'nothing assessed'}; guidance only>")
 
+    def _repr_html_(self):
+        from latdyn.report.notebook import assessment_html
+
+        return assessment_html(self)
+
     def to_pandas(self):
         """The assessments as a DataFrame (needs pandas); see :func:`latdyn.frames.assessment_frame`."""
         from latdyn.frames import assessment_frame
@@ -322,6 +332,11 @@ class AircraftAssessment:
         tally = ", ".join(f"{key} x{count}" for key, count in counts.items())
         return (f"<AircraftAssessment {self.aircraft}: {len(self.conditions)} conditions; "
                 f"{tally or 'nothing assessed'}; guidance only>")
+
+    def _repr_html_(self):
+        from latdyn.report.notebook import assessment_html
+
+        return assessment_html(self)
 
     def to_pandas(self):
         """The assessments as a DataFrame, one row per condition, mode and criteria set (needs pandas).

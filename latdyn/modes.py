@@ -464,6 +464,11 @@ class Mode:
     def __repr__(self):
         return f"<Mode {self.summary()}>"
 
+    def _repr_html_(self):
+        from latdyn.report.notebook import modes_html
+
+        return modes_html(self)
+
     def as_dict(self) -> dict:
         """The entry of the ``latdyn modes --json`` contract (SI; null where it does not apply)."""
         root = self.eigenvalue
@@ -532,6 +537,11 @@ class ModeSet:
     def __repr__(self):
         added = f"; {len(self.added)} added roots" if self.added else ""
         return "<ModeSet " + "; ".join(mode.summary() for mode in self.modes) + added + ">"
+
+    def _repr_html_(self):
+        from latdyn.report.notebook import modes_html
+
+        return modes_html(self)
 
     def to_pandas(self, added=False):
         """The modes as a DataFrame, one row per mode (needs pandas).

@@ -453,6 +453,11 @@ class Response:
         return (f"<Response{label}{what}; t = 0 to {end:.4g} s, {len(self.time)} samples; "
                 f"states {', '.join(self.state_names)}>")
 
+    def _repr_html_(self):
+        from latdyn.report.notebook import response_html
+
+        return response_html(self)
+
     def to_pandas(self):
         """The time history as a DataFrame indexed by time [s] (needs pandas).
 

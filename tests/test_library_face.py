@@ -250,3 +250,42 @@ def test_command_line_prints_each_warning_once(tmp_path):
     with warnings.catch_warnings():
         warnings.simplefilter("error", latdyn.LatdynWarning)
         assert main(["modes", str(path)]) == 0  # the command line silences the category
+
+
+# ---------------------------------------------------------------- notebook display
+def test_notebook_html_uses_the_report_tables():
+    """_repr_html_: the report's own tables (same words and digits), the notice wherever a level shows."""
+    import html
+
+    from latdyn.report.render import render_html_table
+    from latdyn.report.tables import MODE_TEXT_VIEW, mode_table
+
+    aircraft = latdyn.load_aircraft(STUDY)
+    modes = latdyn.find_modes(latdyn.lateral_model(aircraft, "approach"))
+    page = modes._repr_html_()
+    assert render_html_table(mode_table(modes, caption=f"Modes ({modes.pattern})").select(MODE_TEXT_VIEW)) in page
+    assert "DIVERGENT" in modes["spiral"]._repr_html_() or modes["spiral"].stable
+    notice = html.escape(latdyn.NOTICE)
+    levels = latdyn.assess(aircraft)
+    for item in (levels, levels.conditions[0], levels.conditions[0].assessments[0]):
+        page = item._repr_html_()
+        assert notice in page and "<table>" in page and "<ol><li>MIL-F-8785C" in page
+    swept = latdyn.sweep(aircraft, [("fin.area_ratio", 0.3, 1.5, 40)], "approach")
+    page = swept._repr_html_()
+    assert notice in page and page.count("<tr") == 1 + 30 and "10 more rows of 40" in page
+    assert "fin.area_ratio &gt;= 0.435" in page  # the root-found crossing, as the CLI words it
+    drawn = latdyn.uncertainty(aircraft, samples=50, seed=2, condition="approach")
+    assert notice in drawn._repr_html_() and drawn._repr_html_().count("<table>") == 2
+
+
+def test_notebook_html_of_a_response_does_not_warn():
+    from latdyn.inputs import make_input
+
+    model = latdyn.lateral_model(latdyn.load_aircraft(KESTREL), "approach")
+    response = latdyn.simulate(model, make_input("aileron-step", np.linspace(0, 20, 401),
+                                                 math.radians(20), 1.0), label="approach")
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        page = response._repr_html_()
+    assert "Read-outs from the responses" in page
+    assert 'class="warning">warning: |phi| reaches' in page

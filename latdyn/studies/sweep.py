@@ -170,6 +170,11 @@ class SweepResult:
         return (f"<SweepResult {self.aircraft.name}: {axes}; {len(self.conditions)} conditions; "
                 f"{len(self.crossings)} level-boundary crossings; guidance only>")
 
+    def _repr_html_(self):
+        from latdyn.report.notebook import sweep_html
+
+        return sweep_html(self)
+
     def to_pandas(self):
         """One row per condition and grid point, as in ``latdyn sweep --format json`` (needs pandas).
 

@@ -244,6 +244,11 @@ class UncertaintyResult:
         return (f"<UncertaintyResult {self.aircraft.name}: {self.samples} samples (seed {self.seed}); "
                 f"{len(self.conditions)} conditions; criteria {names}; guidance only>")
 
+    def _repr_html_(self):
+        from latdyn.report.notebook import uncertainty_html
+
+        return uncertainty_html(self)
+
     def to_pandas(self, table="levels"):
         """Level probabilities (``table="levels"``) or figure percentiles (``"figures"``) (needs pandas).
 
