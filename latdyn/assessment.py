@@ -199,6 +199,10 @@ class ConditionAssessment:
         (:class:`latdyn.equivalent_systems.EquivalentSystem`), else None.
     equivalent_assessments : tuple of Assessment
         Its Dutch roll, roll and spiral graded with the same criteria sets.
+    roll_response : latdyn.roll_response.RollResponse or None
+        Roll-rate and bank oscillations, psi_beta, sideslip excursion, k (indicators).
+    departure : latdyn.departure.Departure or None
+        Cn_beta,dyn and LCDP (indicators).
     """
 
     name: str
@@ -211,6 +215,8 @@ class ConditionAssessment:
     roll: object = None
     equivalent: object = None
     equivalent_assessments: tuple = ()
+    roll_response: object = None
+    departure: object = None
 
     def __iter__(self):
         return iter(self.assessments)
@@ -243,9 +249,14 @@ class ConditionAssessment:
             entry = self.worst(name)
             worst[name] = None if entry is None else {"mode": entry.mode, "level": entry.level,
                                                       "pass": entry.passed}
+        response = self.roll_response.as_dict() if self.roll_response is not None else dict.fromkeys(
+            ("p_osc_over_p_av", "phi_osc_over_phi_av", "psi_beta", "delta_beta_max", "k",
+             "delta_beta_over_k", "sideslip_sense"))
+        departure = self.departure.as_dict() if self.departure is not None else {
+            "cn_beta_dynamic": None, "lcdp": None}
         document = {"name": self.name, "category": self.category, "airplane_class": self.airplane_class,
                     "assessments": [a.as_dict() for a in self.assessments], "flight_phase": self.flight_phase,
-                    "worst": worst}
+                    "worst": worst, "roll_response": response, "departure": departure}
         if self.equivalent is not None:
             document["equivalent_system"] = {**self.equivalent.as_dict(), "assessments": [
                 a.as_dict() for a in self.equivalent_assessments]}
@@ -706,6 +717,19 @@ def assess_roll_performance(model, controls, criteria_sets, airplane_class=None,
 POUND_KG = 0.45359237
 
 
+def _roll_requirement(sets, airplane_class, category, flight_phase, mass, speed):
+    """(bank change [rad], time [s]) of the Level 1 (or pass) roll-performance row of the first set
+    that has one for the condition: the requirement k is measured against (MIL-F-8785C 6.2.6)."""
+    for criteria in sets:
+        entry = criteria.roll_performance
+        if entry is None:
+            continue
+        for band in entry.bands:
+            if band.level in (1, None) and band.applies(airplane_class, category, flight_phase, mass, speed):
+                return band.bank_change, band.time_limit(mass)
+    return None
+
+
 def _roll_gap_notes(criteria, entry, airplane_class, category, flight_phase, mass):
     """Why no row decides: the rows not built in, or what the condition must state."""
     notes = []
@@ -776,6 +800,8 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
     """
     from latdyn.aircraft import load_aircraft
     from latdyn.augmentation import condition_model, model_modes
+    from latdyn.departure import departure_indicators
+    from latdyn.roll_response import roll_response
 
     if not hasattr(aircraft, "conditions"):
         aircraft = load_aircraft(aircraft)
@@ -791,9 +817,12 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
         assessments = assess_modes(modes, sets, airplane_class, flight.category, phase, flight.altitude,
                                    condition.name)
         mass = aircraft.mass.mass if aircraft.mass is not None else None
-        rolls, roll = assess_roll_performance(model, getattr(condition, "controls", None), sets,
-                                              airplane_class, flight.category, phase, mass, flight.speed,
-                                              condition.name)
+        controls = getattr(condition, "controls", None)
+        rolls, roll = assess_roll_performance(model, controls, sets, airplane_class, flight.category,
+                                              phase, mass, flight.speed, condition.name)
+        response = roll_response(model, modes.get("dutch_roll"), getattr(controls, "aileron", None),
+                                 _roll_requirement(sets, airplane_class, flight.category, phase, mass,
+                                                   flight.speed), flight.category)
         fitted, graded = None, ()
         if equivalent and getattr(condition, "augmentation", None) is not None:
             from latdyn.equivalent_systems import fit_equivalent_system
@@ -802,7 +831,9 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
             graded = assess_modes(fitted.modes, sets, airplane_class, flight.category, phase,
                                   flight.altitude, condition.name)
         conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
-                                              flight.altitude, assessments + rolls, modes, roll, fitted, graded))
+                                              flight.altitude, assessments + rolls, modes, roll, fitted, graded,
+                                              roll_response=response,
+                                              departure=departure_indicators(aircraft, condition)))
     notes = []
     if airplane_class is None and any(s.assessment == "levels" for s in sets):
         notes.append("the aircraft file gives no airplane_class: military levels are given only where "

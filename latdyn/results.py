@@ -93,12 +93,13 @@ def modes_document(aircraft: Aircraft, results=None, condition: str | None = Non
     [...]}]}`` plus the extra keys ``airplane_class``, ``warnings`` and, per
     condition, ``altitude``, ``mach``, ``equivalent_airspeed``, ``calibrated_airspeed``,
     ``alpha``, ``gamma``, ``axes``,
-    ``pattern``; with an engaged ``[augmentation]`` also ``augmentation`` (its
+    ``pattern``, ``departure`` (``{"cn_beta_dynamic", "lcdp", "notes"}``, indicators); with an engaged ``[augmentation]`` also ``augmentation`` (its
     values, SI) and ``added_roots`` (the roots of the washout, sensors,
     actuators and delay, each entry laid out as a mode with ``mode`` naming
     the block).  A field that does not apply is None (JSON null).
     """
     from latdyn import __version__
+    from latdyn.departure import departure_indicators
 
     if results is None:
         results = analyse_aircraft(aircraft, condition)
@@ -108,5 +109,6 @@ def modes_document(aircraft: Aircraft, results=None, condition: str | None = Non
         "file": aircraft.file,
         "airplane_class": aircraft.airplane_class,
         "warnings": list(aircraft.warnings),
-        "conditions": [condition_document(r) for r in results],
+        "conditions": [dict(condition_document(r), departure=departure_indicators(aircraft, r.condition).as_dict())
+                       for r in results],
     }

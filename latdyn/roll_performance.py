@@ -43,7 +43,7 @@ from dataclasses import dataclass
 import numpy as np
 
 __all__ = [
-    "response_to_ramp", "bank_history", "time_to_bank", "bank_at_time", "coordinated_model",
+    "response_to_ramp", "impulse_history", "bank_history", "time_to_bank", "bank_at_time", "coordinated_model",
     "RollResult", "roll_performance", "single_degree_of_freedom_bank", "HORIZON", "ROLL_DIRECTION_NOTE",
     "PEDALS_FREE_NOTE", "COORDINATED_NOTE", "REVERSAL_NOTE",
 ]
@@ -181,6 +181,36 @@ def response_to_ramp(A, b, c, d, times, ramp_time=0.0):
     y = y + d[:, :, None] * u[:, None, :]
     for i in np.flatnonzero(bad):
         y[i] = _expm_response(A[i], b[i], c[i], d[i], t[i], float(ramp[i]))
+    return y
+
+
+def impulse_history(A, B, times, row, input_column=0):
+    """Output ``row`` of a batch of models after a unit impulse on one input, from rest.
+
+    y(t) = c e^(A t) b = sum_k r_k e^(lambda_k t) (the closed form above; the
+    matrix exponential for a multiple root).
+
+    Returns
+    -------
+    numpy.ndarray, shape (N, T)
+
+    Examples
+    --------
+    >>> y = impulse_history([[[-2.0]]], [[[1.0]]], [0.5], [1.0])
+    >>> round(float(y[0, 0]), 12) == round(math.exp(-1.0), 12)
+    True
+    """
+    from scipy.linalg import expm
+
+    A = np.asarray(A, dtype=float)
+    b = np.asarray(B, dtype=float)[:, :, input_column]
+    N, n = A.shape[0], A.shape[-1]
+    c = np.broadcast_to(np.asarray(row, dtype=float), (N, n))[:, None, :]
+    t = np.asarray(times, dtype=float)
+    lam, residues, bad = _modal(A, b, c)
+    y = np.einsum("nk,nkt->nt", residues[:, 0, :], np.exp(lam[:, :, None] * t[None, None, :])).real
+    for i in np.flatnonzero(bad):
+        y[i] = [c[i, 0] @ expm(A[i] * ti) @ b[i] for ti in t]
     return y
 
 

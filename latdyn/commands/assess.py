@@ -90,6 +90,17 @@ def _notes(result):
             for (label, criteria, note), names in grouped.items()]
 
 
+#: Columns of the roll-response indicators on the terminal (the aircraft is in the title).
+RESPONSE_TEXT_VIEW = ("condition", "p_osc_over_p_av", "first_minimum_ratio", "phi_osc_over_phi_av", "psi_beta",
+                      "omega_phi_over_omega_d", "delta_beta_max", "sideslip_sense", "k", "delta_beta_over_k",
+                      "cn_beta_dynamic", "lcdp")
+RESPONSE_EXPLAIN = ("MIL-F-8785C 3.3.2 quantities after a full step (p, beta, k) or pulse (phi) roll command, "
+                    "rolls to the right; its boundaries against psi_beta (Figures 4 to 6) and the 3.3.2.4 "
+                    "sideslip table are not built in. p_min/p_peak: roll rate at the first minimum over the "
+                    "first peak (3.3.2.2: at least 25 % for Category B Level 1 and Categories A, C Level 2 "
+                    "[secondary]). Cn_beta,dyn and LCDP > 0: resistant to departure (Weissman 1972 [recalled]).")
+
+
 def _title(result):
     text = f"Handling-qualities assessment: {result.aircraft}"
     if result.file:
@@ -107,9 +118,11 @@ def render_assessment(result, style="table") -> str:
     """
     from latdyn.assessment import NOTICE
     from latdyn.report.render import escape_markdown, render_markdown_table, render_text
-    from latdyn.report.tables import ASSESSMENT_TEXT_VIEW, assessment_sources, assessment_table
+    from latdyn.report.tables import (ASSESSMENT_TEXT_VIEW, assessment_sources, assessment_table,
+                                      roll_response_table)
 
     table = assessment_table(result).select(ASSESSMENT_TEXT_VIEW)
+    response = roll_response_table(result).select(RESPONSE_TEXT_VIEW)
     sources = assessment_sources(result)
     notes = list(result.notes) + _notes(result)
     criteria = [f"{c.name}: {c.edition}" for c in result.criteria]
@@ -121,7 +134,11 @@ def render_assessment(result, style="table") -> str:
         lines += [f"- {escape_markdown(line)}" for line in criteria]
         lines += ["", "Worst level per condition:"] + [f"- {escape_markdown(line)}" for line in worst_lines(result)]
         lines += ["", render_markdown_table(table), "",
-                  escape_markdown(explain) + " Rows below Level 1 (or failing) in bold.", "", "Sources:"]
+                  escape_markdown(explain) + " Rows below Level 1 (or failing) in bold."]
+        if response.rows:
+            lines += ["", escape_markdown(response.caption) + ":", "", render_markdown_table(response), "",
+                      escape_markdown(RESPONSE_EXPLAIN)]
+        lines += ["", "Sources:"]
         lines += [f"{i}. {escape_markdown(text)}" for i, text in enumerate(sources, 1)]
         if notes:
             lines += ["", "Notes:"] + [f"- {escape_markdown(n)}" for n in notes]
@@ -129,7 +146,10 @@ def render_assessment(result, style="table") -> str:
         return "\n".join(lines)
     lines = [_title(result), NOTICE, "Criteria: " + "; ".join(criteria), "",
              "Worst level per condition:"] + [f"  {line}" for line in worst_lines(result)]
-    lines += ["", render_text(table), explain, "", "Sources:"]
+    lines += ["", render_text(table), explain]
+    if response.rows:
+        lines += ["", response.caption + ":", render_text(response), RESPONSE_EXPLAIN]
+    lines += ["", "Sources:"]
     lines += [f"  [{i}] {text}" for i, text in enumerate(sources, 1)]
     if notes:
         lines += ["Notes:"] + [f"  - {n}" for n in notes]

@@ -5,7 +5,8 @@ from __future__ import annotations
 import json
 import sys
 
-__all__ = ["add_arguments", "run", "condition_heading", "augmentation_lines", "washout_lines"]
+__all__ = ["add_arguments", "run", "condition_heading", "augmentation_lines", "washout_lines",
+           "departure_lines"]
 
 
 def add_arguments(parser):
@@ -58,6 +59,20 @@ def washout_lines(result):
     return [] if effect is None else [f"  {effect.words()}"]
 
 
+def departure_lines(aircraft, condition):
+    """The departure indicators of one condition, one line (indicators, not levels)."""
+    from latdyn.departure import departure_indicators
+
+    found = departure_indicators(aircraft, condition)
+    if found.cn_beta_dynamic is None and found.lcdp is None:
+        return [f"  departure indicators: {found.notes[0]}"] if found.notes else []
+    parts = []
+    for name, value in (("Cn_beta,dyn", found.cn_beta_dynamic), ("LCDP", found.lcdp)):
+        if value is not None:
+            parts.append(f"{name} {value:+.4g} /rad ({'> 0' if value > 0 else 'NOT > 0: departure-prone'})")
+    return ["  departure indicators (Weissman 1972 [recalled]): " + ", ".join(parts)]
+
+
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.results import analyse_aircraft, modes_document
@@ -81,7 +96,8 @@ def run(args):
                       f"  roots: {result.modes.pattern}",
                       *augmentation_lines(result.condition),
                       render_text(mode_table(result.modes).select(MODE_TEXT_VIEW)),
-                      *washout_lines(result)]
+                      *washout_lines(result),
+                      *departure_lines(aircraft, result.condition)]
             if args.shapes:
                 lines += ["  mode shapes (real modes: signed magnitude; oscillations: magnitude "
                           "and phase in degrees):",

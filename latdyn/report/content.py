@@ -21,7 +21,8 @@ from latdyn.display import DEFAULT, format_number
 from latdyn.report.blocks import Figure, Heading, Notice, Paragraph, Report
 from latdyn.report.tables import (comparison_tables, derivative_table, flight_condition_table, mass_table,
                                   MODE_REPORT_VIEW, ASSESSMENT_REPORT_VIEW, assessment_table, mode_table,
-                                  provenance_tables, readout_table, summary_table, transfer_table)
+                                  provenance_tables, readout_table, roll_response_table, summary_table,
+                                  transfer_table)
 
 __all__ = ["SECTIONS", "report_content", "slug", "summary_section", "comparison_section",
            "aircraft_section", "condition_section", "warnings_section", "provenance_section",
@@ -64,6 +65,12 @@ def summary_section(data, units=DEFAULT) -> list:
                         "Margin: to the next-better boundary in the governing parameter's units "
                         "(positive inside the boundary). " + NOTICE, "small"),
               summary_table(data.assessments),
+              roll_response_table(data.assessments, units),
+              Paragraph("Response to roll control: MIL-F-8785C 3.3.2 quantities after a full step (p, beta, k) "
+                        "or pulse (phi) roll command, pedals free, rolls to the right, and the departure "
+                        "indicators Cn_beta,dyn and LCDP (> 0: resistant; Weissman 1972 [recalled]). "
+                        "Indicators only: the boundaries against psi_beta (Figures 4 to 6) and the 3.3.2.4 "
+                        "sideslip table are not built in.", "small"),
               Paragraph("Criteria editions: " + "; ".join(
                   f"{c.name}: {c.edition}" for c in data.criteria.values()) + ".", "small")]
     blocks += [Paragraph("Note: " + note, "warning") for a in data.assessments for note in a.notes]

@@ -26,7 +26,7 @@ __all__ = [
     "derivative_table", "derivative_caption", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
-    "turbulence_table", "equivalent_table",
+    "turbulence_table", "equivalent_table", "roll_response_table",
 ]
 
 
@@ -664,3 +664,55 @@ def equivalent_table(assessment, name="equivalent-systems") -> Table:
                Column("mismatch_beta", "M beta/dr", "-", digits=3))
     return Table(name, "Equivalent low-order systems (fitted to p/da and beta/dr, 0.1 to 10 rad/s)",
                  columns, tuple(rows))
+
+
+def roll_response_table(assessments, units=DEFAULT, name="roll-response") -> Table:
+    """Response to roll control and departure indicators, one row per aircraft and condition.
+
+    Indicators only (pedals free, right rolls): MIL-F-8785C 3.3.2 quantities
+    (:mod:`latdyn.roll_response`) and Cn_beta,dyn, LCDP (:mod:`latdyn.departure`).
+    """
+    if not isinstance(assessments, (list, tuple)):
+        assessments = (assessments,)
+    rows = []
+    for assessment in assessments:
+        for condition in assessment.conditions:
+            response, departure = condition.roll_response, condition.departure
+            if response is None and departure is None:
+                continue
+
+            def value(obj, key, quantity=None):
+                raw = getattr(obj, key, None) if obj is not None else None
+                if raw is None:
+                    return Absent("-")
+                return units.convert(raw, quantity) if quantity else raw
+
+            rows.append({
+                "aircraft": assessment.aircraft, "condition": condition.name,
+                "p_osc_over_p_av": value(response, "p_osc_over_p_av"),
+                "first_minimum_ratio": value(response, "first_minimum_ratio"),
+                "phi_osc_over_phi_av": value(response, "phi_osc_over_phi_av"),
+                "psi_beta": value(response, "psi_beta", "angle"),
+                "omega_phi_over_omega_d": value(response, "omega_phi_over_omega_d"),
+                "delta_beta_max": value(response, "delta_beta_max", "angle"),
+                "sideslip_sense": value(response, "sideslip_sense"),
+                "k": value(response, "k"),
+                "delta_beta_over_k": value(response, "delta_beta_over_k", "angle"),
+                "cn_beta_dynamic": value(departure, "cn_beta_dynamic"),
+                "lcdp": value(departure, "lcdp"),
+            })
+    angle = units.label("angle")
+    columns = (Column("aircraft", "Aircraft"), Column("condition", "Condition"),
+               Column("p_osc_over_p_av", "p_osc/p_av", "-", digits=3),
+               Column("first_minimum_ratio", "p_min/p_peak", "-", digits=3),
+               Column("phi_osc_over_phi_av", "phi_osc/phi_av", "-", digits=3),
+               Column("psi_beta", "psi_beta", angle, digits=3),
+               Column("omega_phi_over_omega_d", "omega_phi/omega_d", "-", digits=3),
+               Column("delta_beta_max", "Delta beta_max", angle, digits=3),
+               Column("sideslip_sense", "Sense"),
+               Column("k", "k", "-", digits=3),
+               Column("delta_beta_over_k", "Delta beta/k", angle, digits=3),
+               Column("cn_beta_dynamic", "Cn_beta,dyn", "1/rad", digits=3),
+               Column("lcdp", "LCDP", "1/rad", digits=3))
+    return Table(name, "Response to roll control and departure indicators (indicators, not graded; "
+                 "pedals free)", columns, tuple(rows))
