@@ -22,7 +22,7 @@ DEMO_FLIGHT_TEST := --data aircraft/flight-test/kestrel-k40-cruise-rudder-double
 demo: $(STAMP)
 	$(BIN)/latdyn modes aircraft/skylark-sv2.toml
 	$(BIN)/latdyn assess $(DEMO_BASE) $(DEMO_VARIANTS)
-	$(BIN)/latdyn report $(DEMO_BASE) --compare $(DEMO_VARIANTS) -o reports/demo --force --progress
+	$(BIN)/latdyn report $(DEMO_BASE) $(addprefix --compare ,$(DEMO_VARIANTS)) -o reports/demo --force --progress
 	$(BIN)/latdyn identify $(DEMO_BASE) --condition cruise $(DEMO_FLIGHT_TEST) -o reports/kestrel-k40-identified.toml --plot reports/kestrel-k40-identification.png
 	$(BIN)/latdyn compare $(DEMO_BASE) reports/kestrel-k40-identified.toml
 

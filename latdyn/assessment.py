@@ -42,6 +42,7 @@ __all__ = [
     "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
     "phi_to_beta_excess", "stack_levels", "Assessment", "ConditionAssessment", "AircraftAssessment",
     "assess_modes", "assess", "default_criteria", "level_words", "assess_roll_performance",
+    "below_level", "checks_below",
 ]
 
 #: The guidance-only notice carried by every table, report and plot that shows a level.
@@ -66,6 +67,39 @@ def level_words(level, passed=None) -> str:
             return "not assessed"
         return "pass" if passed else "fail"
     return "beyond Level 3" if level >= 4 else f"Level {level}"
+
+
+def below_level(level, passed, threshold) -> bool:
+    """True when a check is worse than Level ``threshold`` (1, 2 or 3).
+
+    A level above the threshold (2 or worse against 1; 4 is beyond Level 3)
+    and a failed pass/fail check are below it; a check that is not assessed
+    is not.
+
+    Examples
+    --------
+    >>> below_level(2, None, 1), below_level(1, None, 1), below_level(None, False, 3)
+    (True, False, True)
+    >>> below_level(None, True, 1), below_level(None, None, 1)
+    (False, False)
+    """
+    if level is not None:
+        return level > threshold
+    return passed is False
+
+
+def checks_below(results, threshold) -> list:
+    """``(aircraft, condition, Assessment)`` of every check below Level ``threshold``.
+
+    Parameters
+    ----------
+    results : iterable of AircraftAssessment
+    threshold : int
+        1, 2 or 3.
+    """
+    return [(result.aircraft, condition.name, entry)
+            for result in results for condition in result.conditions
+            for entry in condition.assessments if below_level(entry.level, entry.passed, threshold)]
 
 
 def _number(value):

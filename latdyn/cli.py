@@ -15,7 +15,7 @@ import warnings
 
 from latdyn.errors import InputError, LatdynWarning
 
-__all__ = ["main", "COMMANDS"]
+__all__ = ["main", "COMMANDS", "build_parser", "parse_arguments"]
 
 #: (name, one-line help) of every command; the module is latdyn.commands.<name with - as _>.
 COMMANDS = (
@@ -51,6 +51,14 @@ def _command_module(name):
     return importlib.import_module("latdyn.commands." + name.replace("-", "_"))
 
 
+def _add_command(sub, name, text):
+    command = sub.add_parser(name, help=text, description=text)
+    command.add_argument("--debug", action="store_true", default=argparse.SUPPRESS,
+                         help="show a traceback on errors")
+    _command_module(name).add_arguments(command)
+    return command
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of every command."""
     parser = argparse.ArgumentParser(
@@ -62,17 +70,36 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     sub.required = True
     for name, text in COMMANDS:
-        command = sub.add_parser(name, help=text, description=text)
-        command.add_argument("--debug", action="store_true", default=argparse.SUPPRESS,
-                             help="show a traceback on errors")
-        _command_module(name).add_arguments(command)
+        _add_command(sub, name, text)
     return parser
+
+
+def parse_arguments(argv) -> argparse.Namespace:
+    """Parse a command line; options may stand before, between and after the files.
+
+    The command's own parser reads its arguments intermixed
+    (:meth:`argparse.ArgumentParser.parse_intermixed_args`), so
+    ``latdyn assess A.toml --format csv B.toml`` reads both files.  Anything
+    else (``--version``, help, an unknown command) goes to the full parser.
+    """
+    argv = list(argv)
+    names = {name for name, _ in COMMANDS}
+    index = next((i for i, word in enumerate(argv) if not word.startswith("-")), None)
+    if index is None or argv[index] not in names or any(w != "--debug" for w in argv[:index]):
+        return build_parser().parse_args(argv)
+    name = argv[index]
+    sub = argparse.ArgumentParser(prog="latdyn").add_subparsers()
+    command = _add_command(sub, name, dict(COMMANDS)[name])
+    command.prog = f"latdyn {name}"
+    args = command.parse_intermixed_args(argv[index + 1:])
+    args.command = name
+    args.debug = "--debug" in argv[:index] or getattr(args, "debug", False)
+    return args
 
 
 def main(argv=None) -> int:
     """Run ``latdyn`` with the given arguments; return the exit status."""
-    parser = build_parser()
-    args = parser.parse_args(argv)
+    args = parse_arguments(sys.argv[1:] if argv is None else argv)
     debug = getattr(args, "debug", False)
     try:
         with warnings.catch_warnings():

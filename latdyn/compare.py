@@ -22,7 +22,7 @@ from latdyn.results import analyse_aircraft
 
 __all__ = [
     "FigureChange", "LevelChange", "InputChange", "ConditionComparison", "Comparison",
-    "compare", "compare_many", "comparison_document", "MODE_FIGURES", "relative_change",
+    "compare", "compare_many", "comparison_document", "MODE_FIGURES", "drops_below", "relative_change",
 ]
 
 #: (mode figure attribute, label, unit) compared for each mode.
@@ -288,6 +288,21 @@ def compare(base: Aircraft, variant: Aircraft, criteria_sets=None) -> Comparison
                       tuple(n for n in results_a if n not in results_b),
                       tuple(n for n in results_b if n not in results_a),
                       assessment_b.criteria)
+
+
+def drops_below(comparisons, threshold) -> list:
+    """``(variant, condition, LevelChange)`` of every check a variant takes below Level ``threshold``.
+
+    A drop is a check below the level in the variant that was not below it
+    in the base (:func:`latdyn.assessment.below_level`).
+    """
+    from latdyn.assessment import below_level
+
+    return [(comparison.variant, condition.name, change)
+            for comparison in comparisons for condition in comparison.conditions
+            for change in condition.levels
+            if below_level(change.variant_level, change.variant_pass, threshold)
+            and not below_level(change.base_level, change.base_pass, threshold)]
 
 
 def compare_many(base: Aircraft, variants, criteria_sets=None) -> tuple:

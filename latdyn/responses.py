@@ -42,6 +42,7 @@ __all__ = [
     "StandardResponse",
     "standard_response",
     "display_columns",
+    "csv_text",
     "write_csv",
 ]
 
@@ -612,6 +613,15 @@ def display_columns(response) -> dict:
     return {name: columns[name] for name in CSV_COLUMNS}
 
 
+def csv_text(response) -> str:
+    """The response as CSV text with the columns :data:`CSV_COLUMNS` (display units)."""
+    columns = display_columns(response)
+    table = np.column_stack(list(columns.values()))
+    lines = [",".join(CSV_COLUMNS)]
+    lines += [",".join(f"{value:.10g}" for value in row) for row in table]
+    return "\n".join(lines) + "\n"
+
+
 def write_csv(path, response) -> None:
     """Write a response as CSV with the columns :data:`CSV_COLUMNS` (atomically).
 
@@ -624,9 +634,5 @@ def write_csv(path, response) -> None:
     """
     from latdyn.output_files import atomic_output
 
-    columns = display_columns(response)
-    table = np.column_stack(list(columns.values()))
     with atomic_output(path, text=True) as handle:
-        handle.write(",".join(CSV_COLUMNS) + "\n")
-        for row in table:
-            handle.write(",".join(f"{value:.10g}" for value in row) + "\n")
+        handle.write(csv_text(response))

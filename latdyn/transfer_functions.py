@@ -196,6 +196,13 @@ class Factor:
     time_constant: float | None
     mode: str | None = None
 
+    def as_dict(self) -> dict:
+        """JSON entry: ``{"order", "root": [re, im], "natural_frequency", "damping_ratio",
+        "time_constant", "mode"}`` (SI)."""
+        return {"order": self.order, "root": [self.root.real, self.root.imag],
+                "natural_frequency": self.natural_frequency, "damping_ratio": self.damping_ratio,
+                "time_constant": self.time_constant, "mode": self.mode}
+
     def text(self, digits=4) -> str:
         """The factor as text, e.g. ``(s + 1.121)`` or ``(s^2 + 0.2187s + 0.9921)``."""
         if self.order == 1:
@@ -281,6 +288,24 @@ class TransferFunction:
     def name(self) -> str:
         """Short name such as ``phi/da``."""
         return f"{_SYMBOLS.get(self.output, self.output)}/{_SYMBOLS.get(self.input, self.input)}"
+
+    def as_dict(self) -> dict:
+        """The JSON entry (SI units, radians).
+
+        ``{"output", "input", "name", "gain", "zeros", "poles", "static_gain",
+        "numerator", "denominator", "factored"}``: ``gain`` is the leading
+        coefficient of the numerator, ``zeros`` and ``poles`` are ``[re, im]``
+        pairs [1/s], ``numerator`` and ``denominator`` the factors
+        (:meth:`Factor.as_dict`), ``factored`` the text form.
+        """
+        return {"output": self.output, "input": self.input, "name": self.name,
+                "gain": self.gain,
+                "zeros": [[complex(z).real, complex(z).imag] for z in self.zeros],
+                "poles": [[complex(p).real, complex(p).imag] for p in self.poles],
+                "static_gain": self.static_gain,
+                "numerator": [f.as_dict() for f in self.numerator],
+                "denominator": [f.as_dict() for f in self.denominator],
+                "factored": self.text()}
 
     def evaluate(self, s) -> np.ndarray:
         """G(s) from the factored form at complex frequencies ``s`` [1/s]."""

@@ -41,7 +41,7 @@ def test_json_layout(demo_files, capsys):
 
 
 def test_json_one_entry_per_set_and_mode(demo_files, capsys):
-    _, out, _ = _run(capsys, demo_files[0], "--format", "json", "--criteria", "mil-f-8785c", "14cfr25-181")
+    _, out, _ = _run(capsys, demo_files[0], "--format", "json", "--criteria", "mil-f-8785c", "--criteria", "14cfr25-181")
     for condition in json.loads(out)["conditions"]:
         pairs = [(e["criteria"], e["mode"]) for e in condition["assessments"]]
         assert len(pairs) == len(set(pairs))
@@ -57,7 +57,7 @@ def test_json_several_files_is_a_list(demo_files, capsys):
 
 @pytest.mark.parametrize("style", ["table", "markdown", "csv", "json"])
 def test_every_format_carries_notice_and_edition(style, demo_files, capsys):
-    status, out, _ = _run(capsys, demo_files[0], "--format", style, "--criteria", "mil-f-8785c", "14cfr23-181")
+    status, out, _ = _run(capsys, demo_files[0], "--format", style, "--criteria", "mil-f-8785c", "--criteria", "14cfr23-181")
     assert status == 0
     assert NOTICE in out
     assert "MIL-F-8785C (5 November 1980)" in out

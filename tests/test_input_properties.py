@@ -248,10 +248,10 @@ def command_options(tmp):
                     **{option: NUMBERS for option in ("--amplitude-deg", "--half-period", "--start", "--duration",
                                                       "--dt", "--beta0-deg", "--phi0-deg", "--p0-deg-s",
                                                       "--r0-deg-s")},
-                    "--csv": outputs, "--plot": outputs, "--bode": outputs, "--spiral": [],
+                    "--csv": outputs, "--plot": outputs, "--bode": outputs, "--spiral": [], "-o": outputs,
                     "--transfer-functions": []},
         "compare": {"--criteria": CRITERIA, "--format": common["--format"]},
-        "sweep": {**common, "--plot": outputs,
+        "sweep": {**common, "--plot": outputs, "-o": outputs,
                   "--vary": ["Cn_beta=0.05:0.2:3", "Cn_beta=0:1:1", "mass=6000:7000:2", "Cn_beta=0.1:0.1:3",
                              "x=1:2:3", "Cl_p=-0.5:-0.3:2", "speed=40:80:3", "Cn_beta=nan:1:3", "Cn_beta"]},
     }

@@ -114,7 +114,7 @@ def test_bad_command_line_uncertainties(words, message):
 def test_uncertainty_command_json_and_plot(capsys, tmp_path):
     out = tmp_path / "scatter.png"
     status = main(["uncertainty", str(KESTREL), "--samples", "2000", "--seed", "5", "--vary",
-                   "Cn_r=±20%", "--vary", "Cl_p=+-0.05", "uniform", "--condition", "approach",
+                   "Cn_r=±20%", "--vary", "Cl_p=+-0.05,uniform", "--condition", "approach",
                    "--format", "json", "--plot", str(out)])
     assert status == 0
     document = json.loads(capsys.readouterr().out)

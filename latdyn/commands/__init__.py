@@ -1,10 +1,85 @@
 """The commands of ``latdyn``, one module each (see :mod:`latdyn.cli`).
 
-Shared steps of the study commands live here: reading what they all read
-before any work, so that bad input stops them before anything is written.
+Shared here: the options every command spells the same way, and the steps
+the study commands share (reading what they all read before any work, so
+that bad input stops them before anything is written).
+
+Command-line conventions (every command follows them; see DEVELOPERS.md):
+
+* options may stand before, between or after the positional files;
+* an option that takes several values is repeated (``--criteria A
+  --criteria B``; commas also separate criteria names), and takes one value
+  each time, so it never swallows a file;
+* ``--format table|markdown|csv|json`` on every command that prints results
+  (JSON in SI units and radians);
+* ``-o/--output`` on every command that writes a file or folder (older
+  option names stay as aliases);
+* bad input: one line on stderr and exit status 2; ``--fail-below LEVEL``
+  (assess, compare) exits 1 when a check is (or drops) below the level.
 """
 
-__all__ = ["load_study_inputs", "notice_csv"]
+__all__ = ["load_study_inputs", "notice_csv", "FORMATS", "add_format", "add_criteria",
+           "criteria_names", "add_fail_below", "report_below"]
+
+#: Output formats of the commands that print results.
+FORMATS = ("table", "markdown", "csv", "json")
+
+_CRITERIA_HELP = ("criteria set: a built-in name (mil-f-8785c, mil-f-8785b, 14cfr23-181, "
+                  "14cfr23-181-pre2011, 14cfr25-181) or a criteria file; repeat the option "
+                  "(or separate names by commas) for several; default mil-f-8785c with an "
+                  "airplane_class, else 14cfr23-181 and 14cfr25-181")
+
+
+def add_format(parser, formats=FORMATS, extra=""):
+    """``--format`` with the given choices (default table)."""
+    parser.add_argument("--format", choices=formats, default="table",
+                        help="output format: " + ", ".join(formats) + " (default table; json in "
+                             "SI units and radians)" + extra)
+
+
+def add_criteria(parser):
+    """``--criteria SET``, repeatable; one value each time."""
+    parser.add_argument("--criteria", action="append", metavar="SET", help=_CRITERIA_HELP)
+
+
+def criteria_names(args):
+    """The criteria names given (commas split), or None for the default sets.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> criteria_names(SimpleNamespace(criteria=["mil-f-8785c,14cfr23-181", "my.toml"]))
+    ['mil-f-8785c', '14cfr23-181', 'my.toml']
+    >>> criteria_names(SimpleNamespace(criteria=None)) is None
+    True
+    """
+    if not args.criteria:
+        return None
+    names = [name.strip() for item in args.criteria for name in item.split(",")]
+    return [name for name in names if name] or None
+
+
+def add_fail_below(parser, what):
+    """``--fail-below LEVEL`` (1, 2 or 3)."""
+    parser.add_argument("--fail-below", type=int, choices=(1, 2, 3), metavar="LEVEL",
+                        help=f"exit with status 1 when {what} below Level LEVEL (1, 2 or 3; a "
+                             "failed pass/fail check counts as below any level); the output is "
+                             "printed first")
+
+
+def report_below(found, threshold, verb="is"):
+    """Print one line per check below the level on stderr; 1 if any, else 0."""
+    import sys
+
+    from latdyn.assessment import level_words
+
+    for name, condition, item in found:
+        level = getattr(item, "variant_level", getattr(item, "level", None))
+        passed = getattr(item, "variant_pass", getattr(item, "passed", None))
+        print(f'latdyn: {name} / "{condition}": {item.mode} under {item.criteria} {verb} '
+              f"{level_words(level, passed)}, below Level {threshold} (--fail-below {threshold})",
+              file=sys.stderr)
+    return 1 if found else 0
 
 
 def load_study_inputs(args):
@@ -27,7 +102,8 @@ def load_study_inputs(args):
 
         check_output_file(args.plot, "--plot", figure=True)
     aircraft = load_aircraft(args.file)
-    criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None
+    names = criteria_names(args)
+    criteria = [load_criteria(name) for name in names] if names else None
     if args.condition:
         aircraft.condition(args.condition)
     return aircraft, criteria

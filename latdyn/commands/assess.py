@@ -1,4 +1,5 @@
-"""``latdyn assess FILE... [--criteria SET...] [--format table|markdown|csv|json]``:
+"""``latdyn assess FILE... [--criteria SET]... [--format table|markdown|csv|json]
+[--condition NAME] [--flight-phase CONDITION=PHASE]... [-o FOLDER] [--fail-below LEVEL]``:
 the handling-qualities summary table.
 
 Default criteria: MIL-F-8785C for a file with ``airplane_class``, both civil
@@ -14,22 +15,20 @@ import sys
 __all__ = ["add_arguments", "run", "parse_flight_phases", "render_assessment", "render_assessments",
            "worst_lines"]
 
-FORMATS = ("table", "markdown", "csv", "json")
-
-
 def add_arguments(parser):
+    from latdyn.commands import add_criteria, add_fail_below, add_format
+
     parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) (TOML)")
-    parser.add_argument("--criteria", nargs="+", metavar="SET",
-                        help="criteria sets: built-in names (mil-f-8785c, mil-f-8785b, 14cfr23-181, "
-                             "14cfr23-181-pre2011, 14cfr25-181) or criteria file paths; default "
-                             "mil-f-8785c with an airplane_class, else 14cfr23-181 and 14cfr25-181")
-    parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default table)")
+    add_criteria(parser)
+    add_format(parser)
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     parser.add_argument("--flight-phase", action="append", default=[], metavar="CONDITION=PHASE",
                         help="sub-phase of a condition for bands that hold only in some phases "
                              "(for example attack=combat or attack=ground_attack); repeatable")
-    parser.add_argument("--plots", metavar="FOLDER",
-                        help="also write the charts (PNG and SVG) into this existing folder")
+    parser.add_argument("-o", "--output", "--plots", dest="plots", metavar="FOLDER",
+                        help="also write the charts (PNG and SVG) into this existing folder "
+                             "(--plots is the older name)")
+    add_fail_below(parser, "a check is")
 
 
 def parse_flight_phases(items, file="--flight-phase"):
@@ -204,8 +203,11 @@ def run(args):
     from latdyn.criteria_sets import load_criteria
     from latdyn.errors import InputError
 
+    from latdyn.commands import criteria_names
+
     phases = parse_flight_phases(args.flight_phase)
-    criteria = [load_criteria(name) for name in args.criteria] if args.criteria else None
+    names = criteria_names(args)
+    criteria = [load_criteria(name) for name in names] if names else None
     if args.plots:
         from latdyn.output_files import check_output_folder
 
@@ -236,4 +238,9 @@ def run(args):
     sys.stdout.write(text)
     for path in written:
         print(f"wrote {path}", file=sys.stderr)
+    if args.fail_below:
+        from latdyn.assessment import checks_below
+        from latdyn.commands import report_below
+
+        return report_below(checks_below(results, args.fail_below), args.fail_below)
     return 0

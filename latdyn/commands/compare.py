@@ -1,4 +1,5 @@
-"""``latdyn compare BASE VARIANT... [--criteria SET...] [--format table|markdown|csv|json]``."""
+"""``latdyn compare BASE VARIANT... [--criteria SET]... [--format table|markdown|csv|json]
+[--fail-below LEVEL]``."""
 
 from __future__ import annotations
 
@@ -11,9 +12,11 @@ __all__ = ["add_arguments", "run", "render_comparisons"]
 def add_arguments(parser):
     parser.add_argument("base", metavar="BASE", help="the base aircraft file")
     parser.add_argument("variants", nargs="+", metavar="VARIANT", help="variant aircraft file(s)")
-    parser.add_argument("--criteria", nargs="+", metavar="SET",
-                        help="criteria sets (built-in names or files); default as for assess")
-    parser.add_argument("--format", choices=("table", "markdown", "csv", "json"), default="table")
+    from latdyn.commands import add_criteria, add_fail_below, add_format
+
+    add_criteria(parser)
+    add_format(parser)
+    add_fail_below(parser, "a variant takes a check that was not")
 
 
 def render_comparisons(comparisons, style):
@@ -63,10 +66,17 @@ def run(args):
 
     base = load_aircraft(args.base)
     variants = [load_aircraft(path) for path in args.variants]
-    comparisons = compare_many(base, variants, args.criteria)
+    from latdyn.commands import criteria_names
+
+    comparisons = compare_many(base, variants, criteria_names(args))
     if args.format == "json":
         text = json.dumps(comparison_document(comparisons), indent=2, allow_nan=False) + "\n"
     else:
         text = render_comparisons(comparisons, args.format)
     sys.stdout.write(text)
+    if args.fail_below:
+        from latdyn.commands import report_below
+        from latdyn.compare import drops_below
+
+        return report_below(drops_below(comparisons, args.fail_below), args.fail_below, "drops to")
     return 0

@@ -1,4 +1,5 @@
-"""``latdyn modes FILE... [--condition NAME] [--json]``: the mode table of each condition."""
+"""``latdyn modes FILE... [--condition NAME] [--format table|markdown|csv|json] [--shapes]``:
+the mode table of each condition (``--json`` is ``--format json``)."""
 
 from __future__ import annotations
 
@@ -12,8 +13,11 @@ __all__ = ["add_arguments", "run", "condition_heading", "augmentation_lines", "w
 def add_arguments(parser):
     parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) (TOML)")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
-    parser.add_argument("--json", action="store_true",
-                        help="print the JSON document (SI units) instead of tables")
+    from latdyn.commands import add_format
+
+    add_format(parser)
+    parser.add_argument("--json", action="store_const", const="json", dest="format",
+                        help="the same as --format json")
     parser.add_argument("--shapes", action="store_true",
                         help="also print the mode shapes (eigenvector magnitudes and phases)")
 
@@ -74,40 +78,67 @@ def departure_lines(aircraft, condition):
 
 
 def run(args):
+    from dataclasses import replace
+
     from latdyn.aircraft import load_aircraft
     from latdyn.results import analyse_aircraft, modes_document
-    from latdyn.report.render import render_text
+    from latdyn.report.blocks import Column
+    from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import MODE_TEXT_VIEW, mode_table, shape_table
 
     aircraft_list = [load_aircraft(path) for path in args.files]
     if args.condition:
         for aircraft in aircraft_list:
             aircraft.condition(args.condition)
-    documents, texts = [], []
+    style = args.format
+    markdown = style == "markdown"
+    documents, texts, stacked = [], [], {"modes": [], "shapes": []}
     for aircraft in aircraft_list:
         results = analyse_aircraft(aircraft, args.condition)
-        if args.json:
+        if style == "json":
             documents.append(modes_document(aircraft, results))
             continue
-        lines = [f"{aircraft.name}  ({aircraft.file})"
-                 + (f"  class {aircraft.airplane_class}" if aircraft.airplane_class else "")]
+        if style == "csv":
+            for result in results:
+                where = {"aircraft": aircraft.name, "condition": result.condition.name}
+                stacked["modes"].append((where, mode_table(result.modes).select(MODE_TEXT_VIEW)))
+                if args.shapes:
+                    stacked["shapes"].append((where, shape_table(result.modes)))
+            continue
+        title = (f"{aircraft.name}  ({aircraft.file})"
+                 + (f"  class {aircraft.airplane_class}" if aircraft.airplane_class else ""))
+        lines = [f"## {escape_markdown(title)}" if markdown else title]
         for result in results:
-            lines += ["", condition_heading(result),
-                      f"  roots: {result.modes.pattern}",
-                      *augmentation_lines(result.condition),
-                      render_text(mode_table(result.modes).select(MODE_TEXT_VIEW)),
-                      *washout_lines(result),
-                      *departure_lines(aircraft, result.condition)]
+            heading = condition_heading(result)
+            lines += ["", f"### {escape_markdown(heading)}" if markdown else heading]
+            notes = [f"  roots: {result.modes.pattern}", *augmentation_lines(result.condition)]
+            if markdown:
+                lines += ["", *(escape_markdown(n.strip()) for n in notes), ""]
+            else:
+                lines += notes
+            lines += [render(mode_table(result.modes).select(MODE_TEXT_VIEW), style),
+                      *washout_lines(result), *departure_lines(aircraft, result.condition)]
             if args.shapes:
-                lines += ["  mode shapes (real modes: signed magnitude; oscillations: magnitude "
-                          "and phase in degrees):",
-                          render_text(shape_table(result.modes))]
+                lines += ["" if markdown else None,
+                          "  mode shapes (real modes: signed magnitude; oscillations: magnitude "
+                          "and phase in degrees):", "" if markdown else None,
+                          render(shape_table(result.modes), style)]
         for warning in aircraft.warnings:
             lines.append(f"warning: {warning}")
-        texts.append("\n".join(lines))
-    if args.json:
+        texts.append("\n".join(line for line in lines if line is not None))
+    if style == "json":
         payload = documents[0] if len(documents) == 1 else documents
         sys.stdout.write(json.dumps(payload, indent=2, allow_nan=False) + "\n")
+    elif style == "csv":
+        where = (Column("aircraft", "Aircraft"), Column("condition", "Condition"))
+        parts = []
+        for key in ("modes", "shapes"):
+            if stacked[key]:
+                first = stacked[key][0][1]
+                rows = tuple(dict(place, **row) for place, table in stacked[key] for row in table.rows)
+                parts.append(render(replace(first, columns=where + first.columns, rows=rows,
+                                            emphasis=()), "csv"))
+        sys.stdout.write("\n".join(parts))
     else:
         sys.stdout.write("\n\n".join(texts) + "\n")
     return 0

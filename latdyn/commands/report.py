@@ -1,4 +1,4 @@
-"""``latdyn report FILE... [--compare VARIANT...] [-o reports/NAME] [--criteria SET...] [--force]``."""
+"""``latdyn report FILE... [--compare VARIANT]... [-o reports/NAME] [--criteria SET]... [--force]``."""
 
 from __future__ import annotations
 
@@ -10,23 +10,26 @@ __all__ = ["add_arguments", "run"]
 
 def add_arguments(parser):
     parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) analysed in full")
-    parser.add_argument("--compare", nargs="+", default=(), metavar="VARIANT",
-                        help="variant files compared with the first FILE")
+    from latdyn.commands import add_criteria
+
+    parser.add_argument("--compare", action="append", default=[], metavar="VARIANT",
+                        help="a variant file compared with the first FILE; repeat the option "
+                             "for several")
     parser.add_argument("-o", "--output", metavar="FOLDER",
                         help="report folder (default reports/<first file's name>)")
-    parser.add_argument("--criteria", nargs="+", metavar="SET",
-                        help="criteria sets (built-in names or files); default as for assess")
+    add_criteria(parser)
     parser.add_argument("--force", action="store_true", help="replace an existing report folder")
     parser.add_argument("--progress", action="store_true", default=None,
                         help="show the progress line even when stderr is not a terminal")
 
 
 def run(args):
+    from latdyn.commands import criteria_names
     from latdyn.report import write_report
 
     output = args.output or os.path.join(
         "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
-    folder = write_report(args.files, output, args.compare, args.criteria, args.force,
+    folder = write_report(args.files, output, args.compare, criteria_names(args), args.force,
                           progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]])
     print(f"wrote {os.path.join(folder, 'index.html')}")
     return 0

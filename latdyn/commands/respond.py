@@ -1,9 +1,11 @@
-"""``latdyn respond FILE... [--condition NAME] [--input KIND|FILE.csv] ...``: time responses.
+"""``latdyn respond FILE... [--condition NAME]... [--input KIND|FILE.csv]... [-o OUT]...
+[--format table|markdown|csv|json] [--transfer-functions] ...``: time responses.
 
 Simulates each chosen condition (of one or more aircraft files) with the
 same input, prints the read-outs beside the eigenvalue figures, and writes
 the time history as CSV and the stacked time-history plot (several cases
-overlaid).  All the work is done by latdyn.inputs, latdyn.responses,
+overlaid).  ``--transfer-functions`` (or ``--bode``) on its own computes
+the transfer functions only, without a simulation.  All the work is done by latdyn.inputs, latdyn.responses,
 latdyn.readouts, latdyn.transfer_functions and latdyn.plots.responses.
 """
 
@@ -14,7 +16,13 @@ import os
 import re
 import sys
 
-__all__ = ["add_arguments", "run", "case_csv_paths"]
+__all__ = ["add_arguments", "run", "case_csv_paths", "respond_document", "FIGURE_SUFFIXES"]
+
+#: Output suffixes that -o writes as the time-history figure (anything else: CSV).
+FIGURE_SUFFIXES = (".png", ".svg", ".pdf")
+#: Options that ask for a simulation (with --transfer-functions alone there is none).
+_SIMULATION_OPTIONS = ("inputs", "amplitude_deg", "half_period", "start", "duration", "dt",
+                       "csv", "plot")
 
 _COMMAND_LINE = "command line"
 _MAX_SAMPLES = 2_000_000
@@ -45,11 +53,20 @@ def add_arguments(parser):
                        ("r0-deg-s", "deg/s")):
         parser.add_argument(f"--{name}", type=float, default=0.0, metavar="X",
                             help=f"initial {name.split('0')[0]} disturbance [{unit}]")
-    parser.add_argument("--csv", metavar="OUT", help="write the time history as CSV (one file per case)")
-    parser.add_argument("--plot", metavar="OUT", help="write the stacked time-history plot (.png, .pdf, .svg)")
+    parser.add_argument("-o", "--output", action="append", default=[], metavar="OUT",
+                        help="write OUT: the stacked time-history plot for .png, .svg, .pdf, "
+                             "else the time history as CSV (one file per case); repeat for both")
+    parser.add_argument("--csv", metavar="OUT", help="write the time history as CSV (as -o OUT.csv)")
+    parser.add_argument("--plot", metavar="OUT",
+                        help="write the stacked time-history plot (.png, .pdf, .svg; as -o)")
     parser.add_argument("--bode", metavar="OUT", help="write Bode plots of the transfer functions")
     parser.add_argument("--transfer-functions", action="store_true",
-                        help="print the transfer functions in factored form")
+                        help="the transfer functions in factored form (and, with --format json, "
+                             "gain, zeros and poles); alone, without a simulation")
+    from latdyn.commands import add_format
+
+    add_format(parser, extra="; csv prints the time history, or the transfer functions when "
+                             "there is no simulation")
 
 
 def _check_positive(value, option, allow_zero=False):
@@ -232,12 +249,13 @@ def _transfer_lines(model, modes):
                      f"    G(0) = {static}")
     dutch = modes.get("dutch_roll")
     phi_da = next(t for t in transfers if t.name == "phi/da")
+    ratios = None
     if dutch is not None and dutch.oscillatory:
         ratios = bank_numerator_ratios(phi_da, dutch.eigenvalue)
         if ratios is not None:
             lines.append(f"    phi/da numerator: omega_phi/omega_d = {_format(ratios[0])}, "
                          f"zeta_phi/zeta_d = {_format(ratios[1])}")
-    return lines, transfers
+    return lines, transfers, ratios
 
 
 def _summary(label, aircraft, response, readout, modes, settings):
@@ -261,6 +279,18 @@ def _summary(label, aircraft, response, readout, modes, settings):
     return lines
 
 
+def _sort_outputs(args):
+    """Fold ``-o`` into --csv and --plot by suffix (InputError on a second of one kind)."""
+    from latdyn.errors import InputError
+
+    for path in args.output:
+        option = "plot" if os.path.splitext(path)[1].lower() in FIGURE_SUFFIXES else "csv"
+        if getattr(args, option):
+            raise InputError(_COMMAND_LINE, "-o", f"one {option} output (a second -o or --{option} "
+                             "names the same output)", f'"{path}"')
+        setattr(args, option, path)
+
+
 def _check_outputs(args):
     """Refuse before any work an output that could not be written (see check_output_file)."""
     from latdyn.output_files import check_output_file
@@ -270,57 +300,151 @@ def _check_outputs(args):
             check_output_file(path, option, figure=option != "--csv")
 
 
-def run(args):
-    from latdyn.inputs import InitialDisturbance, default_inputs
-    from latdyn.augmentation import condition_model, model_modes
-    from latdyn.readouts import read_response
-    from latdyn.responses import simulate, write_csv
+def _simulation_wanted(args):
+    """False for --transfer-functions or --bode on their own (no input or output of a run)."""
+    if not (args.transfer_functions or args.bode):
+        return True
+    initial = any(getattr(args, name) for name in ("beta0_deg", "phi0_deg", "p0_deg_s", "r0_deg_s"))
+    return initial or args.spiral or any(getattr(args, name) for name in _SIMULATION_OPTIONS)
 
+
+def _readout_document(response, readout, settings):
+    trace = readout.dutch_roll
+    return {
+        "input": response.description or None,
+        "settings": settings,
+        "peaks": [{"signal": p.signal, "value": p.value, "time": p.time} for p in readout.peaks],
+        "dutch_roll_from_trace": None if trace is None else {
+            "damping_ratio": trace.damping_ratio, "period": trace.period,
+            "natural_frequency": trace.natural_frequency, "signal": trace.signal,
+            "extrema": trace.count},
+        "bank_angle_at_end": readout.residual_bank_angle,
+        "time_at_end": readout.residual_time,
+        "warnings": list(readout.warnings),
+    }
+
+
+def respond_document(cases, labels, readouts=None, transfers=None, ratios=None) -> dict:
+    """The ``latdyn respond --format json`` document (SI units, radians).
+
+    ``{"latdyn_version", "cases": [{"aircraft", "file", "condition", "label",
+    "response": {"input", "settings", "peaks", "dutch_roll_from_trace",
+    "bank_angle_at_end", "time_at_end", "warnings"} or null,
+    "transfer_functions": [{"output", "input", "gain", "zeros", "poles", ...}]
+    or null, "bank_numerator_ratios": {"frequency", "damping"} or null,
+    "warnings"}]}``.
+    """
+    from latdyn import __version__
+
+    out = []
+    for index, ((aircraft, condition), label) in enumerate(zip(cases, labels)):
+        ratio = ratios[index] if ratios else None
+        out.append({
+            "aircraft": aircraft.name, "file": aircraft.file, "condition": condition.name,
+            "label": label,
+            "response": readouts[index] if readouts else None,
+            "transfer_functions": ([t.as_dict() for t in transfers[index]] if transfers
+                                   else None),
+            "bank_numerator_ratios": None if ratio is None else {
+                "frequency": ratio[0], "damping": ratio[1]},
+            "warnings": list(aircraft.warnings)})
+    return {"latdyn_version": __version__, "cases": out}
+
+
+def run(args):
+    from latdyn.augmentation import condition_model, model_modes
+    from latdyn.inputs import InitialDisturbance, default_inputs
+    from latdyn.readouts import read_response
+    from latdyn.responses import csv_text, simulate, write_csv
+
+    _sort_outputs(args)
     _check_outputs(args)
     _check_angles(args)
     cases = _cases(args)
     labels = _labels(cases)
     models = [condition_model(aircraft, condition) for aircraft, condition in cases]
     modes = [model_modes(model) for model in models]
-    history, settings = _histories(args, default_inputs(modes[0]))
-    initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
-                                 r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
-    from latdyn.augmentation import actuator_rate_limits, simulate_rate_limited
+    simulating = _simulation_wanted(args)
+    responses, readouts, settings, limited = [], [], {}, [None] * len(cases)
+    if simulating:
+        limited = []
+        history, settings = _histories(args, default_inputs(modes[0]))
+        initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
+                                     r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
+        from latdyn.augmentation import actuator_rate_limits, simulate_rate_limited
 
-    responses, limited = [], []
-    for (_, condition), model, label in zip(cases, models, labels):
-        limits = actuator_rate_limits(condition, model)
-        if limits:
-            run = simulate_rate_limited(model, history, limits, initial, label)
-            responses.append(run.response)
-            limited.append(run)
-        else:
-            responses.append(simulate(model, history, initial, label=label))
-            limited.append(None)
-    readouts = [read_response(response) for response in responses]
-
-    lines = []
-    all_transfers = []
-    for (aircraft, _), label, response, readout, mode_set, model, run in zip(
-            cases, labels, responses, readouts, modes, models, limited):
-        if lines:
-            lines.append("")
-        lines += _summary(label, aircraft, response, readout, mode_set, settings)
-        if getattr(model, "augmentation", None) is not None:
-            from latdyn.augmentation import describe
-
-            lines.append(f"  augmented: {describe(model.augmentation)}")
-        if run is not None:
-            reached = ", ".join(f"{s} {t:.2f} s" for s, t in run.limited_time.items() if t > 0) or "never"
-            lines.append(f"  actuator rate limits active: nonlinear simulation (fourth-order Runge-Kutta, "
-                         f"step {run.step:.3g} s); time on the limit: {reached}")
-        if args.transfer_functions or args.bode:
-            transfer_lines, transfers = _transfer_lines(model, mode_set)
+        for (_, condition), model, label in zip(cases, models, labels):
+            limits = actuator_rate_limits(condition, model)
+            if limits:
+                run = simulate_rate_limited(model, history, limits, initial, label)
+                responses.append(run.response)
+                limited.append(run)
+            else:
+                responses.append(simulate(model, history, initial, label=label))
+                limited.append(None)
+        readouts = [read_response(response) for response in responses]
+    want_transfers = args.transfer_functions or args.bode
+    all_transfers, all_lines, all_ratios = [], [], []
+    for model, mode_set in zip(models, modes):
+        if want_transfers:
+            transfer_lines, transfers, ratio = _transfer_lines(model, mode_set)
             all_transfers.append(transfers)
+            all_lines.append(transfer_lines)
+            all_ratios.append(ratio)
+
+    if args.format == "json":
+        import json
+
+        documents = ([_readout_document(r, o, settings) for r, o in zip(responses, readouts)]
+                     if simulating else None)
+        text = json.dumps(respond_document(cases, labels, documents,
+                                           all_transfers if args.transfer_functions else None,
+                                           all_ratios if args.transfer_functions else None),
+                          indent=2, allow_nan=False) + "\n"
+    elif args.format == "csv":
+        from dataclasses import replace
+
+        from latdyn.report.blocks import Column
+        from latdyn.report.render import render
+        from latdyn.report.tables import transfer_table
+
+        if simulating:
+            text = "\n".join((f"# {label}\n" if len(labels) > 1 else "") + csv_text(response)
+                             for label, response in zip(labels, responses))
+        else:
+            tables = [transfer_table(transfers) for transfers in all_transfers]
+            rows = tuple(dict(row, case=label) for label, table in zip(labels, tables)
+                         for row in table.rows)
+            text = render(replace(tables[0], columns=(Column("case", "Case"), *tables[0].columns),
+                                  rows=rows), "csv")
+    else:
+        lines = []
+        for index, ((aircraft, _), label) in enumerate(zip(cases, labels)):
+            if lines:
+                lines.append("")
+            if simulating:
+                lines += _summary(label, aircraft, responses[index], readouts[index], modes[index],
+                                  settings)
+            else:
+                lines.append(f"{label}  ({aircraft.file})")
+            model, run = models[index], limited[index]
+            if getattr(model, "augmentation", None) is not None:
+                from latdyn.augmentation import describe
+
+                lines.append(f"  augmented: {describe(model.augmentation)}")
+            if run is not None:
+                reached = ", ".join(f"{s} {t:.2f} s" for s, t in run.limited_time.items()
+                                    if t > 0) or "never"
+                lines.append("  actuator rate limits active: nonlinear simulation (fourth-order "
+                             f"Runge-Kutta, step {run.step:.3g} s); time on the limit: {reached}")
             if args.transfer_functions:
-                lines += transfer_lines
-        for warning in aircraft.warnings:
-            lines.append(f"  warning: {warning}")
+                lines += all_lines[index]
+            for warning in aircraft.warnings:
+                lines.append(f"  warning: {warning}")
+        if args.format == "markdown":
+            lines = [("## " + line) if line and not line.startswith(" ") else
+                     ("- " + line.strip() if line.strip() else "") for line in lines]
+        text = "\n".join(lines) + "\n"
     written = []
     if args.csv:
         for path, response in zip(case_csv_paths(args.csv, labels), responses):
@@ -337,7 +461,8 @@ def run(args):
         bode_figure(all_transfers[0], modes[0], path=args.bode,
                     title=labels[0] if len(labels) == 1 else f"{labels[0]} (first case)")
         written.append(args.bode)
+    sys.stdout.write(text)
     for path in written:
-        lines.append(f"wrote {path}")
-    sys.stdout.write("\n".join(lines) + "\n")
+        print(f"wrote {path}", file=sys.stdout if args.format in ("table", "markdown")
+              else sys.stderr)
     return 0

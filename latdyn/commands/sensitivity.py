@@ -1,4 +1,4 @@
-"""``latdyn sensitivity FILE [--condition NAME] [--format table|json|csv] [--top N]``:
+"""``latdyn sensitivity FILE [--condition NAME] [--format table|markdown|csv|json] [--top N]``:
 ranked normalised sensitivities of the mode figures ("which derivative to change").
 """
 
@@ -9,14 +9,14 @@ import sys
 
 __all__ = ["add_arguments", "run", "sensitivity_document"]
 
-FORMATS = ("table", "json", "csv")
 
 
 def add_arguments(parser):
     parser.add_argument("file", metavar="FILE", help="aircraft file (TOML)")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
-    parser.add_argument("--format", choices=FORMATS, default="table",
-                        help="output format (default table)")
+    from latdyn.commands import add_format
+
+    add_format(parser)
     parser.add_argument("--top", type=int, default=0, metavar="N",
                         help="show only the N largest per figure (default all)")
 
@@ -32,7 +32,7 @@ def sensitivity_document(aircraft, results) -> dict:
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.errors import InputError
-    from latdyn.report.render import render
+    from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import sensitivity_table
     from latdyn.studies.sensitivity import sensitivities
 
@@ -45,14 +45,17 @@ def run(args):
     elif args.format == "csv":
         text = render(sensitivity_table(results, args.top), "csv")
     else:
-        lines = [f"{aircraft.name}  ({aircraft.file})",
+        markdown = args.format == "markdown"
+        title = f"{aircraft.name}  ({aircraft.file})"
+        lines = [f"## {escape_markdown(title)}" if markdown else title, "",
                  "Normalised sensitivity: % change of the figure per % change of the parameter "
                  "(eigenvalue perturbation, left and right eigenvectors).", ""]
         for result in results:
             table = sensitivity_table([result], args.top)
-            lines += [f'Condition "{result.condition.name}": {result.pattern}',
-                      render(table.select([c.key for c in table.columns if c.key != "condition"]), "text"),
-                      ""]
+            heading = f'Condition "{result.condition.name}": {result.pattern}'
+            lines += [f"### {escape_markdown(heading)}\n" if markdown else heading,
+                      render(table.select([c.key for c in table.columns if c.key != "condition"]),
+                             args.format), ""]
         text = "\n".join(lines)
     sys.stdout.write(text)
     return 0

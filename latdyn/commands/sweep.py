@@ -1,5 +1,6 @@
-"""``latdyn sweep FILE --vary KEY=START:STOP:COUNT [--vary ...] [--condition NAME]
-[--criteria SET...] [--format table|json|csv] [--plot OUT]``: parameter sweeps with level boundaries.
+"""``latdyn sweep FILE --vary KEY=START:STOP:COUNT [--vary KEY=START:STOP:COUNT] [--condition NAME]
+[--criteria SET]... [--format table|markdown|csv|json] [-o OUT]``: parameter sweeps with level
+boundaries.
 
 Everything is computed before anything is printed or written, so a bad
 input leaves no partial output.
@@ -12,10 +13,9 @@ import sys
 
 __all__ = ["add_arguments", "run"]
 
-FORMATS = ("table", "json", "csv")
-
-
 def add_arguments(parser):
+    from latdyn.commands import add_criteria, add_format
+
     parser.add_argument("file", metavar="FILE", help="aircraft file (TOML)")
     parser.add_argument("--vary", action="append", required=True, metavar="KEY=START:STOP:COUNT",
                         help="parameter range, once or twice: a derivative (Cn_beta, "
@@ -23,19 +23,18 @@ def add_arguments(parser):
                              "altitude, density, alpha_deg, gamma_deg, fin.area_ratio, "
                              "fin.arm_ratio; values in the file's units and degrees")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
-    parser.add_argument("--criteria", nargs="+", metavar="SET",
-                        help="criteria sets (default as for latdyn assess)")
-    parser.add_argument("--format", choices=FORMATS, default="table",
-                        help="output format (default table)")
-    parser.add_argument("--plot", metavar="OUT",
+    add_criteria(parser)
+    add_format(parser)
+    parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
                         help="write the figures: OUT (mode figures and levels, or the level map "
-                             "for two parameters) and OUT-root-locus for one parameter")
+                             "for two parameters) and OUT-root-locus for one parameter (--plot is "
+                             "the older name)")
 
 
 def run(args):
     from latdyn.assessment import NOTICE
     from latdyn.commands import load_study_inputs, notice_csv
-    from latdyn.report.render import render
+    from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import sweep_table
     from latdyn.studies.sweep import parse_range, sweep, sweep_document
 
@@ -45,18 +44,23 @@ def run(args):
     if args.format == "json":
         text = json.dumps(sweep_document(result), indent=2, allow_nan=False) + "\n"
     else:
-        table = render(sweep_table(result), "csv" if args.format == "csv" else "text")
+        table = render(sweep_table(result), args.format)
         if args.format == "csv":
             text = table + notice_csv()
         else:
-            lines = [f"{aircraft.name}  ({aircraft.file})", "", table, ""]
+            markdown = args.format == "markdown"
+            title = f"{aircraft.name}  ({aircraft.file})"
+            lines = [f"## {escape_markdown(title)}" if markdown else title, "", table, ""]
             units = {axis.key.text: axis.key.unit for axis in result.axes}
+            bullet = "- " if markdown else "  "
             if result.crossings:
                 lines.append("Level-boundary crossings (root-found on the margin):")
-                lines += ["  " + c.words(units.get(c.parameter, "")) for c in result.crossings]
+                if markdown:
+                    lines.append("")
+                lines += [bullet + c.words(units.get(c.parameter, "")) for c in result.crossings]
             else:
                 lines.append("No level-boundary crossing in the swept range.")
-            lines += ["", NOTICE]
+            lines += ["", f"> {escape_markdown(NOTICE)}" if markdown else NOTICE]
             text = "\n".join(lines) + "\n"
     if args.plot:
         from latdyn.plots.studies import write_sweep_figures
