@@ -30,6 +30,7 @@ COMMANDS = (
     ("turbulence", "RMS response to Dryden lateral turbulence, spectra and a seeded time history"),
     ("schema", "the JSON Schema of the aircraft file's keys, for editors that check TOML"),
     ("identify", "derivatives from measured flight-test time histories, beside the prediction"),
+    ("estimate", "derivatives estimated from the geometry: the component build-up of each condition"),
 )
 
 

@@ -14,7 +14,8 @@ from latdyn.augmentation import AugmentedModel, condition_model, model_modes
 from latdyn.model import LateralModel
 from latdyn.modes import ModeSet
 
-__all__ = ["ConditionResult", "analyse_aircraft", "modes_document", "condition_document"]
+__all__ = ["ConditionResult", "analyse_aircraft", "modes_document", "condition_document",
+           "derivative_sources", "provenance_line"]
 
 
 @dataclass(frozen=True)
@@ -81,8 +82,31 @@ def condition_document(result: ConditionResult) -> dict:
         "axes": result.model.axes,
         "pattern": result.modes.pattern,
         "modes": [mode.as_dict() for mode in result.modes],
+        "derivative_sources": derivative_sources(result.condition),
         **extra,
     }
+
+
+def derivative_sources(condition) -> dict | None:
+    """Where each non-dimensional derivative came from: "given", "estimated" (from the
+    geometry, :mod:`latdyn.estimation`) or "default" (not written, 0); None for a
+    condition with dimensional derivatives (all as written)."""
+    from latdyn.aircraft import NondimensionalDerivatives
+    from latdyn.model import COEFFICIENT_NAMES
+
+    if not isinstance(condition.derivatives, NondimensionalDerivatives):
+        return None
+    return {name: condition.source(name) for name in COEFFICIENT_NAMES}
+
+
+def provenance_line(condition) -> str | None:
+    """One line naming the estimated derivatives of a condition (None when none is estimated)."""
+    estimated = condition.estimated
+    if not estimated:
+        return None
+    given = [n for n, source in condition.provenance if source == "given"]
+    return ("derivatives estimated from the geometry (latdyn estimate shows the build-up): "
+            + ", ".join(estimated) + ("; given: " + ", ".join(given) if given else ""))
 
 
 def modes_document(aircraft: Aircraft, results=None, condition: str | None = None) -> dict:

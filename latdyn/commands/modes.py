@@ -81,7 +81,7 @@ def run(args):
     from dataclasses import replace
 
     from latdyn.aircraft import load_aircraft
-    from latdyn.results import analyse_aircraft, modes_document
+    from latdyn.results import analyse_aircraft, modes_document, provenance_line
     from latdyn.report.blocks import Column
     from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import MODE_TEXT_VIEW, mode_table, shape_table
@@ -111,7 +111,9 @@ def run(args):
         for result in results:
             heading = condition_heading(result)
             lines += ["", f"### {escape_markdown(heading)}" if markdown else heading]
-            notes = [f"  roots: {result.modes.pattern}", *augmentation_lines(result.condition)]
+            provenance = provenance_line(result.condition)
+            notes = [*([f"  {provenance}"] if provenance else []),
+                     f"  roots: {result.modes.pattern}", *augmentation_lines(result.condition)]
             if markdown:
                 lines += ["", *(escape_markdown(n.strip()) for n in notes), ""]
             else:

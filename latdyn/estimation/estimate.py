@@ -47,6 +47,8 @@ class DerivativeEstimate:
         "given", "estimated" or "default".
     missing : str or None
         The key that kept a method from running, if any.
+    methods : tuple of Method
+        The methods behind the contributions.
     """
 
     name: str
@@ -57,6 +59,7 @@ class DerivativeEstimate:
     used: float | None
     source: str
     missing: str | None = None
+    methods: tuple = ()
 
     @property
     def difference(self):
@@ -270,10 +273,12 @@ def build_up(aircraft, condition) -> BuildUp:
         notes.append("no [wing] table: nothing is estimated")
     for name in ESTIMATED:
         contributions = {c: float(v) for c, v in parts.get(name, {}).items()}
-        text = "; ".join(method_text(m) for m in methods if m.derivative == name)
+        used_methods = tuple(m for m in methods if m.derivative == name)
+        text = " + ".join(method_text(m) for m in used_methods)
         total = float(sum(contributions.values())) if name in parts else None
         used = getattr(derivatives, name) if nondimensional else None
         source = condition.source(name) if nondimensional else "given"
         rows.append(DerivativeEstimate(name, total, contributions, text,
-                                       given.get(name), used, source, missing.get(name)))
+                                       given.get(name), used, source, missing.get(name),
+                                       used_methods))
     return BuildUp(condition, tuple(rows), axes, lift, tuple(warnings), tuple(notes))

@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import math
 
-from latdyn.display import DEFAULT, SIGNAL_QUANTITIES
+from latdyn.display import DEFAULT, SIGNAL_QUANTITIES, format_number
 from latdyn.modes import MODE_LABELS
 from latdyn.report.blocks import Absent, Column, Table
 
@@ -26,7 +26,7 @@ __all__ = [
     "derivative_table", "derivative_caption", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
-    "turbulence_table", "equivalent_table", "roll_response_table",
+    "turbulence_table", "equivalent_table", "roll_response_table", "buildup_table", "buildup_caption",
 ]
 
 
@@ -218,9 +218,47 @@ def derivative_table(result, name="derivatives") -> Table:
         rows.append({"given": given_name, "given_unit": unit, "given_value": getattr(given, given_name),
                      "used": used_name + "'" if used_name[0] in "LN" else used_name,
                      "used_unit": DIMENSIONAL_UNITS[used_name], "used_value": getattr(used, used_name)})
+    if isinstance(given, NondimensionalDerivatives):
+        for row in rows:
+            row["source"] = result.condition.source(row["given"])
     columns = (Column("given", "As given"), Column("given_unit", "Unit"), Column("given_value", "Value"),
+               Column("source", "Source"),
                Column("used", "Used"), Column("used_unit", "Unit"), Column("used_value", "Value"))
     return Table(name, derivative_caption(result), columns, tuple(rows))
+
+
+# ------------------------------------------------------------------ estimation
+
+def buildup_caption(build) -> str:
+    """Caption of a build-up table: axes, units, the condition's lift coefficient."""
+    lift = (f", C_L = {format_number(build.lift_coefficient)}" if build.lift_coefficient is not None
+            else "")
+    return (f"Component build-up of the derivatives of \"{build.condition.name}\" "
+            f"({build.axes} axes, per rad, rates per p b/2V and r b/2V{lift})")
+
+
+def buildup_table(build, name="buildup") -> Table:
+    """One row per estimated derivative: each component's contribution, the estimate, the
+    value written in the file (if any), their difference, the value used and its source
+    (given, estimated, default)."""
+    from latdyn.estimation import COMPONENTS
+
+    components = build.components or COMPONENTS
+    rows = []
+    for row in build.rows:
+        out = {"derivative": row.name, "source": row.source, "given": row.given,
+               "used": row.used, "difference": row.difference,
+               "total": row.total if row.total is not None or not row.missing
+               else Absent(f"no {row.missing}")}
+        for component in components:
+            out[component] = row.contributions.get(component)
+        rows.append(out)
+    columns = (Column("derivative", "Derivative"),
+               *(Column(component, component.replace("_", "-")) for component in components),
+               Column("total", "Estimate"), Column("given", "Given"),
+               Column("difference", "Estimate - given", signed=True), Column("used", "Used"),
+               Column("source", "Source"))
+    return Table(name, buildup_caption(build), columns, tuple(rows))
 
 
 # ------------------------------------------------------------------ assessment
