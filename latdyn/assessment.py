@@ -833,8 +833,9 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
         Bad aircraft or criteria file.
     """
     from latdyn.aircraft import load_aircraft
-    from latdyn.augmentation import condition_model, model_modes
+    from latdyn.augmentation import condition_model
     from latdyn.departure import departure_indicators
+    from latdyn.results import condition_modes
     from latdyn.roll_response import roll_response
 
     if not hasattr(aircraft, "conditions"):
@@ -847,7 +848,7 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
         flight = condition.flight
         phase = flight_phases.get(condition.name, getattr(flight, "flight_phase", None))
         model = condition_model(aircraft, condition)
-        modes = model_modes(model)
+        modes = condition_modes(aircraft, condition, model)
         assessments = assess_modes(modes, sets, airplane_class, flight.category, phase, flight.altitude,
                                    condition.name)
         mass = aircraft.mass.mass if aircraft.mass is not None else None

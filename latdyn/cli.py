@@ -13,7 +13,7 @@ import importlib
 import sys
 import warnings
 
-from latdyn.errors import InputError, LatdynWarning
+from latdyn.errors import InputError, LatdynWarning, UnresolvedRoots
 
 __all__ = ["main", "COMMANDS", "build_parser", "parse_arguments"]
 
@@ -107,7 +107,7 @@ def main(argv=None) -> int:
             # the commands print these texts themselves (from Aircraft.warnings and the read-outs)
             warnings.simplefilter("ignore", LatdynWarning)
             status = _command_module(args.command).run(args)
-    except InputError as error:
+    except (InputError, UnresolvedRoots) as error:
         if debug:
             raise
         print(f"latdyn: {error}", file=sys.stderr)

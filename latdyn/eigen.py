@@ -31,11 +31,28 @@ Complex numbers are carried as real and imaginary parts in real arrays
 (numpy's complex loops are several times slower than its real ones), in a
 (component, case) layout so every operation runs over contiguous memory.
 
-Cases the quartic route cannot resolve to full accuracy (roots closer than
+Every root carries an estimate of its own error, whichever method found
+it: the radius of a disc around it that holds a root of the exact
+characteristic polynomial of A, by Rouche's theorem, allowing for the
+residual of the computed polynomial at the root and the rounding of its
+coefficients (bounded through the characteristic polynomial of |A| with
+every term taken positive, as in the rounding bound of Horner's rule, N. J.
+Higham, *Accuracy and Stability of Numerical Algorithms*, 2nd ed., SIAM,
+2002, section 5.1); see :func:`_root_errors`.  Being componentwise, it
+does not grow with the spread of the matrix entries the way a normwise
+bound does; where no such disc is found the root is not known.
+
+Cases the quartic route cannot vouch for (roots closer than
 :data:`SEPARATION` of the spectral scale, polynomial coefficients not
-reproduced by the roots, non-finite values) are passed to
-``numpy.linalg.eig`` (LAPACK ``geev``), so every returned root is either a
-polished simple root or LAPACK's.
+reproduced by the roots, an error estimate above :data:`FAST_TOLERANCE`,
+eigenvector columns too small to trust, non-finite values) are passed to
+``numpy.linalg.eig`` (LAPACK ``geev``, which balances each matrix
+first), whose roots are polished by Newton steps on the polynomial where
+that lowers its residual.  A case where even those roots are not known to
+:data:`RESOLVE_TOLERANCE` of themselves (nor negligible against the
+second largest root modulus, :data:`NEGLIGIBLE`, nor known to lie within
+the caller's ``neutral_radius`` of zero) is marked unresolved
+(:attr:`EigenComponents.resolved`): its roots are not to be reported.
 
 Roots are returned in *factor layout*: slots (0, 1) and (2, 3) each hold
 either a complex pair, upper root first and the lower its exact conjugate,
@@ -49,7 +66,7 @@ from typing import NamedTuple
 import numpy as np
 
 __all__ = ["characteristic_coefficients", "quartic_roots", "eig_stack", "eig_components",
-           "EigenComponents", "SEPARATION"]
+           "EigenComponents", "SEPARATION", "FAST_TOLERANCE", "RESOLVE_TOLERANCE", "NEGLIGIBLE"]
 
 #: Roots closer than this fraction of the spectral scale go to LAPACK [-].
 SEPARATION = 1e-4
@@ -59,6 +76,19 @@ COEFFICIENT_TOLERANCE = 1e-10
 #: Least size of the sideslip and bank components of the chosen adjugate
 #: column, as a share of |p'(lambda)| [-].
 ADJUGATE_SHARE = 0.05
+#: Estimated error of a root of the quartic route, relative to the root, above
+#: which the case goes to LAPACK [-].
+FAST_TOLERANCE = 1e-9
+#: Estimated error of a root, relative to the root, above which it is not
+#: resolved (unless negligible, below) [-].
+RESOLVE_TOLERANCE = 1e-3
+#: An error estimate below this fraction of the second largest root modulus
+#: is at working precision: such a root counts as resolved (it is zero to
+#: working precision, as a neutral root is) [-].
+NEGLIGIBLE = 1e-8
+#: Multiple of the unit round-off in the rounding part of the error estimates [-].
+ROUNDING = 32.0
+_EPS = np.finfo(float).eps
 
 
 def _entries(A):
@@ -90,6 +120,34 @@ def _coefficients(a):
     c4 = (top[0, 1] * bottom[2, 3] - top[0, 2] * bottom[1, 3] + top[0, 3] * bottom[1, 2]
           + top[1, 2] * bottom[0, 3] - top[1, 3] * bottom[0, 2] + top[2, 3] * bottom[0, 1])
     return c1, c2, c3, c4
+
+
+def _magnitude_coefficients(a):
+    """c1..c4 of the characteristic polynomial of |A| with every term positive ((4, 4, ...) entries).
+
+    Each is the sum of the magnitudes of the products that make up the
+    coefficient of A (permanents in place of determinants), so it bounds
+    the rounding error of that coefficient: |fl(c_k) - c_k| <~ k eps m_k.
+    """
+    a = np.abs(a)
+
+    def perm(r0, r1, i, j):  # 2x2 permanent of two rows and columns i, j
+        return a[r0, i] * a[r1, j] + a[r0, j] * a[r1, i]
+
+    pairs = ((0, 1), (0, 2), (0, 3), (1, 2), (1, 3), (2, 3))
+    top = {(i, j): perm(0, 1, i, j) for i, j in pairs}
+    bottom = {(i, j): perm(2, 3, i, j) for i, j in pairs}
+
+    def perm3(r0, r1, r2):
+        return (a[r0, r0] * perm(r1, r2, r1, r2) + a[r0, r1] * perm(r1, r2, r0, r2)
+                + a[r0, r2] * perm(r1, r2, r0, r1))
+
+    m1 = a[0, 0] + a[1, 1] + a[2, 2] + a[3, 3]
+    m2 = sum(a[i, i] * a[j, j] + a[i, j] * a[j, i] for i, j in pairs)
+    m3 = perm3(0, 1, 2) + perm3(0, 1, 3) + perm3(0, 2, 3) + perm3(1, 2, 3)
+    m4 = (top[0, 1] * bottom[2, 3] + top[0, 2] * bottom[1, 3] + top[0, 3] * bottom[1, 2]
+          + top[1, 2] * bottom[0, 3] + top[1, 3] * bottom[0, 2] + top[2, 3] * bottom[0, 1])
+    return m1, m2, m3, m4
 
 
 def characteristic_coefficients(A):
@@ -192,12 +250,11 @@ def _quadratic_factors(c1, c2, c3, c4):
     return linear, constant
 
 
-def _newton_complex(c, re, im):
-    """One Newton step on x^4 + c1 x^3 + c2 x^2 + c3 x + c4 at x = re + i im.
+def _value_and_slope(c, re, im):
+    """p(x) and p'(x) of x^4 + c1 x^3 + c2 x^2 + c3 x + c4 at x = re + i im, as (fr, fi, dr, di).
 
-    p and p' by Horner's rule (b_k = b_(k-1) x + c_k, d_k = d_(k-1) x + b_(k-1)),
-    in real arithmetic; no step where it is not finite (p'(x) = 0).  Returns
-    the new (re, im) and p'(x) as (re, im).
+    Horner's rule (b_k = b_(k-1) x + c_k, d_k = d_(k-1) x + b_(k-1)) in real
+    arithmetic.
     """
     c1, c2, c3, c4 = c
     br, bi = re + c1, im                                        # b1 = x + c1
@@ -207,6 +264,16 @@ def _newton_complex(c, re, im):
     br, bi = br * re - bi * im + c3, br * im + bi * re          # b3
     dr, di = dr * re - di * im + br, dr * im + di * re + bi     # p'
     fr, fi = br * re - bi * im + c4, br * im + bi * re          # p
+    return fr, fi, dr, di
+
+
+def _newton_complex(c, re, im):
+    """One Newton step on x^4 + c1 x^3 + c2 x^2 + c3 x + c4 at x = re + i im.
+
+    No step where it is not finite (p'(x) = 0).  Returns the new (re, im)
+    and p'(x) as (re, im).
+    """
+    fr, fi, dr, di = _value_and_slope(c, re, im)
     size = dr * dr + di * di
     new_re = re - (fr * dr + fi * di) / size
     new_im = im - (fi * dr - fr * di) / size
@@ -289,6 +356,75 @@ def quartic_roots(coefficients):
     with np.errstate(all="ignore"):
         re, im, _, _, pair = _factor_roots(c)
     return _complex_rows(re, im), np.ascontiguousarray(pair.T)
+
+
+def _rounding(magnitudes, x):
+    """ROUNDING eps P(x): the bound on the coefficients' rounding at |z| = x (P from the magnitudes)."""
+    m1, m2, m3, m4 = magnitudes
+    return ROUNDING * _EPS * ((((x + m1) * x + m2) * x + m3) * x + m4)
+
+
+def _simple_root_errors(c, magnitudes, re, im):
+    """Error estimates 2 e / |p'(lambda)| of simple roots, e = |p(lambda)| + rounding, (4, N).
+
+    The first-order radius of :func:`_root_errors` without its validity
+    checks: the quartic route vouches only for well-separated roots that
+    reproduce the coefficients, where the first order holds.
+    """
+    fr, fi, dr, di = _value_and_slope(c, re, im)
+    e = np.sqrt(fr * fr + fi * fi) + _rounding(magnitudes, np.sqrt(re * re + im * im))
+    return 2.0 * e / np.sqrt(dr * dr + di * di)
+
+
+def _root_errors(c, magnitudes, re, im, orders=(1, 2, 3, 4), radius=None, scales=(1.0, 2.0, 4.0, 8.0)):
+    """Estimated absolute error of roots of the quartic, (4, N) (whatever method found them).
+
+    The computed coefficients differ from the exact ones of A by at most
+    d(z) = ROUNDING eps P(|z|) at any z (P: the polynomial of the coefficient
+    magnitudes, :func:`_magnitude_coefficients`).  Around a computed root
+    lambda, p(z) = sum t_j (z - lambda)^j with |t_0| = |p(lambda)|; by
+    Rouche's theorem, where on the circle |z - lambda| = r
+
+        |t_k| r^k > |p(lambda)| + d(|lambda| + r) + sum over j != k, j >= 1 of |t_j| r^j
+
+    the exact polynomial has k roots within r of lambda (P. Henrici,
+    *Applied and Computational Complex Analysis*, vol. 1, Wiley, 1974,
+    section 4.10, for the theorem; its use as a root-inclusion test is
+    common practice).  A radius passes when that holds and exactly k of the
+    computed roots lie within it (so no exact root is claimed twice).  The
+    radii tried for order k are r_k = (2 e / |t_k|)^(1/k) with
+    e = |p(lambda)| + d(|lambda|) times each of ``scales``, for the orders in
+    ``orders`` ((1,) and one scale for the simple roots of the quartic
+    route), and each radius in ``radius`` (arrays (N,) or floats) for
+    every order where given.  The estimate is the smallest radius that passes,
+    infinite where none does (the root is not known).
+    """
+    c1, c2 = c[0], c[1]
+    fr, fi, dr, di = _value_and_slope(c, re, im)
+    size = np.sqrt(re * re + im * im)
+
+    def rounding(x):
+        return _rounding(magnitudes, x)
+
+    residual = np.hypot(fr, fi)
+    e = residual + rounding(size)
+    # Taylor coefficients of p about lambda: p', p''/2, p'''/6 = 4 x + c1, and 1
+    t = {1: np.hypot(dr, di),
+         2: np.hypot(6.0 * (re * re - im * im) + 3.0 * c1 * re + c2, 12.0 * re * im + 3.0 * c1 * im),
+         3: np.hypot(4.0 * re + c1, 4.0 * im), 4: 1.0}
+    # distance from each root to every root (itself included): (4, 4, N)
+    distance = np.hypot(re[:, None] - re[None], im[:, None] - im[None])
+    candidates = [(k, scale * (2.0 * e / t[k]) ** (1.0 / k)) for k in orders for scale in scales]
+    if radius is not None:
+        candidates += [(k, scale * np.broadcast_to(r, np.shape(re)))
+                       for r in radius for k in (1, 2, 3, 4) for scale in scales]
+    error = np.full(np.shape(re), np.inf)
+    for k, r in candidates:
+        others = sum(t[j] * r**j for j in (1, 2, 3, 4) if j != k)
+        holds = t[k] * r**k > residual + rounding(size + r) + others
+        holds &= (distance <= r[:, None]).sum(axis=1) == k
+        error = np.where(holds, np.fmin(error, r), error)
+    return np.where(e == 0, 0.0, error)
 
 
 def _complex_rows(re, im):
@@ -393,6 +529,12 @@ class EigenComponents(NamedTuple):
         Unit right eigenvectors (column k for slot k) when asked for.
     entry_scale : numpy.ndarray, (N,)
         Largest |a_ij| of each matrix [units of A].
+    error : numpy.ndarray, (4, N)
+        Estimated absolute error of each root (see the module notes) [units of A].
+    resolved : numpy.ndarray of bool, (N,)
+        Every root of the case is known to :data:`RESOLVE_TOLERANCE` of
+        itself or is negligible against the spectral radius; False also for
+        matrices with non-finite entries (their roots are NaN).
     """
 
     real: np.ndarray
@@ -403,6 +545,8 @@ class EigenComponents(NamedTuple):
     bank_imag: np.ndarray
     vectors: np.ndarray | None = None
     entry_scale: np.ndarray | None = None
+    error: np.ndarray | None = None
+    resolved: np.ndarray | None = None
 
     @property
     def values(self) -> np.ndarray:
@@ -410,7 +554,7 @@ class EigenComponents(NamedTuple):
         return _complex_rows(self.real, self.imag)
 
 
-def eig_components(A, vectors=False) -> EigenComponents:
+def eig_components(A, vectors=False, neutral_radius=0.0) -> EigenComponents:
     """Eigenvalues of a stack of real 4x4 matrices with the sideslip and bank eigenvector components.
 
     The vectorised quartic route of this module, with ``numpy.linalg.eig``
@@ -425,6 +569,9 @@ def eig_components(A, vectors=False) -> EigenComponents:
         (N, 4, 4) real matrices.
     vectors : bool
         Also return the unit right eigenvectors.
+    neutral_radius : float
+        A root known only to lie within this distance of zero counts as
+        resolved (neutral) [units of A].
 
     Returns
     -------
@@ -441,8 +588,8 @@ def eig_components(A, vectors=False) -> EigenComponents:
     if A.ndim != 3 or A.shape[1:] != (4, 4):
         raise ValueError("eig_components expects an (N, 4, 4) stack")
     a = _entries(A)
-    c = _coefficients(a)
     with np.errstate(all="ignore"):
+        c = _coefficients(a)
         re, im, slope_re, slope_im, pair = _factor_roots(c)
         polynomials = {(i, k): _cofactor_polynomial(a, i, k) for i in (0, 3) for k in (0, 3)}
         # the upper root of each factor (complex) and the second root (real, where the factor is real)
@@ -451,7 +598,7 @@ def eig_components(A, vectors=False) -> EigenComponents:
         # column i of adj(A - lambda I) = p'(lambda) w_i v / (w^T v): where the sideslip and
         # bank components of the larger of the two columns reach ADJUGATE_SHARE |p'(lambda)|,
         # |w_i| / |w^T v| is not small and the column is accurate; other cases go to LAPACK
-        resolved = np.ones(A.shape[0], bool)
+        columns = np.ones(A.shape[0], bool)
         takes, components = [], []
         for roots, slots in ((upper, slice(0, None, 2)), (lower, slice(1, None, 2))):
             size0 = _squared(roots[0, 0]) + _squared(roots[0, 3])
@@ -461,7 +608,7 @@ def eig_components(A, vectors=False) -> EigenComponents:
                 slope_re[slots] ** 2 + slope_im[slots] ** 2)
             if roots is lower:
                 enough |= pair  # the lower root of a pair is the conjugate of the upper one
-            resolved &= enough.all(axis=0)
+            columns &= enough.all(axis=0)
             takes.append(take)
             components.append((_choose(take, roots[0, 0], roots[3, 0]),
                                _choose(take, roots[0, 3], roots[3, 3])))
@@ -487,11 +634,19 @@ def eig_components(A, vectors=False) -> EigenComponents:
             power = power * scale
             mismatch = np.maximum(mismatch, np.abs(rebuilt_k - c_k) / power)
         finite = np.isfinite(beta_re + beta_im + phi_re + phi_im).all(axis=0)
-        good = separated & (mismatch < COEFFICIENT_TOLERANCE) & finite & resolved
-    unit = _unit_vectors(a, re, im, pair, takes) if vectors else None
+        # the roots' own error estimates: vouched for where small against the root, or
+        # negligible against the spectral radius (zero to working precision)
+        magnitudes = _magnitude_coefficients(a)
+        error = _simple_root_errors(c, magnitudes, re, im)
+        size = np.sqrt(re * re + im * im)
+        floor = _negligible(size)
+        vouched = (error <= FAST_TOLERANCE * size + floor).all(axis=0)
+        good = separated & (mismatch < COEFFICIENT_TOLERANCE) & finite & columns & vouched
+    with np.errstate(all="ignore"):
+        unit = _unit_vectors(a, re, im, pair, takes) if vectors else None
     bad = np.flatnonzero(~good)
     if bad.size:
-        lapack_values, lapack_vectors = np.linalg.eig(A[bad])
+        lapack_values, lapack_vectors = _lapack(A[bad])
         # factor layout: complex pairs (LAPACK gives them upper root first) before real roots
         order = np.argsort(lapack_values.imag == 0, axis=1, kind="stable")
         lapack_values = np.take_along_axis(lapack_values, order, axis=1).T
@@ -501,8 +656,67 @@ def eig_components(A, vectors=False) -> EigenComponents:
         phi_re[:, bad], phi_im[:, bad] = lapack_vectors[:, 3, :].real.T, lapack_vectors[:, 3, :].imag.T
         if vectors:
             unit[bad] = lapack_vectors
+        with np.errstate(all="ignore"):
+            cb = [x[bad] for x in c]
+            re[:, bad], im[:, bad] = _polish(cb, re[:, bad], im[:, bad])
+            size = np.sqrt(re * re + im * im)
+            floor = _negligible(size)
+            error[:, bad] = _root_errors([x[bad] for x in c], [x[bad] for x in magnitudes],
+                                         re[:, bad], im[:, bad],
+                                         radius=(floor[bad], neutral_radius))
+    with np.errstate(invalid="ignore"):
+        # a root known to lie within neutral_radius of zero is neutral, whatever the
+        # rounding of a cancelling det A
+        neutral = (size <= error) & (error <= neutral_radius)
+        resolved = ((error <= RESOLVE_TOLERANCE * size + floor) | neutral).all(axis=0)
     entry_scale = np.maximum(a.max(axis=(0, 1)), -a.min(axis=(0, 1)))
-    return EigenComponents(re, im, beta_re, beta_im, phi_re, phi_im, unit, entry_scale)
+    return EigenComponents(re, im, beta_re, beta_im, phi_re, phi_im, unit, entry_scale, error,
+                           resolved)
+
+
+def _polish(c, re, im, steps=2):
+    """Newton steps on the characteristic polynomial at LAPACK's roots, kept where the residual falls.
+
+    A complex pair stays exactly conjugate (the same arithmetic on conjugate
+    numbers) and a real root stays real.
+    """
+    for _ in range(steps):
+        fr, fi, _, _ = _value_and_slope(c, re, im)
+        new_re, new_im, _, _ = _newton_complex(c, re, im)
+        nr, ni, _, _ = _value_and_slope(c, new_re, new_im)
+        better = np.hypot(nr, ni) < np.hypot(fr, fi)
+        re, im = np.where(better, new_re, re), np.where(better, new_im, im)
+    return re, im
+
+
+def _negligible(size):
+    """The error below which a root counts as resolved whatever its size, (N,), from the moduli (4, N).
+
+    :data:`NEGLIGIBLE` of the second largest root modulus: the scale of the
+    slower modes.  Not the spectral radius: one very fast root (a huge roll
+    damping) must not make the other modes' errors look small.
+    """
+    a, b, c, d = np.nan_to_num(size, nan=np.inf)
+    high, low = np.maximum(a, b), np.minimum(a, b)
+    high2, low2 = np.maximum(c, d), np.minimum(c, d)
+    return NEGLIGIBLE * np.maximum(np.minimum(high, high2), np.maximum(low, low2))
+
+
+def _lapack(A):
+    """Eigenvalues and unit right eigenvectors of the matrices the quartic route left.
+
+    ``numpy.linalg.eig``: LAPACK ``geev``, which balances each matrix by a
+    diagonal similarity before the QR iteration (``gebal``; B. N. Parlett
+    and C. Reinsch, *Numerische Mathematik* 13, 1969, pp. 293-304; Golub
+    and Van Loan, section 7.5.7).  Matrices with non-finite entries are not
+    passed on: their roots and vectors are NaN.
+    """
+    values = np.full((A.shape[0], 4), np.nan, dtype=complex)
+    unit = np.full(A.shape, np.nan, dtype=complex)
+    finite = np.flatnonzero(np.isfinite(A).all(axis=(1, 2)))
+    if finite.size:
+        values[finite], unit[finite] = np.linalg.eig(A[finite])
+    return values, unit
 
 
 def _slots(pair, upper, lower):

@@ -107,3 +107,13 @@ class InputError(ValueError):
         self.found = found
         self.condition = condition
         super().__init__(format_problem(file, key, expected, found, condition))
+
+
+class UnresolvedRoots(ValueError):
+    """The roots of a model cannot be computed to working accuracy in double precision.
+
+    Raised (by :func:`latdyn.modes.find_modes`) instead of reporting roots
+    that are not known (see :attr:`latdyn.eigen.EigenComponents.resolved`);
+    the message says why in one line.  The command line prints it as it
+    prints an :class:`InputError` (exit status 2).
+    """

@@ -38,10 +38,12 @@ from dataclasses import dataclass
 import numpy as np
 
 from latdyn.eigen import eig_components
+from latdyn.errors import UnresolvedRoots
 
 __all__ = [
     "MODE_NAMES", "MODE_LABELS", "PATTERNS", "Mode", "ModeShape", "ModeSet", "ModeArrays",
     "analyse_stack", "find_modes", "modes_from_matrix", "pair_figures", "root_figures",
+    "UnresolvedRoots", "NEUTRAL_FRACTION", "NEUTRAL_RATE",
 ]
 
 MODE_NAMES = ("dutch_roll", "roll_subsidence", "spiral", "roll_spiral")
@@ -63,6 +65,9 @@ PATTERNS = (
 )
 
 LN2 = math.log(2.0)
+#: A root known only to lie within this distance of zero is reported as neutral
+#: rather than refused (time to half or double beyond about 2 hours) [1/s].
+NEUTRAL_RATE = 1e-4
 STATE_LABELS = ("beta", "p", "r", "phi")
 
 
@@ -90,6 +95,14 @@ class ModeArrays:
     phi_to_beta : numpy.ndarray, (N,)
         |phi/beta| of the Dutch roll eigenvector [-] (from ``vectors`` when
         not given).
+    errors : numpy.ndarray, (N, 4), or None
+        Estimated absolute error [1/s] of the Dutch roll (upper or least
+        stable root), roll, spiral and roll-spiral (upper) root
+        (:attr:`latdyn.eigen.EigenComponents.error`); NaN where absent.
+    resolved : numpy.ndarray of bool, (N,), or None
+        Whether the roots of each case are known to working accuracy
+        (:attr:`latdyn.eigen.EigenComponents.resolved`); the roots and
+        figures of an unresolved case are NaN.
     """
 
     pattern: np.ndarray
@@ -99,6 +112,8 @@ class ModeArrays:
     roll_spiral: np.ndarray
     vectors: np.ndarray | None = None
     phi_to_beta: np.ndarray | None = None
+    errors: np.ndarray | None = None
+    resolved: np.ndarray | None = None
 
     def __post_init__(self):
         if self.phi_to_beta is None and self.vectors is not None:
@@ -177,9 +192,9 @@ def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
         the heading state, if present, is dropped (its root is zero and is no
         mode).
     imag_tolerance : float
-        A root whose imaginary part is below this fraction of the matrix
-        norm is taken as real (a double real root computes as a pair with a
-        tiny imaginary part) [-].
+        A root whose imaginary part is below this fraction of its modulus,
+        or below the root's own error estimate, is taken as real (a double
+        real root computes as a pair with a tiny imaginary part) [-].
     vectors : bool
         Also give the modes' eigenvectors (mode shapes); without them the
         roots, patterns and |phi/beta| are the same, only faster.
@@ -208,13 +223,18 @@ def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
     A = np.asarray(A, dtype=float)[..., :4, :4]
     if A.ndim != 3:
         raise ValueError("analyse_stack expects an (N, 4, 4) stack of state matrices")
-    roots = eig_components(A, vectors=vectors)
+    roots = eig_components(A, vectors=vectors, neutral_radius=NEUTRAL_RATE)
     re, im = roots.real, roots.imag
     beta_re, beta_im, phi_re, phi_im = (roots.sideslip_real, roots.sideslip_imag,
                                         roots.bank_real, roots.bank_imag)
     unit = roots.vectors
-    scale = np.maximum(roots.entry_scale, np.finfo(float).tiny)
-    is_complex = np.abs(im) > imag_tolerance * scale
+    unresolved = ~roots.resolved
+    if unresolved.any():  # nothing is reported of roots that are not known
+        re, im = np.where(unresolved, np.nan, re), np.where(unresolved, np.nan, im)
+    # against the root itself, not the matrix: a badly scaled matrix has large entries
+    # beside slow modes (a pair of 2.5 rad/s among entries of 1e8 is still a pair)
+    with np.errstate(invalid="ignore"):
+        is_complex = np.abs(im) > np.maximum(imag_tolerance * np.hypot(re, im), roots.error)
     # a root whose imaginary part is within the tolerance is real, and so is its eigenvector
     flat = ~is_complex & (im != 0)
     if flat.any():
@@ -226,6 +246,8 @@ def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
         phi = np.sqrt(phi_re * phi_re + phi_im * phi_im)
         content = np.nan_to_num(beta / (beta + phi), nan=0.0)
         ratio = phi / beta
+    if unresolved.any():
+        ratio = np.where(unresolved, np.nan, ratio)
     pattern, dutch, dutch_second, roll, spiral, roll_spiral = _name_slots(re, content, is_complex)
     has_pair = (pattern == 1) | (pattern == 3)
     nan = np.nan
@@ -238,12 +260,16 @@ def analyse_stack(A, imag_tolerance=1e-7, vectors=True) -> ModeArrays:
                                 axis=2)
         mode_vectors[:, :, 1:3][has_pair] = nan
         mode_vectors[:, :, 3][~has_pair] = nan
+        mode_vectors[unresolved] = nan
+    errors = np.stack([_at(roots.error, dutch), np.where(has_pair, nan, _at(roots.error, roll)),
+                       np.where(has_pair, nan, _at(roots.error, spiral)),
+                       np.where(has_pair, _at(roots.error, roll_spiral), nan)], axis=1)
     return ModeArrays(
         pattern,
         _pairs(_at(re, dutch), _at(im, dutch), _at(re, dutch_second), _at(im, dutch_second)),
         np.where(has_pair, nan, _at(re, roll)), np.where(has_pair, nan, _at(re, spiral)),
         _pairs(roll_spiral_re, roll_spiral_im, roll_spiral_re, np.where(has_pair, -roll_spiral_im, 0.0)),
-        mode_vectors, _at(ratio, dutch))
+        mode_vectors, _at(ratio, dutch), errors, roots.resolved)
 
 
 def pair_figures(first, second):
@@ -554,10 +580,19 @@ class ModeSet:
         return modes_frame(self, added)
 
 
-def _make_mode(name, roots, vector, neutral_tolerance, phi_to_beta=None, reference="phi"):
+#: A root whose real part is within this fraction of its modulus is neutral [-]
+#: (besides a real part within the root's own error estimate).
+NEUTRAL_FRACTION = 1e-12
+
+
+def _make_mode(name, roots, vector, neutral_tolerance, phi_to_beta=None, reference="phi",
+               error=0.0):
     roots = tuple(complex(r) for r in roots)
     least = max(roots, key=lambda r: r.real)
     oscillatory = len(roots) == 2 and abs(roots[0].imag) > 0
+    if neutral_tolerance is None:
+        error = float(error) if math.isfinite(error) else 0.0
+        neutral_tolerance = max(error, NEUTRAL_FRACTION * abs(least))
     neutral = abs(least.real) <= neutral_tolerance
     stable = all(r.real < 0 for r in roots) and not neutral
     if len(roots) == 2:
@@ -584,20 +619,44 @@ def _make_mode(name, roots, vector, neutral_tolerance, phi_to_beta=None, referen
     )
 
 
-def modes_from_arrays(arrays: ModeArrays, index: int, neutral_tolerance: float) -> ModeSet:
-    """The :class:`ModeSet` of case ``index`` of a stack."""
+def _unresolved_message(A):
+    A = np.asarray(A, dtype=float)
+    if not np.isfinite(A).all():
+        return "a state matrix with entries that overflow (infinite or not a number)"
+    magnitudes = np.abs(A[A != 0])
+    if magnitudes.size:
+        return (f"a state matrix whose entries span {magnitudes.min():.1e} to {magnitudes.max():.1e}: "
+                "its roots cannot be computed to working accuracy")
+    return "a state matrix whose roots cannot be computed to working accuracy"
+
+
+def modes_from_arrays(arrays: ModeArrays, index: int, neutral_tolerance=None) -> ModeSet:
+    """The :class:`ModeSet` of case ``index`` of a stack.
+
+    ``neutral_tolerance`` [1/s]: |Re lambda| at or below which a root is
+    neutral; None: each root's error estimate, at least
+    :data:`NEUTRAL_FRACTION` of its modulus.
+
+    Raises
+    ------
+    UnresolvedRoots
+        The case's roots are not known to working accuracy.
+    """
+    if arrays.resolved is not None and not arrays.resolved[index]:
+        raise UnresolvedRoots("the roots of this model cannot be computed to working accuracy")
     pattern = int(arrays.pattern[index])
     vectors = arrays.vectors[index]
+    errors = arrays.errors[index] if arrays.errors is not None else np.zeros(4)
     modes = [_make_mode("dutch_roll", arrays.dutch_roll[index], vectors[:, 0], neutral_tolerance,
-                        arrays.phi_to_beta[index], reference="beta")]
+                        arrays.phi_to_beta[index], reference="beta", error=errors[0])]
     if pattern in (1, 3):
         modes.append(_make_mode("roll_spiral", arrays.roll_spiral[index], vectors[:, 3],
-                                neutral_tolerance))
+                                neutral_tolerance, error=errors[3]))
     else:
         modes.append(_make_mode("roll_subsidence", [arrays.roll[index]], vectors[:, 1],
-                                neutral_tolerance))
+                                neutral_tolerance, error=errors[1]))
         modes.append(_make_mode("spiral", [arrays.spiral[index]], vectors[:, 2],
-                                neutral_tolerance))
+                                neutral_tolerance, error=errors[2]))
     return ModeSet(tuple(modes), PATTERNS[pattern])
 
 
@@ -609,13 +668,21 @@ def modes_from_matrix(A, neutral_tolerance=None) -> ModeSet:
     A : array_like
         State matrix, states beta, p, r, phi (, psi).
     neutral_tolerance : float, optional
-        |Re lambda| at or below which a root is neutral [1/s]; default
-        1e-12 times the largest matrix entry.
+        |Re lambda| at or below which a root is neutral [1/s]; default the
+        root's own error estimate, at least :data:`NEUTRAL_FRACTION` of its
+        modulus.
+
+    Raises
+    ------
+    UnresolvedRoots
+        Roots not known to working accuracy (a matrix spanning too many
+        orders of magnitude, or with entries that overflow): one line saying so.
     """
     A = np.asarray(A, dtype=float)[:4, :4]
-    if neutral_tolerance is None:
-        neutral_tolerance = 1e-12 * max(float(np.abs(A).max()), 1e-300)
-    return modes_from_arrays(analyse_stack(A[None]), 0, neutral_tolerance)
+    try:
+        return modes_from_arrays(analyse_stack(A[None]), 0, neutral_tolerance)
+    except UnresolvedRoots:
+        raise UnresolvedRoots(_unresolved_message(A)) from None
 
 
 def find_modes(model) -> ModeSet:

@@ -15,7 +15,7 @@ from latdyn.model import LateralModel
 from latdyn.modes import ModeSet
 
 __all__ = ["ConditionResult", "analyse_aircraft", "modes_document", "condition_document",
-           "derivative_sources", "provenance_line"]
+           "derivative_sources", "provenance_line", "condition_modes"]
 
 
 @dataclass(frozen=True)
@@ -32,6 +32,28 @@ class ConditionResult:
 
     def __iter__(self):
         return iter((self.condition, self.model, self.modes))
+
+
+def condition_modes(aircraft: Aircraft, condition: Condition, model) -> ModeSet:
+    """:func:`latdyn.augmentation.model_modes` of one condition's model; roots it cannot vouch for are bad input.
+
+    Raises
+    ------
+    InputError
+        The roots of the model are not known to working accuracy
+        (:class:`latdyn.modes.UnresolvedRoots`): one line naming the file and
+        the condition.
+    """
+    from latdyn.errors import InputError
+    from latdyn.modes import UnresolvedRoots
+
+    try:
+        return model_modes(model)
+    except UnresolvedRoots as error:
+        raise InputError(aircraft.file, None,
+                         "inputs whose model has roots that double precision can resolve "
+                         "(check the magnitudes of the derivatives, mass, inertia and speed)",
+                         str(error), condition.name) from None
 
 
 def analyse_aircraft(aircraft: Aircraft, condition: str | None = None) -> tuple:
@@ -51,7 +73,7 @@ def analyse_aircraft(aircraft: Aircraft, condition: str | None = None) -> tuple:
     results = []
     for item in chosen:
         model = condition_model(aircraft, item)
-        results.append(ConditionResult(item, model, model_modes(model)))
+        results.append(ConditionResult(item, model, condition_modes(aircraft, item, model)))
     return tuple(results)
 
 

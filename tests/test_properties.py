@@ -120,7 +120,13 @@ def test_valid_aircraft_never_report_nan(tmp_path, case):
         # only the combined-attitude rule can refuse these
         assert "pitch attitude" in str(error)
         return
-    document = modes_document(aircraft)
+    try:
+        document = modes_document(aircraft)
+    except InputError as error:
+        # or a clear refusal: roots double precision cannot resolve (these random aircraft
+        # reach inertia-to-mass ratios and spans far beyond any aircraft)
+        assert "cannot be computed to working accuracy" in str(error) and "\n" not in str(error)
+        return
     text = json.dumps(document, allow_nan=False)
     assert "NaN" not in text
     for mode in document["conditions"][0]["modes"]:

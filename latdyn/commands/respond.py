@@ -352,8 +352,9 @@ def respond_document(cases, labels, readouts=None, transfers=None, ratios=None) 
 
 
 def run(args):
-    from latdyn.augmentation import condition_model, model_modes
+    from latdyn.augmentation import condition_model
     from latdyn.inputs import InitialDisturbance, default_inputs
+    from latdyn.results import condition_modes
     from latdyn.readouts import read_response
     from latdyn.responses import csv_text, simulate, write_csv
 
@@ -363,7 +364,8 @@ def run(args):
     cases = _cases(args)
     labels = _labels(cases)
     models = [condition_model(aircraft, condition) for aircraft, condition in cases]
-    modes = [model_modes(model) for model in models]
+    modes = [condition_modes(aircraft, condition, model)
+             for (aircraft, condition), model in zip(cases, models)]
     simulating = _simulation_wanted(args)
     responses, readouts, settings, limited = [], [], {}, [None] * len(cases)
     if simulating:
