@@ -60,6 +60,7 @@ def run(args):
                 lines += [bullet + c.words(units.get(c.parameter, "")) for c in result.crossings]
             else:
                 lines.append("No level-boundary crossing in the swept range.")
+            lines += [f"note: {note}" for note in result.notes]
             lines += ["", f"> {escape_markdown(NOTICE)}" if markdown else NOTICE]
             text = "\n".join(lines) + "\n"
     if args.plot:

@@ -43,7 +43,7 @@ from latdyn.modes import ModeArrays, analyse_stack, pair_figures, root_figures
 __all__ = [
     "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "case_inputs",
     "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
-    "condition_set", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
+    "condition_set", "geometry_names", "sweep_notes", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
     "takes_augmented_path", "closed_loop_matrices", "mode_arrays",
 ]
 
@@ -129,8 +129,69 @@ def parameter_names(aircraft, condition) -> tuple:
               if k not in ("wing_area", "span") or aircraft.geometry is not None]
     if aircraft.fin is not None and nondimensional and aircraft.geometry is not None:
         names += list(_FIN_KEYS)
+    if condition.flight.altitude is not None:
+        names.append("mach")
+    if getattr(condition, "estimated", ()):
+        names += geometry_names(aircraft)
     names += list(AUGMENTATION_PARAMETERS)
     return tuple(names)
+
+
+#: Inputs of a sweep that change the flight condition (and so the dynamic pressure).
+_FLIGHT_STATE = ("speed", "density", "altitude", "mach")
+#: Dimensional derivatives proportional to rho V^2 at fixed non-dimensional ones; the others
+#: (Y_v, Y_p, Y_r, L_p, L_r, N_p, N_r) are proportional to rho V.
+_PRESSURE_SCALED = ("L_beta", "N_beta", "Y_da", "Y_dr", "L_da", "L_dr", "N_da", "N_dr")
+
+
+def geometry_names(aircraft) -> tuple:
+    """Geometry inputs of the estimation a case set can vary (``wing.dihedral`` [rad], ...).
+
+    Every number the file gives in ``[wing]``, ``[fuselage]``, ``[fin]``, ``[aileron]``
+    (angles in radians, named without ``_deg``).
+    """
+    from latdyn.estimation.buildup import flat_values
+
+    values = flat_values(aircraft, aircraft.conditions[0].flight)
+    return tuple(name for name, value in values.items()
+                 if "." in name and value is not None and not isinstance(value, bool)
+                 and isinstance(value, (int, float)))
+
+
+def sweep_notes(aircraft, condition, names) -> tuple:
+    """What a sweep of these inputs holds and what it recomputes, one sentence each."""
+    notes = []
+    flight_state = [n for n in names if n in _FLIGHT_STATE]
+    if flight_state and not isinstance(condition.derivatives, NondimensionalDerivatives):
+        notes.append(f'{condition.name}: {", ".join(flight_state)} varied on dimensional derivatives: '
+                     "the non-dimensional derivatives are held and the dimensional ones scaled "
+                     "with the flight condition (L_beta, N_beta and the controls with rho V^2, "
+                     "Y_v and the rate derivatives with rho V)")
+    if getattr(condition, "estimated", ()) and any(
+            n in _FLIGHT_STATE + ("mass", "alpha", "gamma", "wing_area", "span") + _FIN_KEYS
+            or "." in n for n in names):
+        notes.append(f"{condition.name}: the estimated derivatives are estimated again from the "
+                     "geometry at each point (latdyn.estimation); the written ones are held")
+    return tuple(notes)
+
+
+def _estimated_again(cases, values):
+    """Estimated derivatives of the condition at the case set's inputs (arrays)."""
+    from latdyn.estimation.buildup import flat_values
+    from latdyn.estimation.estimate import _runnable, estimate_totals
+
+    aircraft, condition = cases.aircraft, cases.condition
+    flat = flat_values(aircraft, condition.flight)
+    given = {n for n, source in condition.provenance if source != "estimated"}
+    methods, _ = _runnable(aircraft, flat, given, aircraft.file, condition.name)
+    for name in ("speed", "density", "alpha", "gamma", "mass", "wing_area", "span"):
+        flat[name] = values[name]
+    flat["mach"] = values.get("mach_number")
+    flat.update({k: v for k, v in cases.overrides.items() if "." in k and k not in _FIN_KEYS})
+    for key, field in zip(_FIN_KEYS, ("fin.area", "fin.arm")):
+        if key in cases.overrides:
+            flat[field] = np.asarray(flat[field]) * cases.overrides[key]
+    return estimate_totals(flat, methods, values["alpha"], condition.derivatives.axes)
 
 
 def case_inputs(cases: CaseSet) -> dict:
@@ -150,9 +211,27 @@ def case_inputs(cases: CaseSet) -> dict:
         altitude=flight.altitude, alpha=flight.alpha, gamma=flight.gamma,
         wing_area=g.wing_area if g else None, span=g.span if g else None)
     values.update(cases.overrides)
-    if "altitude" in cases.overrides and "density" not in cases.overrides:
+    overrides = cases.overrides
+    if "altitude" in overrides and "density" not in overrides:
         values["density"] = standard_atmosphere(values["altitude"]).density
-    ratios = [cases.overrides.get(key) for key in _FIN_KEYS]
+    values["mach_number"] = flight.mach
+    if any(k in overrides for k in ("altitude", "speed", "mach")) and values["altitude"] is not None:
+        sound = standard_atmosphere(values["altitude"]).speed_of_sound
+        if "mach" in overrides:
+            values["speed"] = overrides["mach"] * sound
+        values["mach_number"] = values["speed"] / sound
+    if not nondimensional and any(k in overrides for k in _FLIGHT_STATE):
+        pressure = values["density"] * values["speed"] ** 2 / (flight.density * flight.speed**2)
+        velocity = values["density"] * values["speed"] / (flight.density * flight.speed)
+        for name in names:
+            if name not in overrides:
+                values[name] = values[name] * (pressure if name in _PRESSURE_SCALED else velocity)
+    estimated = [n for n in getattr(condition, "estimated", ()) if n not in overrides]
+    if estimated and any(k not in names for k in overrides):
+        totals = _estimated_again(cases, values)
+        for name in estimated:
+            values[name] = totals[name]
+    ratios = [overrides.get(key) for key in _FIN_KEYS]
     if any(r is not None for r in ratios):
         from latdyn.aircraft import Geometry
 
@@ -162,7 +241,8 @@ def case_inputs(cases: CaseSet) -> dict:
                                     1.0 if ratios[1] is None else ratios[1], flight.mach,
                                     {name: getattr(derivatives, name) for name in RUDDER})
         for name, increment in increments.items():
-            values[name] = values[name] + increment
+            if name not in estimated:
+                values[name] = values[name] + increment
     values["nondimensional"] = nondimensional
     return values
 

@@ -5,7 +5,9 @@ A key is a derivative (``Cn_beta`` or ``condition.derivatives.Cn_beta``;
 ``Ixx``, ``Izz``, ``Ixz``, optionally ``mass.Ixx``), ``speed``,
 ``altitude``, ``density``, ``alpha_deg``, ``gamma_deg`` (optionally with
 ``condition.``), ``wing_area``, ``span`` (optionally ``geometry.``),
-``fin.area_ratio`` / ``fin.arm_ratio``, or an augmentation gain or time
+``fin.area_ratio`` / ``fin.arm_ratio``, ``mach``, a geometry key of a
+file whose derivatives are estimated (``wing.dihedral_deg``, ``fin.area``,
+``fuselage.volume``, ...; see :mod:`latdyn.estimation`), or an augmentation gain or time
 constant (``augmentation.yaw_damper_gain`` ..., always SI: s and rad/rad).  Values are in the units of the
 aircraft file (its ``units`` word) and degrees for the angles; they are
 converted to SI and radians here, at the edge.
@@ -16,7 +18,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from latdyn import units
-from latdyn.aircraft_file import SCHEMA, read_tree
+from latdyn.aircraft_file import GEOMETRY_TABLES, SCHEMA, read_tree
 from latdyn.errors import InputError
 
 __all__ = ["StudyKey", "resolve_key", "file_units", "UNIT_WORDS"]
@@ -87,6 +89,12 @@ def file_units(aircraft) -> str:
 def _dimension(name):
     if name in _ANGLES.values():
         return "degree"
+    table, _, field = name.partition(".")
+    if field and table in GEOMETRY_TABLES:
+        keys = SCHEMA[table]
+        if field + "_deg" in keys:
+            return "degree"
+        return keys.get(field) if isinstance(keys.get(field), str) else "none"
     if name.startswith("augmentation."):
         return "ratio" if name == "augmentation.interconnect_gain" else "second"
     for table in (SCHEMA["condition"]["dimensional"], SCHEMA["condition"], SCHEMA["mass"],
@@ -134,8 +142,13 @@ def resolve_key(text, allowed, file, option="--vary", units_word="SI", condition
     if name in ("alpha", "gamma") and not text.strip().endswith("_deg"):
         name = "?"  # angles are typed in degrees only
     allowed = tuple(allowed)
+    if "." in name and name.endswith("_deg") and name[:-4] in allowed:
+        name = name[:-4]  # a geometry angle, typed in degrees
+    elif "." in name and _dimension(name) == "degree":
+        name = "?"
     if name not in allowed:
-        shown = [next((k for k, v in _ANGLES.items() if v == a), a) for a in allowed]
+        shown = [next((k for k, v in _ANGLES.items() if v == a), a + "_deg" if "." in a
+                      and _dimension(a) == "degree" else a) for a in allowed]
         raise InputError(file, option, "a key this condition can vary (" + ", ".join(shown) + ")",
                          f'"{text}"', condition)
     return StudyKey(text.strip(), name, _dimension(name), units_word)

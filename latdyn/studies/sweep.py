@@ -20,7 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from latdyn.errors import InputError
-from latdyn.studies.batch import condition_set, parameter_names, run_batch
+from latdyn.studies.batch import condition_set, parameter_names, run_batch, sweep_notes
 from latdyn.studies.keys import StudyKey, file_units, resolve_key
 
 __all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
@@ -144,12 +144,15 @@ class SweepResult:
     axes : tuple of SweepAxis
     criteria : tuple of CriteriaSet
     conditions : tuple of ConditionSweep
+    notes : tuple of str
+        What the sweep holds and recomputes (:func:`latdyn.studies.batch.sweep_notes`).
     """
 
     aircraft: object
     axes: tuple
     criteria: tuple
     conditions: tuple
+    notes: tuple = ()
 
     @property
     def crossings(self) -> tuple:
@@ -304,7 +307,7 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
                       else default_criteria(aircraft.airplane_class))
     chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
     words = file_units(aircraft)
-    items = []
+    items, notes = [], ()
     axes = None
     for item in chosen:
         allowed = parameter_names(aircraft, item)
@@ -319,7 +322,8 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
         result = run_batch(cases, sets, progress=progress, path=len(axes) == 1)
         crossings = find_crossings(aircraft, item, axes, result, sets)
         items.append(ConditionSweep(item, result, crossings))
-    return SweepResult(aircraft, axes, sets, tuple(items))
+        notes += sweep_notes(aircraft, item, [axis.key.name for axis in axes])
+    return SweepResult(aircraft, axes, sets, tuple(items), tuple(notes))
 
 
 # ------------------------------------------------------------------ outputs
@@ -374,7 +378,7 @@ def sweep_document(result: SweepResult) -> dict:
                            "points": points})
     return {
         "latdyn_version": __version__, "aircraft": result.aircraft.name,
-        "file": result.aircraft.file, "notice": NOTICE,
+        "file": result.aircraft.file, "notice": NOTICE, "notes": list(result.notes),
         "parameters": [{"key": a.key.text, "unit": a.key.unit, "values": a.values.tolist()}
                        for a in result.axes],
         "criteria": [c.name for c in result.criteria],
