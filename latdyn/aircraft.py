@@ -17,7 +17,7 @@ from dataclasses import dataclass, fields, replace
 
 from latdyn import atmosphere, units
 from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
-                                  read_tree)
+                                  form_unit, read_tree)
 from latdyn.errors import InputError, describe_value
 
 __all__ = [
@@ -555,6 +555,9 @@ class Aircraft:
     controls : Controls or None
         The aircraft-wide ``[controls]`` table; each condition's
         :attr:`Condition.controls` applies its own overrides.
+    units : str
+        "SI" or "US": the unit system the file is written in (for display;
+        the values here are SI).
     """
 
     name: str
@@ -571,6 +574,7 @@ class Aircraft:
     wing: Wing | None = None
     fuselage: Fuselage | None = None
     aileron: Aileron | None = None
+    units: str = "SI"
 
     @property
     def file(self) -> str:
@@ -1088,7 +1092,7 @@ def _derivatives(entry, context, estimating=False):
         if len(present) != 1 and (present or quantity in _REQUIRED_DIMENSIONAL):
             leaf = min((table[form[0]] for form in present),
                        key=lambda leaf: context.files.index(leaf.file), default=None)
-            names = [f"{key} [{_form_unit(quantity, key, dimension, leaf_units(table))}]"
+            names = [f"{key} [{form_unit(quantity, key, dimension, leaf_units(table))}]"
                      for key, dimension, _, _ in forms]
             wanted = ", ".join(names[:-1]) + " or " + names[-1]
             if not present:
@@ -1115,16 +1119,6 @@ def leaf_units(table):
     return next((leaf.units for leaf in table.values() if isinstance(leaf, Leaf)), "SI")
 
 
-
-
-_PER_SECOND_SQUARED = ("L_beta", "N_beta", "L_da", "L_dr", "N_da", "N_dr")
-
-
-def _form_unit(quantity, key, dimension, file_units):
-    """Printed unit of one form of a dimensional derivative, in the file's units."""
-    if dimension == "none":  # normalised: 1/s^2 for L, N per sideslip or control, else 1/s
-        return "1/s^2" if key == quantity and quantity in _PER_SECOND_SQUARED else "1/s"
-    return units.unit_word(dimension, file_units)
 
 
 def _dimensional(axes, primed, given, flight, mass, context):
@@ -1224,7 +1218,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         description=description.value if isinstance(description, Leaf) else None,
         fin=_fin(tree, context), uncertainties=_uncertainties(tree, context),
         controls=controls, wing=wing, fuselage=_fuselage(tree, context),
-        aileron=_aileron(tree, context, half_span),
+        aileron=_aileron(tree, context, half_span), units=tree.get("__units__", "SI"),
     )
     done = []
     for flight, derivatives, condition_controls, augmentation in conditions:

@@ -22,7 +22,8 @@ from dataclasses import dataclass
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml
 
-__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
+__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
+           "given_values", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
            "GEOMETRY_TABLES", "read_tree", "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
@@ -150,6 +151,103 @@ SCHEMA["uncertainty"] = {key: {"relative": "none", "absolute": dimension, "distr
                          for key, dimension in UNCERTAIN_KEYS.items()}
 
 UNIT_WORDS = ("SI", "US")
+
+_PER_SECOND_SQUARED = ("L_beta", "N_beta", "L_da", "L_dr", "N_da", "N_dr")
+
+
+def form_unit(quantity, key, dimension, file_units):
+    """Printed unit of one form of a dimensional derivative, in the file's units.
+
+    >>> form_unit("L_beta", "L_v", "per_length", "US"), form_unit("L_beta", "L_beta", "none", "SI")
+    ('1/(ft s)', '1/s^2')
+    """
+    from latdyn.units import unit_word
+
+    if dimension == "none":  # normalised: 1/s^2 for L, N per sideslip or control, else 1/s
+        return "1/s^2" if key == quantity and quantity in _PER_SECOND_SQUARED else "1/s"
+    return unit_word(dimension, file_units)
+
+
+@dataclass(frozen=True)
+class GivenValue:
+    """A value exactly as a file gives it.
+
+    Attributes
+    ----------
+    key : str
+        Dotted key (``condition.dimensional.Y_beta``, ``mass.Ixx``).
+    value : object
+        The value as TOML read it (in the file's units).
+    unit : str
+        Its unit in the file's unit system ("" for words, "-" for ratios).
+    file : str
+        The file it was read from (a base file for an ``extends`` chain).
+    """
+
+    key: str
+    value: object
+    unit: str
+    file: str
+
+
+def _given_unit(section, key, leaf):
+    from latdyn.units import unit_word
+
+    if section in ("condition.derivatives",):
+        return "" if key == "axes" else "1/rad"
+    if section == "condition.dimensional":
+        for quantity, forms in DIMENSIONAL_FORMS.items():
+            for name, dimension, _, _ in forms:
+                if name == key:
+                    return form_unit(quantity, key, dimension, leaf.units)
+        return ""
+    table = SCHEMA
+    for part in section.split("."):
+        table = table[part]
+    dimension = table.get(key)
+    if dimension is None or not isinstance(leaf.value, (int, float)) or isinstance(leaf.value, bool):
+        return ""
+    if key.endswith("_deg"):
+        return "deg"
+    return unit_word(dimension, leaf.units) or "-"
+
+
+def given_values(tree, condition) -> tuple:
+    """The values a file (with its ``extends`` chain) gives for one condition, as written.
+
+    The ``[mass]`` and ``[geometry]`` tables, then the condition's own keys and
+    its derivative block, in the file's order.
+
+    Parameters
+    ----------
+    tree : dict
+        :func:`read_tree` of the aircraft file.
+    condition : str
+        The condition's name.
+
+    Returns
+    -------
+    tuple of GivenValue
+    """
+    out = []
+
+    def add(section, table):
+        for key, leaf in table.items():
+            if isinstance(leaf, Leaf):
+                out.append(GivenValue(f"{section}.{key}", leaf.value, _given_unit(section, key, leaf),
+                                      leaf.file))
+
+    for section in ("mass", "geometry"):
+        if isinstance(tree.get(section), dict):
+            add(section, tree[section])
+    for entry in tree.get("condition") or []:
+        name = entry.get("name")
+        if isinstance(name, Leaf) and name.value == condition:
+            add("condition", {k: v for k, v in entry.items() if k != "name"})
+            for block in ("derivatives", "dimensional"):
+                if isinstance(entry.get(block), dict):
+                    add(f"condition.{block}", entry[block])
+    return tuple(out)
 
 
 @dataclass(frozen=True)

@@ -22,8 +22,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-__all__ = ["DASH", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "DEFAULT",
-           "SIGNAL_QUANTITIES"]
+__all__ = ["DASH", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
+           "DEFAULT", "SYSTEMS", "unit_system", "SIGNAL_QUANTITIES"]
 
 #: Text of a figure that does not apply (or is not finite).
 DASH = "-"
@@ -154,8 +154,44 @@ SI = UnitSystem("SI", {
     "rate": DisplayUnit("1/s"),
 })
 
+from latdyn.units import FOOT as _FOOT, POUND_FORCE as _POUND_FORCE, SLUG as _SLUG  # noqa: E402
+
+#: US customary units for display (ft, slug, lbf), angles in degrees: a file written in US units
+#: is answered in them.
+US = UnitSystem("US", {
+    "angle": DisplayUnit("deg", _DEGREES),
+    "angular_rate": DisplayUnit("deg/s", _DEGREES),
+    "load_factor": DisplayUnit("g", 1.0),
+    "length": DisplayUnit("ft", 1.0 / _FOOT),
+    "area": DisplayUnit("ft^2", 1.0 / _FOOT**2),
+    "speed": DisplayUnit("ft/s", 1.0 / _FOOT),
+    "mass": DisplayUnit("slug", 1.0 / _SLUG),
+    "inertia": DisplayUnit("slug ft^2", 1.0 / (_SLUG * _FOOT**2)),
+    "density": DisplayUnit("slug/ft^3", _FOOT**3 / _SLUG),
+    "pressure": DisplayUnit("lbf/ft^2", _FOOT**2 / _POUND_FORCE),
+    "time": DisplayUnit("s"),
+    "frequency": DisplayUnit("rad/s"),
+    "rate": DisplayUnit("1/s"),
+})
+
+#: The unit systems by name ("SI", "US").
+SYSTEMS = {"SI": SI, "US": US}
+
 #: The unit system tables, reports and figures use unless told otherwise.
 DEFAULT = SI
+
+
+def unit_system(name=None, aircraft=None) -> UnitSystem:
+    """The display units: by name ("SI" or "US"), else those the aircraft's file is written in.
+
+    Examples
+    --------
+    >>> unit_system("US").label("mass"), unit_system().name
+    ('slug', 'SI')
+    """
+    if name is None:
+        name = getattr(aircraft, "units", None) or "SI"
+    return SYSTEMS[name]
 
 #: Quantity of each response signal and control (state, output and input names of the model).
 SIGNAL_QUANTITIES = {"beta": "angle", "p": "angular_rate", "r": "angular_rate", "phi": "angle",

@@ -124,9 +124,9 @@ def test_csv_parses_back_to_the_same_numbers(report):
     assert float(dutch["natural_frequency"]) == modes["dutch_roll"]["natural_frequency"]
     assert float(dutch["damping_ratio"]) == modes["dutch_roll"]["damping_ratio"]
     assert float(dutch["re"]) == modes["dutch_roll"]["eigenvalue"][0]
-    with open(report / "tables" / "small-approach-derivatives.csv") as handle:
-        derivatives = {r["given"]: r for r in csv.DictReader(handle)}
-    assert float(derivatives["Cn_beta"]["given_value"]) == 0.092  # traceable to the input
+    with open(report / "tables" / "small-approach-as-given.csv") as handle:
+        given = {r["key"]: r for r in csv.DictReader(handle)}
+    assert float(given["condition.derivatives.Cn_beta"]["value"]) == 0.092  # traceable to the input
 
 
 def test_results_json_is_byte_identical_for_identical_inputs(tmp_path):

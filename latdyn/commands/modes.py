@@ -1,4 +1,5 @@
-"""``latdyn modes FILE... [--condition NAME] [--format table|markdown|csv|json] [--shapes]``:
+"""``latdyn modes FILE... [--condition NAME] [--format table|markdown|csv|json] [--units SI|US]
+[--shapes]``:
 the mode table of each condition (``--json`` is ``--format json``)."""
 
 from __future__ import annotations
@@ -18,26 +19,34 @@ def add_arguments(parser):
     add_format(parser)
     parser.add_argument("--json", action="store_const", const="json", dest="format",
                         help="the same as --format json")
+    parser.add_argument("--units", choices=("SI", "US"),
+                        help="display units of the tables (default: those of each file; JSON "
+                             "stays SI)")
     parser.add_argument("--shapes", action="store_true",
                         help="also print the mode shapes (eigenvector magnitudes and phases)")
 
 
-def condition_heading(result):
-    """One line describing a flight condition, in SI units with degrees for angles."""
+def condition_heading(result, units=None):
+    """One line describing a flight condition, in display units (SI by default) with degrees."""
     from latdyn.display import SI, format_number
 
-    deg = SI.unit("angle")
+    units = units or SI
     flight = result.condition.flight
     parts = [f'Condition "{flight.name}"',
              f"category {flight.category}" if flight.category else "category not given"]
+
+    def quantity(word, value, kind):
+        parts.append(f"{word} {format_number(units.convert(value, kind))} {units.label(kind)}")
+
     if flight.altitude is not None:
-        parts.append(f"altitude {format_number(flight.altitude)} m")
-    parts.append(f"V {format_number(flight.speed)} m/s")
+        quantity("altitude", flight.altitude, "length")
+    quantity("V", flight.speed, "speed")
     if flight.mach is not None:
         parts.append(f"Mach {flight.mach:.3f}")
-    parts.append(f"rho {format_number(flight.density)} kg/m^3")
-    parts.append(f"q {format_number(flight.dynamic_pressure)} Pa")
-    parts.append(f"alpha {deg(flight.alpha):.2f} deg, gamma {deg(flight.gamma):.2f} deg")
+    quantity("rho", flight.density, "density")
+    quantity("q", flight.dynamic_pressure, "pressure")
+    angle = units.unit("angle")
+    parts.append(f"alpha {angle(flight.alpha):.2f} deg, gamma {angle(flight.gamma):.2f} deg")
     parts.append(f"{result.model.axes} axes")
     return " | ".join(parts)
 
@@ -81,6 +90,7 @@ def run(args):
     from dataclasses import replace
 
     from latdyn.aircraft import load_aircraft
+    from latdyn.display import unit_system
     from latdyn.results import analyse_aircraft, modes_document, provenance_line
     from latdyn.report.blocks import Column
     from latdyn.report.render import escape_markdown, render
@@ -109,7 +119,7 @@ def run(args):
                  + (f"  class {aircraft.airplane_class}" if aircraft.airplane_class else ""))
         lines = [f"## {escape_markdown(title)}" if markdown else title]
         for result in results:
-            heading = condition_heading(result)
+            heading = condition_heading(result, unit_system(args.units, aircraft))
             lines += ["", f"### {escape_markdown(heading)}" if markdown else heading]
             provenance = provenance_line(result.condition)
             notes = [*([f"  {provenance}"] if provenance else []),

@@ -1,4 +1,5 @@
-"""``latdyn report FILE... [--compare VARIANT]... [-o reports/NAME] [--criteria SET]... [--force]``."""
+"""``latdyn report FILE... [--compare VARIANT]... [-o reports/NAME] [--criteria SET]... [--units SI|US]
+[--force]``."""
 
 from __future__ import annotations
 
@@ -18,6 +19,9 @@ def add_arguments(parser):
     parser.add_argument("-o", "--output", metavar="FOLDER",
                         help="report folder (default reports/<first file's name>)")
     add_criteria(parser)
+    parser.add_argument("--units", choices=("SI", "US"),
+                        help="display units of the tables (default: those of the first file; "
+                             "results.json stays SI)")
     parser.add_argument("--force", action="store_true", help="replace an existing report folder")
     parser.add_argument("--progress", action="store_true", default=None,
                         help="show the progress line even when stderr is not a terminal")
@@ -25,11 +29,13 @@ def add_arguments(parser):
 
 def run(args):
     from latdyn.commands import criteria_names
+    from latdyn.display import SYSTEMS
     from latdyn.report import write_report
 
     output = args.output or os.path.join(
         "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
     folder = write_report(args.files, output, args.compare, criteria_names(args), args.force,
+                          units=SYSTEMS[args.units] if args.units else None,
                           progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]])
     print(f"wrote {os.path.join(folder, 'index.html')}")
     return 0

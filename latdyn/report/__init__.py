@@ -34,7 +34,5 @@ def build_report(files, variants=(), criteria_sets=None, now=None, argv=None, un
 
     No matplotlib and nothing written.
     """
-    from latdyn.display import DEFAULT
-
     data = analyse_report(files, variants, criteria_sets, now=now, argv=argv)
-    return report_content(data, units or DEFAULT)
+    return report_content(data, units)

@@ -19,7 +19,7 @@ from dataclasses import replace
 
 from latdyn.display import DEFAULT, format_number
 from latdyn.report.blocks import Figure, Heading, Notice, Paragraph, Report
-from latdyn.report.tables import (comparison_tables, derivative_table, flight_condition_table, mass_table,
+from latdyn.report.tables import (comparison_tables, flight_condition_table, given_table, mass_table,
                                   MODE_REPORT_VIEW, ASSESSMENT_REPORT_VIEW, assessment_table, mode_table,
                                   provenance_tables, readout_table, roll_response_table, summary_table,
                                   transfer_table)
@@ -116,6 +116,7 @@ def aircraft_section(data, units=DEFAULT) -> list:
                    Paragraph(f"File {aircraft.file}; airplane class {aircraft.airplane_class or 'not given'}."
                              + (f" {aircraft.description}." if aircraft.description else "")),
                    mass_table(aircraft, f"{name}-mass-geometry", units),
+                   given_table(aircraft, None, f"{name}-mass-geometry-as-given"),
                    Figure(f"{name}-s-plane", "Roots of every condition in the s-plane.", "s_plane",
                           {"result": assessment})]
         for criteria in assessment.criteria:
@@ -138,7 +139,7 @@ def condition_section(item, data, units=DEFAULT) -> list:
     if result.condition.flight.description:
         blocks.append(Paragraph(result.condition.flight.description))
     blocks += [flight_condition_table(result, f"{name}-flight-condition", units),
-               derivative_table(result, f"{name}-derivatives"),
+               given_table(item.aircraft, result, f"{name}-as-given"),
                Paragraph(f"Roots: {result.modes.pattern}."),
                mode_table(result.modes, f"{name}-modes").select(MODE_REPORT_VIEW),
                assessment_table(item.assessment, result.condition.name, f"{name}-assessment")
@@ -220,19 +221,24 @@ def results_document(data) -> dict:
     }
 
 
-def report_content(data, units=DEFAULT) -> Report:
+def report_content(data, units=None) -> Report:
     """The report of analysed aircraft: every section's blocks and ``results.json``.
 
     Parameters
     ----------
     data : latdyn.report.analysis.ReportData
-    units : latdyn.display.UnitSystem
-        Display units of the tables.
+    units : latdyn.display.UnitSystem, optional
+        Display units of the tables; default the unit system of the first
+        aircraft's file (``results.json`` stays SI).
 
     Returns
     -------
     Report
     """
+    if units is None:
+        from latdyn.display import unit_system
+
+        units = unit_system(aircraft=data.aircraft[0].aircraft if data.aircraft else None)
     report = Report(title=_title(data), generated=data.generated)
     for section in SECTIONS:
         report.add(*section(data, units))

@@ -14,6 +14,7 @@ No formulas here: every number comes from the pipeline stages.
 from __future__ import annotations
 
 import math
+import os
 
 from latdyn.display import DEFAULT, SIGNAL_QUANTITIES, format_number
 from latdyn.modes import MODE_LABELS
@@ -23,7 +24,7 @@ __all__ = [
     "MODE_TEXT_VIEW", "MODE_REPORT_VIEW", "ASSESSMENT_TEXT_VIEW", "ASSESSMENT_REPORT_VIEW",
     "ASSESSMENT_CSV_VIEW", "SUMMARY_VIEW",
     "mode_status", "mode_table", "shape_table", "flight_condition_table", "mass_table",
-    "derivative_table", "derivative_caption", "assessment_table", "assessment_sources",
+    "derivative_table", "derivative_caption", "given_table", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
     "turbulence_table", "equivalent_table", "roll_response_table", "buildup_table", "buildup_caption",
@@ -157,6 +158,10 @@ def flight_condition_table(result, name="flight-condition", units=DEFAULT) -> Ta
         ("category", "Flight-phase category", "-", flight.category or "not given"),
         ("altitude", "Geopotential altitude", units.label("length"), units.convert(flight.altitude, "length")),
         ("speed", "True airspeed", units.label("speed"), units.convert(flight.speed, "speed")),
+        ("equivalent_airspeed", "Equivalent airspeed", units.label("speed"),
+         units.convert(flight.equivalent_airspeed, "speed")),
+        ("calibrated_airspeed", "Calibrated airspeed", units.label("speed"),
+         units.convert(flight.calibrated_airspeed, "speed")),
         ("mach", "Mach number", "-", flight.mach),
         ("density", "Density", units.label("density"), units.convert(flight.density, "density")),
         ("dynamic_pressure", "Dynamic pressure", units.label("pressure"),
@@ -186,8 +191,81 @@ def mass_table(aircraft, name="mass-geometry", units=DEFAULT) -> Table:
         rows += [("Wing area S", units.label("area"), units.convert(g.wing_area, "area")),
                  ("Span b", units.label("length"), units.convert(g.span, "length")),
                  ("Mean chord", units.label("length"), units.convert(g.mean_chord, "length"))]
-    return Table(name, f"Mass, inertia and geometry ({units.name}, as read from the file)",
+    return Table(name, f"Mass, inertia and geometry ({units.name} units)",
                  _QUANTITY_COLUMNS, tuple({"quantity": q, "unit": u, "value": v} for q, u, v in rows))
+
+
+def _given_text(value) -> str:
+    """A value exactly as read (a float's shortest repr, so it equals the file's number)."""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, float):
+        return repr(value)
+    return str(value)
+
+
+def _used(key, aircraft, result):
+    """(name, SI value, SI unit) that the model uses for a key of the file, or None."""
+    from latdyn.aircraft import SPEED_KEYS
+    from latdyn.aircraft_file import DIMENSIONAL_FORMS
+    from latdyn.model import COEFFICIENT_NAMES, DIMENSIONAL_NAMES, DIMENSIONAL_UNITS
+
+    section, _, name = key.rpartition(".")
+    if section in ("mass", "geometry"):
+        owner = aircraft.mass if section == "mass" else aircraft.geometry
+        unit = {"mass": "kg", "wing_area": "m^2", "span": "m", "mean_chord": "m"}.get(name, "kg m^2")
+        value = getattr(owner, name, None) if owner is not None else None
+        return None if not isinstance(value, float) else (name, value, unit)
+    if result is None:
+        return None
+    flight = result.condition.flight
+    if section == "condition":
+        if name in SPEED_KEYS:
+            return ("V (true airspeed)", flight.speed, "m/s")
+        return {"altitude": ("altitude", flight.altitude, "m"),
+                "density": ("rho", flight.density, "kg/m^3"),
+                "alpha_deg": ("alpha", flight.alpha, "rad"),
+                "gamma_deg": ("gamma", flight.gamma, "rad")}.get(name)
+    quantity = None
+    if section == "condition.derivatives" and name in COEFFICIENT_NAMES:
+        quantity = DIMENSIONAL_NAMES[COEFFICIENT_NAMES.index(name)]
+    elif section == "condition.dimensional":
+        quantity = next((q for q, forms in DIMENSIONAL_FORMS.items()
+                         if any(form[0] == name for form in forms)), None)
+    if quantity is None:
+        return None
+    label = quantity + "'" if quantity[0] in "LN" else quantity
+    return (label, getattr(result.model.derivatives, quantity), DIMENSIONAL_UNITS[quantity])
+
+
+def given_table(aircraft, result=None, name="given") -> Table:
+    """Values exactly as the file gives them (key, value, unit of the file), with the value used.
+
+    Without ``result``: the ``[mass]`` and ``[geometry]`` tables; with one: the
+    condition's own keys and its derivative block.  "As used" is what the
+    model uses, in SI units and radians (derivatives primed, in the axes of
+    the equations).
+    """
+    from latdyn.aircraft_file import given_values, read_tree
+
+    condition = result.condition.name if result is not None else None
+    values = given_values(read_tree(aircraft.file), condition) if aircraft.file else ()
+    rows = []
+    for item in values:
+        if (result is None) != item.key.startswith(("mass.", "geometry.")):
+            continue
+        used = _used(item.key, aircraft, result)
+        rows.append({"key": item.key, "value": _given_text(item.value), "unit": item.unit,
+                     "used": used[0] if used else None, "used_value": used[1] if used else None,
+                     "used_unit": used[2] if used else None,
+                     "file": os.path.basename(item.file)})
+    columns = [Column("key", "As given"), Column("value", "Value"), Column("unit", "Unit"),
+               Column("used", "As used"), Column("used_value", "Value"), Column("used_unit", "Unit")]
+    if len({row["file"] for row in rows}) > 1:
+        columns.append(Column("file", "From file"))
+    what = "Mass and geometry" if result is None else "Flight condition and derivatives"
+    return Table(name, f"{what} as given in the file ({aircraft.units} units) and as used "
+                       "(SI units and radians)", tuple(columns), tuple(rows))
 
 
 def derivative_caption(result) -> str:

@@ -16,7 +16,6 @@ import shutil
 import sys
 import tempfile
 
-from latdyn.display import DEFAULT
 from latdyn.errors import InputError
 from latdyn.report.analysis import analyse_report
 from latdyn.report.content import report_content
@@ -63,7 +62,7 @@ def write_files(report, folder, step=None) -> None:
 
 
 def write_report(files, output, variants=(), criteria_sets=None, force=False, progress=None,
-                 argv=None, units=DEFAULT) -> str:
+                 argv=None, units=None) -> str:
     """Analyse aircraft files and write their report folder atomically.
 
     Parameters
@@ -82,8 +81,8 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         Show a progress bar on stderr (default: when stderr is a terminal).
     argv : sequence of str, optional
         The command line, recorded in the provenance.
-    units : latdyn.display.UnitSystem
-        Display units of the tables.
+    units : latdyn.display.UnitSystem, optional
+        Display units of the tables (default: those of the first file).
 
     Returns
     -------
