@@ -48,7 +48,7 @@ def test_report_content_is_built_without_matplotlib():
     assert found["matplotlib"] == []
     assert "summary" in found["tables"] and "kestrel-k40-cruise-assessment" in found["tables"]
     assert "roll-response" in found["tables"]
-    assert len(found["tables"]) == 29                    # the demo report's CSV files (roll-response indicators included)
+    assert len(found["tables"]) == 30                    # the demo report's CSV files (roll-response indicators and the mass and geometry as given included)
     assert ["kestrel-k40-s-plane", "s_plane"] in found["figures"]
     assert len(found["figures"]) == 11                    # 22 files: PNG and SVG
     # the demo's spiral diverges slowly: the one row marked, in the report's words
@@ -96,7 +96,7 @@ def test_report_markdown_tables_are_recognised(demo_report):
     text = (demo_report / "report.md").read_text(encoding="utf-8")
     tokens = MarkdownIt("commonmark").enable("table").parse(text)
     report = build_report(DEMO, VARIANTS)
-    assert sum(t.type == "table_open" for t in tokens) == len(report.tables) == 29
+    assert sum(t.type == "table_open" for t in tokens) == len(report.tables) == 30
     headings = []
     for i, token in enumerate(tokens):
         if token.type == "th_open":
