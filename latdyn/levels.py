@@ -85,7 +85,7 @@ class Grades(NamedTuple):
     margin_fraction: np.ndarray
 
 
-def grade(values, limits, parameters, senses, exclusive=False) -> Grades:
+def grade(values, limits, parameters, senses, exclusive=False, levels_only=False) -> Grades:
     """Grade constraints ``sense * (value - limit) >= 0`` into levels.
 
     Every argument broadcasts to the shape ``S + (G, K)``: G grades (Levels
@@ -109,6 +109,9 @@ def grade(values, limits, parameters, senses, exclusive=False) -> Grades:
         +1 for a minimum, -1 for a maximum.
     exclusive : array_like of bool
         The value must strictly pass the limit.
+    levels_only : bool
+        Compute only ``level`` and ``met`` (the margin fields are None): the
+        cheaper grading for studies that count levels.
 
     Returns
     -------
@@ -132,7 +135,7 @@ def grade(values, limits, parameters, senses, exclusive=False) -> Grades:
 
     columns = [[tuple(column(a, g, k) for a in arrays) for k in range(width)]
                for g in range(count)]
-    return _grade_columns(columns, full[:-2])
+    return _grade_columns(columns, full[:-2], levels_only)
 
 
 def _where(condition, yes, no):
@@ -142,14 +145,17 @@ def _where(condition, yes, no):
     return np.where(condition, yes, no)
 
 
-def _grade_columns(columns, shape) -> Grades:
+def _grade_columns(columns, shape, levels_only=False) -> Grades:
     """:func:`grade` on constraints given per grade and per constraint.
 
     ``columns[g][k] = (value, limit, parameter, sense, exclusive)``, each an
     array broadcastable to ``shape`` or a scalar (band limits usually are:
     they stay scalars, so a constraint costs a few passes over the batch).
     The loops run over the few grades and constraints, never over the cases.
+    With ``levels_only`` only ``level`` and ``met`` are computed.
     """
+    if levels_only:
+        return _levels_of_columns(columns, shape)
     count = len(columns)
     met = np.empty(shape + (count,), bool)
     level_margin = np.empty(shape + (count,))
@@ -162,17 +168,9 @@ def _grade_columns(columns, shape) -> Grades:
             smallest = which = None
             grade_entries = []
             for k, (value, limit, parameter, sense, exclusive) in enumerate(constraints):
-                value = np.asarray(value, dtype=float)
-                limit = np.asarray(limit, dtype=float)
-                applicable = ~np.isnan(limit)
-                margin = _where(applicable, sense * (value - limit), np.inf)
-                missing = applicable & np.isnan(value)
-                if np.any(missing):
+                value, limit, applicable, margin, missing, ok = _constraint(value, limit, sense, exclusive)
+                if missing is not None:
                     undetermined |= missing
-                ok = margin >= 0.0
-                exclusive = np.asarray(exclusive, dtype=bool)
-                if exclusive.any():
-                    ok = ok & ~(exclusive & (margin == 0.0))
                 met_g &= ok
                 scale = np.abs(limit)
                 positive = scale > 0.0
@@ -191,11 +189,7 @@ def _grade_columns(columns, shape) -> Grades:
             level_margin[..., g] = smallest
             entries.append(grade_entries)
             chosen.append(which)
-    # the first grade met; G + 1 where none is
-    level = np.full(shape, count + 1)
-    for g in reversed(range(count)):
-        level = np.where(met[..., g], g + 1, level)
-    level = np.where(undetermined, 0, level)
+    level = _first_met(met, undetermined)
     target = np.clip(level - 2, 0, count - 1)
     # the governing constraint's figures at the next-better boundary
     nan = np.nan
@@ -211,6 +205,53 @@ def _grade_columns(columns, shape) -> Grades:
             margin = np.where(here, margin_k, margin)
             fraction = np.where(here, fraction_k, fraction)
     return Grades(level, met, level_margin, governing, value, limit, margin, fraction)
+
+
+def _levels_of_columns(columns, shape) -> Grades:
+    """``level`` and ``met`` of :func:`_grade_columns` alone (the same tests, no margins)."""
+    count = len(columns)
+    met = np.empty(shape + (count,), bool)
+    undetermined = np.zeros(shape, bool)
+    with np.errstate(invalid="ignore"):
+        for g, constraints in enumerate(columns):
+            met_g = np.ones(shape, bool)
+            for value, limit, _, sense, exclusive in constraints:
+                if np.all(np.isnan(limit)):
+                    continue  # no requirement in this grade
+                *_, missing, ok = _constraint(value, limit, sense, exclusive)
+                if missing is not None:
+                    undetermined |= missing
+                met_g &= ok
+            met[..., g] = met_g
+    return Grades(_first_met(met, undetermined), met, None, None, None, None, None, None)
+
+
+def _constraint(value, limit, sense, exclusive):
+    """One constraint ``sense * (value - limit) >= 0`` (strict where ``exclusive``).
+
+    Returns (value, limit, applicable, margin, missing, ok): a NaN limit is no
+    requirement (margin +inf, met); a NaN value under a requirement is
+    ``missing`` (None when nowhere).
+    """
+    value = np.asarray(value, dtype=float)
+    limit = np.asarray(limit, dtype=float)
+    applicable = ~np.isnan(limit)
+    margin = _where(applicable, sense * (value - limit), np.inf)
+    missing = applicable & np.isnan(value)
+    ok = margin >= 0.0
+    exclusive = np.asarray(exclusive, dtype=bool)
+    if exclusive.any():
+        ok = ok & ~(exclusive & (margin == 0.0))
+    return value, limit, applicable, margin, (missing if np.any(missing) else None), ok
+
+
+def _first_met(met, undetermined):
+    """The first grade met (1-based); G + 1 where none is, 0 where undetermined."""
+    count = met.shape[-1]
+    level = np.full(met.shape[:-1], count + 1)
+    for g in reversed(range(count)):
+        level = np.where(met[..., g], g + 1, level)
+    return np.where(undetermined, 0, level)
 
 
 class DutchRollLimits(NamedTuple):
@@ -303,7 +344,8 @@ def phi_to_beta_excess(natural_frequency, phi_to_beta, threshold=20.0):
     return np.maximum(0.0, omega * omega * np.asarray(phi_to_beta, dtype=float) - threshold)
 
 
-def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: DutchRollLimits) -> Grades:
+def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: DutchRollLimits,
+                      levels_only=False) -> Grades:
     """Levels of Dutch roll modes from zeta_d, omega_nd and |phi/beta|_d.
 
     Per grade the requirements are (MIL-F-8785C 3.3.1.1, Table VI and its
@@ -378,10 +420,10 @@ def dutch_roll_grades(damping_ratio, natural_frequency, phi_to_beta, limits: Dut
             frequency = (omega, min_omega[..., g], _INDEX["natural_frequency"], 1.0,
                          omega_exclusive[..., g])
             columns.append([damping, frequency])
-    return _grade_columns(columns, shape)
+    return _grade_columns(columns, shape, levels_only)
 
 
-def roll_grades(roll_root, limits: RollLimits) -> Grades:
+def roll_grades(roll_root, limits: RollLimits, levels_only=False) -> Grades:
     """Levels of roll subsidence modes from the real roll root.
 
     T_R = -1 / lambda_roll (MIL-F-8785C 3.3.1.2, Table VII [recalled]); a
@@ -409,10 +451,10 @@ def roll_grades(roll_root, limits: RollLimits) -> Grades:
         constant = np.where(root < 0.0, -1.0 / np.where(root < 0.0, root, -1.0), np.inf)
     constant = np.where(np.isnan(root), np.nan, constant)
     return grade(constant[..., None, None], np.asarray(limits.max_time_constant, float)[..., None],
-                 _INDEX["time_constant"], -1.0, np.asarray(limits.exclusive, bool)[..., None])
+                 _INDEX["time_constant"], -1.0, np.asarray(limits.exclusive, bool)[..., None], levels_only)
 
 
-def spiral_grades(spiral_root, limits: SpiralLimits) -> Grades:
+def spiral_grades(spiral_root, limits: SpiralLimits, levels_only=False) -> Grades:
     """Levels of spiral modes from the real spiral root.
 
     T_2 = ln 2 / lambda for a divergent root (MIL-F-8785C 3.3.1.3, Table VIII
@@ -440,10 +482,11 @@ def spiral_grades(spiral_root, limits: SpiralLimits) -> Grades:
         double = np.where(root > 0.0, _LN2 / np.where(root > 0.0, root, 1.0), np.inf)
     double = np.where(np.isnan(root), np.nan, double)
     return grade(double[..., None, None], np.asarray(limits.min_time_to_double, float)[..., None],
-                 _INDEX["time_to_double"], 1.0, np.asarray(limits.exclusive, bool)[..., None])
+                 _INDEX["time_to_double"], 1.0, np.asarray(limits.exclusive, bool)[..., None], levels_only)
 
 
-def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimits, permitted=True) -> Grades:
+def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimits, permitted=True,
+                       levels_only=False) -> Grades:
     """Levels of coupled roll-spiral oscillations from zeta_RS and omega_RS.
 
     zeta_RS*omega_RS >= limit (MIL-F-8785C 3.3.1.4 [recalled]); where the
@@ -479,7 +522,7 @@ def roll_spiral_grades(damping_ratio, natural_frequency, limits: RollSpiralLimit
     columns = [[(zw, minimum[..., g], _INDEX["zeta_omega"], 1.0, strict[..., g]),
                 (allowed, forbidden, _INDEX["permitted"], 1.0, False)]
                for g in range(minimum.shape[-1])]
-    return _grade_columns(columns, shape)
+    return _grade_columns(columns, shape, levels_only)
 
 
 # ============================================================ band selection
@@ -616,7 +659,7 @@ def select_bands(criteria: CriteriaSet, mode, airplane_class, category, flight_p
 
 
 def grade_mode(selection: BandSelection, *, damping_ratio=None, natural_frequency=None,
-               phi_to_beta=None, root=None) -> Grades:
+               phi_to_beta=None, root=None, levels_only=False) -> Grades:
     """Grade a batch of one mode's values against a band selection.
 
     Parameters
@@ -626,6 +669,8 @@ def grade_mode(selection: BandSelection, *, damping_ratio=None, natural_frequenc
         zeta [-], omega_n [rad/s], |phi/beta| [-]: Dutch roll and roll-spiral.
     root : array_like
         Real eigenvalue [1/s]: roll subsidence and spiral.
+    levels_only : bool
+        Only ``level`` and ``met`` (see :func:`grade`).
 
     Returns
     -------
@@ -634,13 +679,13 @@ def grade_mode(selection: BandSelection, *, damping_ratio=None, natural_frequenc
     mode = selection.mode
     if mode == "dutch_roll":
         ratio = np.nan if phi_to_beta is None else phi_to_beta
-        return dutch_roll_grades(damping_ratio, natural_frequency, ratio, selection.limits)
+        return dutch_roll_grades(damping_ratio, natural_frequency, ratio, selection.limits, levels_only)
     if mode == "roll_subsidence":
-        return roll_grades(root, selection.limits)
+        return roll_grades(root, selection.limits, levels_only)
     if mode == "spiral":
-        return spiral_grades(root, selection.limits)
+        return spiral_grades(root, selection.limits, levels_only)
     return roll_spiral_grades(damping_ratio, natural_frequency, selection.limits,
-                              permitted=selection.not_permitted is None)
+                              permitted=selection.not_permitted is None, levels_only=levels_only)
 
 
 def mode_levels(criteria, mode, airplane_class, category, *, flight_phase=None, altitude=None,

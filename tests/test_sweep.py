@@ -111,3 +111,59 @@ def test_bad_sweep_keys_exit_2_with_one_line(demo_files, capsys, vary, message):
     assert status == 2
     err = capsys.readouterr().err
     assert message in err and len(err.strip().splitlines()) == 1
+
+
+def _reference_crossings(aircraft, condition, axes, result, criteria_sets):
+    """The crossings as found before batching: Brent's method (scipy.optimize.brentq, xtol 1e-12 of
+    the parameter) on the margin of one case at a time, along the first parameter of each line."""
+    import math
+
+    from scipy.optimize import brentq
+
+    from latdyn.studies.batch import condition_set, run_batch
+    from latdyn.studies.sweep import _grid_brackets, _overrides
+
+    shape = tuple(len(a.values) for a in axes)
+    out = []
+    for criteria in criteria_sets:
+        for mode in criteria.mode_names:
+            grades = result.levels.get((criteria.name, mode))
+            if grades is None:
+                continue
+            margins = grades.level_margin.reshape(shape + grades.level_margin.shape[-1:])
+            for line in ([()] if len(axes) == 1 else [(j,) for j in range(shape[1])]):
+                for g in range(margins.shape[-1]):
+                    def margin(x):
+                        columns = [[x]] + ([[axes[1].values[line[0]]]] if line else [])
+                        cases = condition_set(aircraft, condition, _overrides(axes, columns))
+                        level = run_batch(cases, [criteria]).levels.get((criteria.name, mode))
+                        return float(level.level_margin[0, g]) if level is not None else math.nan
+                    values = axes[0].values
+                    _, brackets = _grid_brackets(values, margins[(slice(None),) + line + (g,)])
+                    for i, _ in brackets:
+                        x0, x1 = values[i], values[i + 1]
+                        if not margin(x0) * margin(x1) <= 0:
+                            continue
+                        out.append(brentq(margin, x0, x1, xtol=1e-12 * max(abs(x0), abs(x1)),
+                                          rtol=4 * np.finfo(float).eps, maxiter=200))
+    return sorted(out)
+
+
+@pytest.mark.parametrize("ranges, condition", [
+    ([("Cn_beta", -0.02, 0.2, 23)], "approach"),
+    ([("Cl_beta", -0.35, 0.05, 9), ("Cn_r", -0.3, 0.02, 5)], "approach"),
+    ([("Cn_beta", 0.0, 0.2, 11), ("Cl_p", -0.6, -0.05, 4)], "cruise"),
+], ids=["one-parameter", "two-parameter-dihedral", "two-parameter-roll-damping"])
+def test_batched_crossings_equal_single_case_root_finding(demo_files, ranges, condition):
+    """Every crossing of the batched search equals Brent's method on single cases (the search used
+    before batching) to its tolerance, on grids with several crossings per line."""
+    aircraft = load_aircraft(next(f for f in demo_files if f.name == "kestrel-k40.toml"))
+    result = sweep(aircraft, ranges, condition=condition)
+    item = result.conditions[0]
+    batched = sorted(c.value for c in item.crossings)
+    reference = _reference_crossings(aircraft, item.condition, result.axes, item.result, result.criteria)
+    grid_points = len(batched) - len(reference)
+    assert len(reference) >= 3 and grid_points >= 0
+    matched = [min(batched, key=lambda v: abs(v - r)) for r in reference]
+    scale = max(abs(v) for v in result.axes[0].values)
+    assert np.allclose(matched, reference, rtol=0, atol=1e-9 * scale)

@@ -36,9 +36,9 @@ def test_same_seed_same_result_other_seed_other_samples(kestrel):
     again = uncertainty(kestrel, given, 5000, seed=7, condition="cruise")
     other = uncertainty(kestrel, given, 5000, seed=8, condition="cruise")
     a, b, c = (r.conditions[0] for r in (first, again, other))
-    assert np.array_equal(a.figures.dutch_roll, b.figures.dutch_roll)
+    assert np.array_equal(a.figures.dutch_roll_frequency, b.figures.dutch_roll_frequency)
     assert a.probabilities == b.probabilities
-    assert not np.array_equal(a.figures.dutch_roll, c.figures.dutch_roll)
+    assert not np.array_equal(a.figures.dutch_roll_frequency, c.figures.dutch_roll_frequency)
 
 
 def test_probabilities_sum_to_one(kestrel):
@@ -55,7 +55,8 @@ def test_zero_uncertainty_gives_the_nominal_in_every_sample(kestrel):
     result = uncertainty(kestrel, [("Cn_r", "relative", 0.0, "normal")], 500, seed=1,
                          condition="approach")
     nominal = find_modes(lateral_model(kestrel, "approach"))["dutch_roll"]
-    assert np.all(result.conditions[0].figures.dutch_roll_frequency == nominal.natural_frequency)
+    # the streamed run keeps the figures as float32
+    assert np.all(result.conditions[0].figures.dutch_roll_frequency == np.float32(nominal.natural_frequency))
 
 
 def test_level_probability_matches_the_normal_distribution(write_file):
@@ -128,3 +129,49 @@ def test_uncertainty_command_without_any_uncertainty_exits_2(capsys):
     status = main(["uncertainty", str(KESTREL), "--samples", "10"])
     assert status == 2
     assert "no uncertainty for this condition" in capsys.readouterr().err
+
+
+def test_streamed_run_equals_the_in_memory_batch(kestrel):
+    """Level probabilities exactly, percentiles to float32 rounding: the streamed run (chunks,
+    level-only grading, float32 figures) against run_batch on the same samples in memory."""
+    from latdyn.studies.batch import FIGURES, condition_set, run_batch
+    from latdyn.studies.uncertainty import (condition_uncertainties, draw_samples, figure_percentiles,
+                                            level_probabilities)
+
+    given = [("Cn_r", "relative", 0.3, "normal"), ("Cl_beta", "relative", 0.3, "uniform")]
+    result = uncertainty(kestrel, given, 40_000, seed=21, condition="cruise")
+    item = result.conditions[0]
+    condition = kestrel.condition("cruise")
+    drawn = draw_samples(kestrel, condition, condition_uncertainties(kestrel, condition, given), 40_000, 21)
+    reference = run_batch(condition_set(kestrel, condition, drawn), result.criteria, chunk=7_000)
+    for (name, mode), grades in reference.levels.items():
+        criteria = next(c for c in result.criteria if c.name == name)
+        assert item.probabilities[(name, mode)] == level_probabilities(criteria, grades.level)
+    for name in FIGURES:
+        expected = figure_percentiles(getattr(reference.figures, name))
+        for key, value in item.percentiles[name].items():
+            if value is None:
+                assert expected[key] is None
+            else:
+                assert value == pytest.approx(expected[key], rel=1e-6, abs=1e-9)
+
+
+def test_level_only_grading_equals_full_grading():
+    """1e5 random cases: the level-only path gives exactly the levels of the full grading."""
+    from latdyn.criteria_sets import load_criteria
+    from latdyn.studies.batch import condition_set, run_batch
+    from latdyn.studies.batch import iterate_batch
+
+    aircraft = load_aircraft(KESTREL)
+    rng = np.random.default_rng(5)
+    n = 100_000
+    cases = condition_set(aircraft, "approach", {
+        "Cn_beta": rng.uniform(-0.05, 0.2, n), "Cl_beta": rng.uniform(-0.3, 0.05, n),
+        "Cn_r": rng.uniform(-0.3, 0.05, n), "Cl_p": rng.uniform(-0.7, 0.05, n)})
+    sets = [load_criteria(name) for name in ("mil-f-8785c", "14cfr23-181", "14cfr25-181")]
+    full = run_batch(cases, sets)
+    parts = list(iterate_batch(cases, sets, levels_only=True))
+    for key, grades in full.levels.items():
+        streamed = np.concatenate([part.levels[key].level for _, _, part in parts])
+        assert np.array_equal(streamed, grades.level), key
+        assert parts[0][2].levels[key].margin is None

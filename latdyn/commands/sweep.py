@@ -9,6 +9,7 @@ input leaves no partial output.
 from __future__ import annotations
 
 import json
+import math
 import sys
 
 __all__ = ["add_arguments", "run"]
@@ -35,20 +36,30 @@ def run(args):
     from latdyn.assessment import NOTICE
     from latdyn.commands import load_study_inputs, notice_csv
     from latdyn.report.render import escape_markdown, render
-    from latdyn.report.tables import sweep_table
-    from latdyn.studies.sweep import parse_range, sweep, sweep_document
+    from latdyn.report.tables import sweep_summary_tables, sweep_table
+    from latdyn.studies.sweep import SUMMARY_POINTS, parse_range, sweep, sweep_document
 
     aircraft, criteria = load_study_inputs(args)
     ranges = [parse_range(text, args.file) for text in args.vary]
     result = sweep(aircraft, ranges, args.condition, criteria, progress=True)
+    points = math.prod(result.shape)
     if args.format == "json":
-        text = json.dumps(sweep_document(result), indent=2, allow_nan=False) + "\n"
+        # a large grid is written compactly (the C encoder; the indented one is ~20x slower)
+        indent = 2 if points <= SUMMARY_POINTS * 25 else None
+        text = json.dumps(sweep_document(result), indent=indent, allow_nan=False) + "\n"
     else:
-        table = render(sweep_table(result), args.format)
         if args.format == "csv":
-            text = table + notice_csv()
+            text = render(sweep_table(result), "csv") + notice_csv()
         else:
             markdown = args.format == "markdown"
+            style = args.format
+            if points > SUMMARY_POINTS:
+                levels, ranges = sweep_summary_tables(result)
+                table = "\n\n".join([
+                    f"{points} grid points per condition: a summary (every point: --format csv or "
+                    "--format json).", render(levels, style), render(ranges, style)])
+            else:
+                table = render(sweep_table(result), style)
             title = f"{aircraft.name}  ({aircraft.file})"
             lines = [f"## {escape_markdown(title)}" if markdown else title, "", table, ""]
             units = {axis.key.text: axis.key.unit for axis in result.axes}

@@ -677,6 +677,47 @@ def sweep_table(result, name="sweep") -> Table:
     return Table(name, "Sweep", tuple(columns), tuple(rows))
 
 
+def sweep_summary_tables(result) -> tuple:
+    """The summary of a large sweep: level shares over the grid and the figures' ranges.
+
+    Returns
+    -------
+    (Table, Table)
+        Shares of the grid points at each level per condition, criteria set
+        and mode (guidance only); smallest and largest value of each mode
+        figure (SI) per condition.
+    """
+    from latdyn.studies.sweep import figure_ranges, level_shares
+
+    words = ("level 1", "level 2", "level 3", "beyond level 3", "pass", "fail", "not assessed")
+    shares = level_shares(result)
+    present = [w for w in words if any(w in item["shares"] for item in shares)]
+    level_columns = [Column("condition", "Condition"), Column("criteria", "Criteria"),
+                     Column("mode", "Mode")]
+    level_columns += [Column(w, f"{w} [% of grid]", digits=1, style="fixed") for w in present]
+    level_rows = []
+    for item in shares:
+        row = {"condition": item["condition"], "criteria": item["criteria"],
+               "mode": MODE_LABELS.get(item["mode"], item["mode"])}
+        row.update({w: (100.0 * item["shares"][w] if w in item["shares"] else None) for w in present})
+        level_rows.append(row)
+    from latdyn.studies.batch import FIGURES
+
+    units = dict(FIGURES)
+    titles = {"phi_to_beta": "|phi/beta|", "roll_root": "roll root", "spiral_root": "spiral root",
+              **{key: title for key, title, _ in _SWEEP_FIGURES}}
+    range_columns = (Column("condition", "Condition"), Column("figure", "Figure"), Column("unit", "Unit"),
+                     Column("minimum", "Smallest"), Column("maximum", "Largest"),
+                     Column("available", "Points with the mode [%]", digits=1, style="fixed"))
+    range_rows = [{"condition": item["condition"], "figure": titles.get(item["figure"], item["figure"]),
+                   "unit": units.get(item["figure"], ""), "minimum": item["minimum"],
+                   "maximum": item["maximum"], "available": 100.0 * item["available"]}
+                  for item in figure_ranges(result)]
+    return (Table("sweep-levels", "Levels over the grid (guidance only)", tuple(level_columns),
+                  tuple(level_rows)),
+            Table("sweep-ranges", "Mode figures over the grid", range_columns, tuple(range_rows)))
+
+
 _SENSITIVITY_FIGURES = {
     "dutch_roll_frequency": "Dutch roll omega_n [rad/s]",
     "dutch_roll_damping": "Dutch roll zeta [-]",

@@ -426,19 +426,19 @@ def mode_figures(modes: ModeArrays) -> Figures:
                    spiral_double, spiral_half, rs_frequency, rs_damping)
 
 
-def _grade_subset(selection, mode, figures, index):
+def _grade_subset(selection, mode, figures, index, levels_only=False):
     from latdyn.levels import grade_mode
 
     take = (lambda a: a) if index is None else (lambda a: a[index])
     if mode == "dutch_roll":
         return grade_mode(selection, damping_ratio=take(figures.dutch_roll_damping),
                           natural_frequency=take(figures.dutch_roll_frequency),
-                          phi_to_beta=take(figures.phi_to_beta))
+                          phi_to_beta=take(figures.phi_to_beta), levels_only=levels_only)
     if mode == "roll_spiral":
         return grade_mode(selection, damping_ratio=take(figures.roll_spiral_damping),
-                          natural_frequency=take(figures.roll_spiral_frequency))
+                          natural_frequency=take(figures.roll_spiral_frequency), levels_only=levels_only)
     root = figures.roll if mode == "roll_subsidence" else figures.spiral
-    return grade_mode(selection, root=take(root))
+    return grade_mode(selection, root=take(root), levels_only=levels_only)
 
 
 def _absent(mode, figures):
@@ -460,6 +460,9 @@ def _scatter(n, pieces, fill=None):
 
     fields = []
     for position, field in enumerate(pieces[0][1]):
+        if field is None:  # level-only grades carry no margins
+            fields.append(None)
+            continue
         out = np.zeros((n,) + field.shape[1:], field.dtype)
         if fill is not None:
             out[...] = fill[position]
@@ -471,7 +474,7 @@ def _scatter(n, pieces, fill=None):
     return Grades(*fields)
 
 
-def _grade_cases(selection, mode, figures):
+def _grade_cases(selection, mode, figures, levels_only=False):
     """Grades of one mode over the batch.
 
     Where most cases do not have the mode (a coupled roll-spiral
@@ -481,14 +484,14 @@ def _grade_cases(selection, mode, figures):
     """
     absent = _absent(mode, figures)
     if absent is None or 2 * np.count_nonzero(absent) < len(absent):
-        return _grade_subset(selection, mode, figures, None)
+        return _grade_subset(selection, mode, figures, None, levels_only)
     present = np.flatnonzero(~absent)
-    without = _grade_subset(selection, mode, figures, np.flatnonzero(absent)[:1])
-    return _scatter(len(absent), [(present, _grade_subset(selection, mode, figures, present))],
+    without = _grade_subset(selection, mode, figures, np.flatnonzero(absent)[:1], levels_only)
+    return _scatter(len(absent), [(present, _grade_subset(selection, mode, figures, present, levels_only))],
                     fill=without)
 
 
-def _grade(criteria, mode, figures, airplane_class, category, flight_phase, altitude):
+def _grade(criteria, mode, figures, airplane_class, category, flight_phase, altitude, levels_only=False):
     """Grades of one criteria set and mode over the batch; None where no band covers it."""
     from latdyn.levels import select_bands
 
@@ -500,7 +503,7 @@ def _grade(criteria, mode, figures, airplane_class, category, flight_phase, alti
         selection = select_bands(criteria, mode, airplane_class, category, flight_phase, probe)
         if selection.undefined:
             return None
-        grades = _grade_cases(selection, mode, figures)
+        grades = _grade_cases(selection, mode, figures, levels_only)
     else:
         bins = np.searchsorted(np.asarray(breaks), altitude, side="right")
         pieces = []
@@ -509,7 +512,7 @@ def _grade(criteria, mode, figures, airplane_class, category, flight_phase, alti
             selection = select_bands(criteria, mode, airplane_class, category, flight_phase,
                                      float(altitude[index[0]]))
             if not selection.undefined:
-                pieces.append((index, _grade_subset(selection, mode, figures, index)))
+                pieces.append((index, _grade_subset(selection, mode, figures, index, levels_only)))
         if not pieces:
             return None
         grades = _scatter(n, pieces)
@@ -525,7 +528,7 @@ def _grade(criteria, mode, figures, airplane_class, category, flight_phase, alti
 
 
 def assess_figures(figures: Figures, criteria_sets, airplane_class, category, flight_phase=None,
-                   altitude=None) -> dict:
+                   altitude=None, levels_only=False) -> dict:
     """Levels of every mode of a batch against criteria sets.
 
     Parameters
@@ -535,6 +538,8 @@ def assess_figures(figures: Figures, criteria_sets, airplane_class, category, fl
     airplane_class, category, flight_phase : str or None
     altitude : float or array or None
         Geopotential altitude of each case [m].
+    levels_only : bool
+        Grade the levels only (no margins: the Grades' margin fields are None).
 
     Returns
     -------
@@ -548,7 +553,7 @@ def assess_figures(figures: Figures, criteria_sets, airplane_class, category, fl
     for criteria in criteria_sets:
         for mode in criteria.mode_names:
             grades = _grade(criteria, mode, figures, airplane_class, category, flight_phase,
-                            altitude)
+                            altitude, levels_only)
             if grades is not None:
                 out[(criteria.name, mode)] = grades
     return out
@@ -576,7 +581,8 @@ def _concatenate(parts):
     """Join chunk results: a Figures dataclass or a Grades named tuple, field by field."""
     first = parts[0]
     if isinstance(first, tuple):
-        return type(first)(*[np.concatenate(column) for column in zip(*parts)])
+        return type(first)(*[None if column[0] is None else np.concatenate(column)
+                             for column in zip(*parts)])
     names = [f.name for f in fields(first)]
     return type(first)(*[np.concatenate([getattr(p, name) for p in parts]) for name in names])
 
@@ -587,7 +593,7 @@ def _load_sets(criteria_sets):
     return tuple(c if isinstance(c, CriteriaSet) else load_criteria(c) for c in criteria_sets)
 
 
-def _chunk_result(cases, criteria_sets, phase, path=False):
+def _chunk_result(cases, criteria_sets, phase, path=False, levels_only=False):
     if takes_augmented_path(cases):
         figures = mode_figures(_augmented_modes(cases))
     elif path:
@@ -600,12 +606,12 @@ def _chunk_result(cases, criteria_sets, phase, path=False):
     flight = cases.condition.flight
     altitude = cases.overrides.get("altitude", flight.altitude)
     levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,
-                            phase, altitude) if criteria_sets else {}
+                            phase, altitude, levels_only) if criteria_sets else {}
     return BatchResult(figures, levels)
 
 
 def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,
-                  progress=False):
+                  progress=False, levels_only=False):
     """Yield (start, stop, BatchResult) chunk by chunk (bounded memory for any N).
 
     Parameters
@@ -617,6 +623,8 @@ def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHU
         Cases per chunk [-].
     progress : bool
         Show a tqdm progress bar on stderr.
+    levels_only : bool
+        Grade levels only (see :func:`assess_figures`).
     """
     sets = _load_sets(criteria_sets)
     starts = range(0, cases.size, chunk)
@@ -627,7 +635,8 @@ def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHU
                       leave=False, disable=None)
     for start in starts:
         stop = min(start + chunk, cases.size)
-        yield start, stop, _chunk_result(cases.chunk(start, stop), sets, flight_phase)
+        yield start, stop, _chunk_result(cases.chunk(start, stop), sets, flight_phase,
+                                         levels_only=levels_only)
 
 
 def run_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,

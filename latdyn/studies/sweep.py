@@ -4,10 +4,11 @@ One or two parameters vary over a grid (``KEY=START:STOP:COUNT``); the
 cases run through the batched engine (:mod:`latdyn.studies.batch`).  A level
 boundary crossing is found by root-finding on the continuous level margin
 (:attr:`latdyn.levels.Grades.level_margin`) between neighbouring grid
-points whose margins have opposite signs: Brent's method
-(``scipy.optimize.brentq``; R. P. Brent, *Algorithms for Minimization
-without Derivatives*, Prentice-Hall, 1973, chapter 4) on the margin of the
-full pipeline at one case, so the value is not read off the grid.
+points whose margins have opposite signs, so the value is not read off the
+grid: every bracket of the sweep is refined at once by the Illinois
+variant of regula falsi (Dowell and Jarratt, BIT 11, 1971) on the margin of
+the full pipeline, each iteration one call of the batched engine for all
+brackets.
 
 Levels are guidance only (:data:`latdyn.assessment.NOTICE`).
 """
@@ -25,7 +26,7 @@ from latdyn.studies.keys import StudyKey, file_units, resolve_key
 
 __all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
            "find_crossings", "boundary_name", "MAX_POINTS", "level_text",
-           "sweep_document"]
+           "sweep_document", "SUMMARY_POINTS", "level_shares", "figure_ranges"]
 
 #: Largest grid (points per condition) a sweep accepts [-].
 MAX_POINTS = 1_000_000
@@ -199,74 +200,163 @@ def _overrides(axes, columns):
             for axis, column in zip(axes, columns)}
 
 
-def _margin_function(aircraft, condition, axes, moving, fixed, criteria, mode, grade_index):
-    def margin(x):
-        columns = [[x] if k == moving else [fixed[k]] for k in range(len(axes))]
-        cases = condition_set(aircraft, condition, _overrides(axes, columns))
-        grades = run_batch(cases, [criteria]).levels.get((criteria.name, mode))
-        return float(grades.level_margin[0, grade_index]) if grades is not None else math.nan
-    return margin
+def _margins_at(aircraft, condition, axes, moving, fixed, criteria_sets, wanted):
+    """Level margins at parameter values, all at once through the batched engine.
 
-
-def _crossings_on_line(values, margins, margin_at):
-    """Roots of the margin between neighbours of opposite sign (Brent's method)."""
-    from scipy.optimize import brentq
-
-    out = []
-    for i in range(len(values) - 1):
-        a, b = margins[i], margins[i + 1]
-        if not (np.isfinite(a) and np.isfinite(b)) or a * b > 0 or (a == 0 and b == 0):
-            continue
-        if a == 0:
-            if i > 0 and np.isfinite(margins[i - 1]) and margins[i - 1] * b < 0:
-                out.append((values[i], b > 0))
-            continue
-        if b == 0:
-            out.append((values[i + 1], a < 0))
-            continue
-        x0, x1 = values[i], values[i + 1]
-        try:
-            fa, fb = margin_at(x0), margin_at(x1)
-            if not (np.isfinite(fa) and np.isfinite(fb)) or fa * fb > 0:
-                continue
-            root = brentq(margin_at, x0, x1, xtol=1e-12 * max(abs(x0), abs(x1), 1e-300),
-                          rtol=4 * np.finfo(float).eps, maxiter=200)
-        except (ValueError, RuntimeError):
-            continue
-        # inside the band on the side where the margin is positive
-        out.append((root, (b > 0) == (x1 > x0)))
+    ``moving`` (M,) values of the first parameter, ``fixed`` (M,) values of
+    the second (two-parameter sweeps; ignored otherwise) [typed units];
+    ``wanted`` (M,) of (criteria name, mode, grade index).  Returns (M,)
+    margins (NaN where the mode is not graded at that value).
+    """
+    columns = [moving] + ([fixed] if len(axes) > 1 else [])
+    cases = condition_set(aircraft, condition, _overrides(axes, columns))
+    levels = run_batch(cases, criteria_sets).levels
+    out = np.full(len(moving), np.nan)
+    for index, (name, mode, grade_index) in enumerate(wanted):
+        grades = levels.get((name, mode))
+        if grades is not None:
+            out[index] = grades.level_margin[index, grade_index]
     return out
+
+
+def _illinois(function, a, b, fa, fb, tolerance, iterations=200):
+    """Roots of ``function`` in the brackets [a, b] (arrays), all refined together.
+
+    The Illinois variant of regula falsi (M. Dowell and P. Jarratt, "A
+    modified regula falsi method for computing the root of an equation",
+    BIT 11, 1971): the new point replaces b; when its sign equals b's the
+    retained end's value is halved, which keeps convergence superlinear.  A
+    point that falls outside its bracket is replaced by the midpoint
+    (safeguard).  Stops per bracket when the bracket is shorter than
+    ``tolerance`` or the margin is exactly zero; ``function`` is called with
+    the indices of the brackets still running and their points.
+
+    Returns
+    -------
+    root : ndarray
+        NaN where the function became non-finite.
+    """
+    a, b, fa, fb = (np.array(v, dtype=float) for v in (a, b, fa, fb))
+    root = np.full(a.shape, np.nan)
+    active = np.ones(a.shape, bool)
+    for _ in range(iterations):
+        index = np.flatnonzero(active)
+        if not index.size:
+            break
+        ai, bi, fai, fbi = a[index], b[index], fa[index], fb[index]
+        with np.errstate(invalid="ignore", divide="ignore"):
+            c = bi - fbi * (bi - ai) / (fbi - fai)
+        low, high = np.minimum(ai, bi), np.maximum(ai, bi)
+        outside = ~np.isfinite(c) | (c <= low) | (c >= high)
+        c = np.where(outside, 0.5 * (ai + bi), c)
+        fc = function(index, c)
+        failed = ~np.isfinite(fc)
+        exact = fc == 0.0
+        flip = fc * fbi < 0.0
+        # the bracket becomes [b, c] where the sign changed, [a, c] (a's value halved) where not
+        new_a = np.where(flip, bi, ai)
+        new_fa = np.where(flip, fbi, 0.5 * fai)
+        a[index], fa[index], b[index], fb[index] = new_a, new_fa, c, fc
+        done = exact | (np.abs(c - new_a) <= tolerance[index])
+        root[index[done & ~failed]] = c[done & ~failed]
+        active[index[done | failed]] = False
+    # brackets still running after every iteration: their last point
+    root[active] = b[active]
+    return root
+
+
+def _grid_brackets(values, margins):
+    """Sign changes of the grid margins: (crossings at grid points, brackets between them).
+
+    Returns ``points`` [(value, above)] and ``brackets`` [(i, above)] where
+    ``above`` says whether the band lies on the side of larger parameter
+    values.  A margin of exactly zero at a grid point is a crossing there
+    when the margins on either side have opposite signs.
+    """
+    values = np.asarray(values)
+    m = np.asarray(margins, dtype=float)
+    a, b = m[:-1], m[1:]
+    with np.errstate(invalid="ignore"):
+        usable = np.isfinite(a) & np.isfinite(b) & (a * b <= 0) & ~((a == 0) & (b == 0))
+    if not usable.any():
+        return [], []
+    increasing = values[1:] > values[:-1]
+    points, brackets = [], []
+    for i in np.flatnonzero(usable):
+        if a[i] == 0:
+            if i > 0 and np.isfinite(m[i - 1]) and m[i - 1] * b[i] < 0:
+                points.append((values[i], bool(b[i] > 0)))
+        elif b[i] == 0:
+            points.append((values[i + 1], bool(a[i] < 0)))
+        else:
+            brackets.append((int(i), bool((b[i] > 0) == increasing[i])))
+    return points, brackets
 
 
 def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
     """Every level-boundary crossing along the first parameter of a sweep grid.
 
     For two parameters, along the first one on each grid line of the second.
+    Sign changes of the grid's margins bracket the crossings; all brackets
+    (every criteria set, mode, boundary and grid line) are then refined
+    together by :func:`_illinois` on the margin of the full pipeline,
+    evaluated for every bracket at once through the batched engine, to the
+    tolerance of Brent's method used before (1e-12 of the parameter).
 
     Returns
     -------
     tuple of Crossing
     """
     shape = tuple(len(a.values) for a in axes)
-    out = []
+    lines = [()] if len(axes) == 1 else [(j,) for j in range(shape[1])]
+    found = []  # (order, Crossing)
+    pending = []  # (order, criteria, mode, grade index, line, x0, x1, above)
+    order = 0
     for criteria in criteria_sets:
         for mode in criteria.mode_names:
             grades = result.levels.get((criteria.name, mode))
             if grades is None:
                 continue
             margins = grades.level_margin.reshape(shape + grades.level_margin.shape[-1:])
-            lines = [()] if len(axes) == 1 else [(j,) for j in range(shape[1])]
             for line in lines:
-                fixed = {1: float(axes[1].values[line[0]])} if line else {}
-                at = {axes[1].key.text: fixed[1]} if line else None
                 for g in range(margins.shape[-1]):
                     series = margins[(slice(None),) + line + (g,)]
-                    function = _margin_function(aircraft, condition, axes, 0, fixed, criteria,
-                                                mode, g)
-                    for value, above in _crossings_on_line(axes[0].values, series, function):
-                        out.append(Crossing(condition.name, criteria.name, mode,
-                                            boundary_name(criteria, g), axes[0].key.text,
-                                            float(value), "above" if above else "below", at))
+                    points, brackets = _grid_brackets(axes[0].values, series)
+                    for value, above in points:
+                        found.append((order, criteria, mode, g, line, float(value), above))
+                        order += 1
+                    for i, above in brackets:
+                        pending.append((order, criteria, mode, g, line, float(axes[0].values[i]),
+                                        float(axes[0].values[i + 1]), above))
+                        order += 1
+    if pending:
+        names = criteria_sets
+        wanted = [(item[1].name, item[2], item[3]) for item in pending]
+        fixed = np.array([float(axes[1].values[item[4][0]]) if item[4] else 0.0 for item in pending])
+        x0 = np.array([item[5] for item in pending])
+        x1 = np.array([item[6] for item in pending])
+        both = _margins_at(aircraft, condition, axes, np.concatenate([x0, x1]),
+                           np.concatenate([fixed, fixed]), names, wanted + wanted)
+        f0, f1 = both[:len(pending)], both[len(pending):]
+        valid = np.isfinite(f0) & np.isfinite(f1) & (f0 * f1 <= 0)
+        keep = np.flatnonzero(valid)
+        tolerance = 1e-12 * np.maximum(np.maximum(np.abs(x0), np.abs(x1)), 1e-300)
+
+        def margin(index, points):
+            chosen = keep[index]
+            return _margins_at(aircraft, condition, axes, points, fixed[chosen], names,
+                               [wanted[k] for k in chosen])
+
+        roots = _illinois(margin, x0[keep], x1[keep], f0[keep], f1[keep], tolerance[keep])
+        for k, root in zip(keep, roots):
+            if np.isfinite(root):
+                item = pending[k]
+                found.append((item[0], item[1], item[2], item[3], item[4], float(root), item[7]))
+    out = []
+    for _, criteria, mode, g, line, value, above in sorted(found, key=lambda entry: entry[0]):
+        at = {axes[1].key.text: float(axes[1].values[line[0]])} if line else None
+        out.append(Crossing(condition.name, criteria.name, mode, boundary_name(criteria, g),
+                            axes[0].key.text, value, "above" if above else "below", at))
     return tuple(out)
 
 
@@ -324,6 +414,53 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
         items.append(ConditionSweep(item, result, crossings))
         notes += sweep_notes(aircraft, item, [axis.key.name for axis in axes])
     return SweepResult(aircraft, axes, sets, tuple(items), tuple(notes))
+
+
+#: Grids larger than this (points per condition) print a summary, not every point, as a table.
+SUMMARY_POINTS = 400
+
+
+def level_shares(result: SweepResult) -> list:
+    """Share of the grid points at each level, per condition, criteria set and mode.
+
+    Returns
+    -------
+    list of dict
+        ``{"condition", "criteria", "mode", "shares": {word: fraction}}`` with the
+        words of :func:`latdyn.studies.uncertainty.level_probabilities`.
+    """
+    from latdyn.studies.uncertainty import level_probabilities
+
+    out = []
+    for item in result.conditions:
+        for (name, mode), grades in item.result.levels.items():
+            criteria = next(c for c in result.criteria if c.name == name)
+            out.append({"condition": item.condition.name, "criteria": name, "mode": mode,
+                        "shares": level_probabilities(criteria, grades.level)})
+    return out
+
+
+def figure_ranges(result: SweepResult) -> list:
+    """Smallest and largest value of each mode figure over the grid, per condition (SI).
+
+    Returns
+    -------
+    list of dict
+        ``{"condition", "figure", "minimum", "maximum", "available"}`` for the
+        figures present somewhere (``available``: share of points that have it).
+    """
+    from latdyn.studies.batch import FIGURES
+
+    out = []
+    for item in result.conditions:
+        for name in FIGURES:
+            values = np.asarray(getattr(item.result.figures, name), dtype=float)
+            finite = values[np.isfinite(values)]
+            if finite.size:
+                out.append({"condition": item.condition.name, "figure": name,
+                            "minimum": float(finite.min()), "maximum": float(finite.max()),
+                            "available": finite.size / values.size})
+    return out
 
 
 # ------------------------------------------------------------------ outputs

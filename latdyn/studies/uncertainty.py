@@ -24,13 +24,14 @@ import numpy as np
 
 from latdyn.aircraft import DISTRIBUTIONS, Uncertainty
 from latdyn.errors import InputError
-from latdyn.studies.batch import FIGURES, condition_set, parameter_names, run_batch
+from latdyn.studies.batch import FIGURES, condition_set, iterate_batch, parameter_names
 from latdyn.studies.keys import file_units, resolve_key
 
 __all__ = ["parse_uncertainty", "condition_uncertainties", "draw_samples", "ConditionUncertainty",
            "UncertaintyResult", "uncertainty", "level_probabilities", "standard_errors",
            "figure_percentiles",
-           "PERCENTILES", "uncertainty_document", "MAX_SAMPLES"]
+           "PERCENTILES", "uncertainty_document", "MAX_SAMPLES", "SampleFigures", "stream_samples",
+           "probabilities_from_counts", "LEVEL_SLOTS"]
 
 #: Percentiles reported for every figure [%].
 PERCENTILES = (5.0, 50.0, 95.0)
@@ -162,13 +163,25 @@ def level_probabilities(criteria, levels) -> dict:
     "pass", "fail" (pass/fail sets), and "not assessed".
     """
     levels = np.asarray(levels)
-    n = max(levels.size, 1)
+    return probabilities_from_counts(criteria, np.bincount(levels.ravel().astype(np.int64),
+                                                           minlength=LEVEL_SLOTS))
+
+
+#: Length of a level count (:func:`probabilities_from_counts`): levels 0 (not assessed) to 4.
+LEVEL_SLOTS = 5
+
+
+def probabilities_from_counts(criteria, counts) -> dict:
+    """:func:`level_probabilities` from the number of samples at each level (index = level)."""
+    counts = np.asarray(counts)
+    n = max(int(counts.sum()), 1)
     if criteria.assessment == "pass_fail":
         names = {1: "pass", 2: "fail"}
     else:
         names = {1: "level 1", 2: "level 2", 3: "level 3", 4: "beyond level 3"}
-    out = {word: float(np.count_nonzero(levels == value)) / n for value, word in names.items()}
-    out["not assessed"] = float(np.count_nonzero(~np.isin(levels, list(names)))) / n
+    at = lambda value: int(counts[value]) if value < counts.size else 0  # noqa: E731
+    out = {word: at(value) / n for value, word in names.items()}
+    out["not assessed"] = (int(counts.sum()) - sum(at(value) for value in names)) / n
     return out
 
 
@@ -189,18 +202,77 @@ def standard_errors(probabilities, samples) -> dict:
 
 
 def figure_percentiles(values) -> dict:
-    """Percentiles (:data:`PERCENTILES`), mean and the fraction of samples where the figure exists."""
-    values = np.asarray(values, dtype=float)
+    """Percentiles (:data:`PERCENTILES`), mean and the fraction of samples where the figure exists.
+
+    ``values`` may be float32 (as a streamed run keeps them); the statistics
+    are computed in float64.
+    """
+    values = np.asarray(values)
     finite = values[np.isfinite(values)]
     out = {"available": float(finite.size) / max(values.size, 1)}
     if finite.size:
-        for p, v in zip(PERCENTILES, np.percentile(finite, PERCENTILES)):
-            out[f"p{p:g}"] = float(v)
-        out["mean"] = float(finite.mean())
+        # numpy's default ("linear") percentile: interpolate between the order statistics at
+        # floor and ceil of p/100 (n - 1); those alone are selected (np.partition), in the
+        # values' own precision, and interpolated in float64
+        position = np.asarray(PERCENTILES) / 100.0 * (finite.size - 1)
+        lower = np.floor(position).astype(int)
+        upper = np.minimum(lower + 1, finite.size - 1)
+        selected = np.partition(finite, np.unique(np.concatenate([lower, upper])))
+        low, high = selected[lower].astype(float), selected[upper].astype(float)
+        for p, a, b, w in zip(PERCENTILES, low, high, position - lower):
+            out[f"p{p:g}"] = float(a + (b - a) * w) if b != a else float(a)
+        out["mean"] = float(finite.mean(dtype=float))
     else:
         out.update({f"p{p:g}": None for p in PERCENTILES})
         out["mean"] = None
     return out
+
+
+@dataclass(frozen=True)
+class SampleFigures:
+    """The mode figures of every sample, kept as float32 (:data:`FIGURES`, NaN where absent).
+
+    What a streamed Monte Carlo run keeps of each sample: 40 bytes a sample
+    instead of the batch engine's full :class:`~latdyn.studies.batch.Figures`.
+    """
+
+    dutch_roll_frequency: np.ndarray
+    dutch_roll_damping: np.ndarray
+    phi_to_beta: np.ndarray
+    roll_root: np.ndarray
+    roll_time_constant: np.ndarray
+    spiral_root: np.ndarray
+    spiral_time_to_double: np.ndarray
+    spiral_time_to_half: np.ndarray
+    roll_spiral_frequency: np.ndarray
+    roll_spiral_damping: np.ndarray
+
+    def __len__(self):
+        return len(self.dutch_roll_frequency)
+
+
+def stream_samples(cases, criteria_sets, progress=False):
+    """Level counts and float32 figures of a case set, chunk by chunk (bounded memory).
+
+    Returns
+    -------
+    counts : dict
+        (criteria name, mode) -> samples at each level (index = level, 0 not assessed).
+    figures : SampleFigures
+    """
+    counts = {}
+    kept = {name: np.empty(cases.size, np.float32) for name in FIGURES}
+    for start, stop, part in iterate_batch(cases, criteria_sets, progress=progress, levels_only=True):
+        for key, grades in part.levels.items():
+            chunk = np.bincount(grades.level.astype(np.int64), minlength=LEVEL_SLOTS)
+            counts[key] = counts.get(key, 0) + chunk
+        for name in FIGURES:
+            kept[name][start:stop] = getattr(part.figures, name)
+    for key in counts:  # a mode graded in some chunks only: the others were not assessed
+        missing = cases.size - int(counts[key].sum())
+        if missing:
+            counts[key][0] += missing
+    return counts, SampleFigures(**kept)
 
 
 @dataclass(frozen=True)
@@ -211,8 +283,8 @@ class ConditionUncertainty:
     ----------
     condition : latdyn.aircraft.Condition
     uncertainties : tuple of Uncertainty
-    figures : latdyn.studies.batch.Figures
-        Every sample's figures.
+    figures : SampleFigures
+        Every sample's figures (float32).
     probabilities : dict
         (criteria name, mode) -> :func:`level_probabilities`.
     percentiles : dict
@@ -309,14 +381,13 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
                              "an [uncertainty.KEY] table in the file or --vary KEY=±AMOUNT",
                              "no uncertainty for this condition's derivatives", item.name)
         drawn = draw_samples(aircraft, item, specs, samples, seed)
-        result = run_batch(condition_set(aircraft, item, drawn), sets, progress=progress)
+        counts, figures = stream_samples(condition_set(aircraft, item, drawn), sets, progress)
         probabilities = {}
-        for (name, mode), grades in result.levels.items():
+        for (name, mode), count in counts.items():
             criteria = next(c for c in sets if c.name == name)
-            probabilities[(name, mode)] = level_probabilities(criteria, grades.level)
-        percentiles = {name: figure_percentiles(getattr(result.figures, name))
-                       for name in FIGURES}
-        items.append(ConditionUncertainty(item, specs, result.figures, probabilities, percentiles))
+            probabilities[(name, mode)] = probabilities_from_counts(criteria, count)
+        percentiles = {name: figure_percentiles(getattr(figures, name)) for name in FIGURES}
+        items.append(ConditionUncertainty(item, specs, figures, probabilities, percentiles))
     return UncertaintyResult(aircraft, samples, seed, sets, tuple(items))
 
 
