@@ -31,6 +31,9 @@ test: $(STAMP)
 
 bench: $(STAMP)
 	$(BIN)/python benchmarks/startup.py
+	$(BIN)/python benchmarks/engine.py
+	$(BIN)/python benchmarks/responses.py
+	$(BIN)/python benchmarks/studies.py
 
 clean:
 	rm -rf $(VENV) reports/*/ .pytest_cache

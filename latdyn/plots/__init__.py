@@ -36,6 +36,10 @@ def save_figure(figure, path, dpi=150):
 def save_both(figure, path, dpi=150):
     """Write a figure to ``path`` and, when it ends in .png or .svg, to the other format too.
 
+    The figure is laid out once: its layout engine runs for the first file,
+    then the layout is kept (the engine set to "none") for the second, so
+    both files show the same layout at the cost of one.
+
     Returns
     -------
     list of str
@@ -46,6 +50,8 @@ def save_both(figure, path, dpi=150):
     targets = [path]
     if suffix.lower() in (".png", ".svg"):
         targets.append(base + (".svg" if suffix.lower() == ".png" else ".png"))
-    for target in targets:
+    for number, target in enumerate(targets):
         save_figure(figure, target, dpi)
+        if number == 0 and len(targets) > 1 and figure.get_layout_engine() is not None:
+            figure.set_layout_engine("none")
     return targets

@@ -6,7 +6,9 @@ which import matplotlib inside their functions).
 
 from __future__ import annotations
 
-__all__ = ["PLOTS", "draw"]
+import os
+
+__all__ = ["PLOTS", "draw", "draw_all"]
 
 
 def _s_plane(result):
@@ -41,3 +43,66 @@ PLOTS = {"s_plane": _s_plane, "roll_spiral": _roll_spiral, "dutch_roll": _dutch_
 def draw(spec):
     """The matplotlib Figure of a :class:`~latdyn.report.blocks.Figure` specification."""
     return PLOTS[spec.kind](**spec.arguments)
+
+
+#: Fewest figures for which drawing is spread over worker processes.
+PARALLEL_FIGURES = 4
+
+_PENDING = ()  # the specifications the forked workers draw (inherited, not pickled)
+
+
+def _draw_one(index, folder):
+    from latdyn.plots import save_both
+
+    spec = _PENDING[index]
+    save_both(draw(spec), os.path.join(folder, spec.name + ".png"))
+    return index
+
+
+def draw_all(specs, folder, step=None, workers=None):
+    """Draw and save (PNG and SVG) every figure specification into ``folder``.
+
+    With several cores and at least :data:`PARALLEL_FIGURES` figures the
+    figures are drawn in worker processes (forked, so the specifications are
+    inherited, not pickled; where fork is not available, one after another).
+    The files are the same either way.
+
+    Parameters
+    ----------
+    specs : sequence of latdyn.report.blocks.Figure
+    folder : str
+        Existing folder for ``<name>.png`` and ``<name>.svg``.
+    step : callable, optional
+        Called once per figure written (progress).
+    workers : int, optional
+        Worker processes (default: the usable cores, at most 4; 1 draws here).
+    """
+    global _PENDING
+    import multiprocessing
+
+    specs = tuple(specs)
+    if workers is None:
+        cores = len(os.sched_getaffinity(0)) if hasattr(os, "sched_getaffinity") else (os.cpu_count() or 1)
+        workers = min(cores, 4)
+    methods = multiprocessing.get_all_start_methods()
+    if workers <= 1 or len(specs) < PARALLEL_FIGURES or "fork" not in methods:
+        for index in range(len(specs)):
+            _PENDING = specs
+            _draw_one(index, folder)
+            if step is not None:
+                step()
+        _PENDING = ()
+        return
+    from concurrent.futures import ProcessPoolExecutor, as_completed
+
+    _PENDING = specs
+    try:
+        context = multiprocessing.get_context("fork")
+        with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+            futures = [pool.submit(_draw_one, index, folder) for index in range(len(specs))]
+            for future in as_completed(futures):
+                future.result()
+                if step is not None:
+                    step()
+    finally:
+        _PENDING = ()

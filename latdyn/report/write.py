@@ -42,15 +42,11 @@ def write_files(report, folder, step=None) -> None:
     Files: ``figures/<name>.png`` and ``.svg``, ``tables/<name>.csv``,
     ``report.md``, ``index.html`` and ``results.json``.
     """
-    from latdyn.plots import save_both
-    from latdyn.report.figures import draw
+    from latdyn.report.figures import draw_all
 
     figures = os.path.join(folder, "figures")
     os.makedirs(figures, exist_ok=True)
-    for spec in report.figures:
-        save_both(draw(spec), os.path.join(figures, spec.name + ".png"))
-        if step is not None:
-            step()
+    draw_all(report.figures, figures, step)
     tables = os.path.join(folder, "tables")
     os.makedirs(tables, exist_ok=True)
     for table in report.tables:
