@@ -33,6 +33,10 @@ __all__ = [
     "InitialDisturbance",
     "InputTable",
     "InputDefaults",
+    "RunSettings",
+    "MAX_RUN_SAMPLES",
+    "run_settings",
+    "run_inputs",
     "time_grid",
     "step",
     "pulse",
@@ -741,3 +745,121 @@ def default_inputs(modes, cycles=5, amplitude=math.radians(5.0)) -> InputDefault
     spiral_step = min(spiral_step, step_size * 10)
     return InputDefaults(round(half_period, 10), start, duration, step_size, spiral_duration,
                          spiral_step, amplitude, period)
+
+
+#: Most samples a response run may have (memory: 2 million samples of 4 states and 2 inputs).
+MAX_RUN_SAMPLES = 2_000_000
+
+
+@dataclass(frozen=True)
+class RunSettings:
+    """The inputs and time grid of one response run (every value chosen).
+
+    Attributes
+    ----------
+    amplitude : float
+        Control deflection [rad].
+    half_period : float
+        Doublet half-period and pulse width [s].
+    start : float
+        Start of the input [s].
+    duration : float
+        Run length [s].
+    step : float
+        Time step [s].
+    """
+
+    amplitude: float
+    half_period: float
+    start: float
+    duration: float
+    step: float
+
+    def as_dict(self) -> dict:
+        return {"amplitude": self.amplitude, "half_period": self.half_period, "start": self.start,
+                "duration": self.duration, "step": self.step}
+
+
+def run_settings(defaults, tables=(), amplitude=None, half_period=None, start=None, duration=None,
+                 step=None, spiral=False, source="command line", options=None) -> RunSettings:
+    """The settings of a response run: what is given, the rest from ``defaults``.
+
+    Policy (our choice): the sized defaults of :func:`default_inputs` (their
+    long spiral view with ``spiral``); a run with input tables lasts at least
+    to the last table time unless a duration is given; at most
+    :data:`MAX_RUN_SAMPLES` samples; the step smaller than the duration.
+
+    Parameters
+    ----------
+    defaults : InputDefaults
+    tables : sequence of InputTable
+        Input files sampled on the grid.
+    amplitude, half_period, start, duration, step : float, optional
+        Given values [rad, s]; None for the default.
+    spiral : bool
+        The long view for the spiral mode.
+    source : str
+        What the given values came from (named in a message).
+    options : dict, optional
+        Name of each setting where it was given (``{"step": "--dt"}``), for messages.
+
+    Raises
+    ------
+    InputError
+        A step not smaller than the duration, or a run of too many samples.
+
+    Examples
+    --------
+    >>> from latdyn.inputs import InputDefaults
+    >>> d = InputDefaults(1.5, 1.0, 25.0, 0.025, 120.0, 0.05, 0.0873)
+    >>> run_settings(d, step=0.1).as_dict()["step"], run_settings(d, spiral=True).duration
+    (0.1, 120.0)
+    """
+    options = {"duration": "duration", "step": "step", **(options or {})}
+    d = defaults
+    chosen_amplitude = d.amplitude if amplitude is None else amplitude
+    chosen_half = half_period or d.half_period
+    chosen_start = d.start if start is None else start
+    run, dt = (d.spiral_duration, d.spiral_step) if spiral else (d.duration, d.step)
+    if tables and duration is None:
+        run = max(run, max(float(t.time[-1]) for t in tables))
+    run = duration or run
+    dt = step or dt
+    if dt >= run:
+        raise InputError(source, options["step"], f"a step smaller than the duration ({run:g} s)", f"{dt:g} s")
+    if run / dt > MAX_RUN_SAMPLES:
+        longest = max(tables, key=lambda t: t.time[-1], default=None)
+        if duration is None and longest is not None and run == longest.time[-1]:
+            raise InputError(longest.file, 'column "time"', f"a last time that keeps the run within "
+                             f"{MAX_RUN_SAMPLES} samples at a step of {dt:g} s (or set "
+                             f"{options['duration']}, {options['step']})", f"{run:g} s")
+        raise InputError(source, options["step"], f"at most {MAX_RUN_SAMPLES} samples over {run:g} s",
+                         f"{run / dt:.3g} samples with a step of {dt:g} s")
+    return RunSettings(chosen_amplitude, chosen_half, chosen_start, run, dt)
+
+
+def run_inputs(kinds, tables, settings) -> InputHistory:
+    """The input history of a run: the named inputs and the input tables, on one grid.
+
+    The grid (:func:`time_grid`) has a sample at every switch of the named
+    inputs and at every time of the tables, so held inputs switch exactly.
+
+    Parameters
+    ----------
+    kinds : sequence of str
+        Input kinds of :data:`INPUT_KINDS` (others are ignored: the tables).
+    tables : sequence of InputTable
+    settings : RunSettings
+    """
+    s = settings
+    breakpoints = []
+    for kind in kinds:
+        if kind in INPUT_KINDS:
+            breakpoints.extend(switch_times(kind, s.half_period, s.start))
+    for table in tables:
+        breakpoints.extend(table.time.tolist())
+    time = time_grid(s.duration, s.step, breakpoints)
+    histories = [make_input(kind, time, s.amplitude, s.half_period, s.start) for kind in kinds
+                 if kind in INPUT_KINDS]
+    histories += [sample_table(table, time) for table in tables]
+    return combine(*histories)

@@ -8,7 +8,8 @@ import pytest
 from latdyn.errors import InputError
 from latdyn.inputs import (INPUT_KINDS, InitialDisturbance, InputTable, combine, default_inputs,
                            doublet, input_from_table, make_input, multistep, pulse, read_input_csv,
-                           sample_table, sequence_3211, step, switch_times, time_grid)
+                           sample_table, sequence_3211, step, switch_times, time_grid, InputDefaults,
+                           run_inputs, run_settings)
 from latdyn.modes import find_modes
 from response_cases import LIGHTLY_DAMPED, demo_models, published_model
 
@@ -197,3 +198,49 @@ def test_table_sampling_holds_each_row_and_zero_before_the_first():
     resampled = input_from_table(table, duration=3.0, step_size=0.4)
     assert 1.0 in resampled.time and 2.0 in resampled.time
     assert resampled.end_time == 2.0
+
+
+# ------------------------------------------------------------------ the run's settings (our policy)
+
+def _table(last_time):
+    time = np.array([0.0, 1.0, last_time])
+    return InputTable(time, np.zeros(3), np.zeros(3), "inputs.csv")
+
+
+DEFAULTS = InputDefaults(1.5, 1.0, 25.0, 0.025, 120.0, 0.05, math.radians(5.0))
+
+
+@pytest.mark.parametrize("given,tables,expected", [
+    ({}, (), (math.radians(5.0), 1.5, 1.0, 25.0, 0.025)),
+    ({"spiral": True}, (), (math.radians(5.0), 1.5, 1.0, 120.0, 0.05)),
+    ({}, (40.0,), (math.radians(5.0), 1.5, 1.0, 40.0, 0.025)),          # runs to the table's end
+    ({"duration": 10.0}, (40.0,), (math.radians(5.0), 1.5, 1.0, 10.0, 0.025)),
+    ({"amplitude": 0.1, "half_period": 2.0, "start": 0.0, "step": 0.01}, (),
+     (0.1, 2.0, 0.0, 25.0, 0.01)),
+], ids=["defaults", "spiral", "table-longer", "duration-given", "all-given"])
+def test_run_settings_take_what_is_given_and_the_sized_defaults_otherwise(given, tables, expected):
+    settings = run_settings(DEFAULTS, [_table(t) for t in tables], **given)
+    assert (settings.amplitude, settings.half_period, settings.start, settings.duration,
+            settings.step) == pytest.approx(expected)
+
+
+OPTIONS = {"step": "--dt", "duration": "--duration"}
+
+
+@pytest.mark.parametrize("given,tables,options,message", [
+    ({"step": 30.0}, (), None, r"command line: step: expected a step smaller than the duration \(25 s\)"),
+    ({"step": 1e-6}, (), OPTIONS, r"--dt: expected at most 2000000 samples over 25 s"),
+    ({"step": 1e-4}, (400.0,), OPTIONS, r'inputs.csv: column "time": expected a last time that keeps the '
+                                        r"run within 2000000 samples .* \(or set --duration, --dt\)"),
+], ids=["step-too-long", "too-many-samples", "table-too-long"])
+def test_run_settings_refuse_impossible_runs(given, tables, options, message):
+    with pytest.raises(InputError, match=message):
+        run_settings(DEFAULTS, [_table(t) for t in tables], options=options, **given)
+
+
+def test_run_inputs_put_a_sample_on_every_switch():
+    """A doublet's switches and a table's times are grid points, so held inputs switch exactly."""
+    settings = run_settings(DEFAULTS, step=0.4)
+    history = run_inputs(["rudder-doublet"], [_table(3.3)], settings)
+    for instant in (1.0, 2.5, 4.0, 3.3):
+        assert np.any(np.isclose(history.time, instant, rtol=0, atol=1e-12))

@@ -25,7 +25,6 @@ _SIMULATION_OPTIONS = ("inputs", "amplitude_deg", "half_period", "start", "durat
                        "csv", "plot")
 
 _COMMAND_LINE = "command line"
-_MAX_SAMPLES = 2_000_000
 
 
 def add_arguments(parser):
@@ -148,8 +147,7 @@ def case_csv_paths(path, labels):
 def _histories(args, reference_defaults):
     """The input history on one grid, and the settings used."""
     from latdyn.errors import InputError
-    from latdyn.inputs import (INPUT_KINDS, combine, make_input, read_input_csv, sample_table,
-                               switch_times, time_grid)
+    from latdyn.inputs import INPUT_KINDS, read_input_csv, run_inputs, run_settings
 
     kinds = args.inputs or ["rudder-doublet"]
     tables = []
@@ -163,40 +161,12 @@ def _histories(args, reference_defaults):
     _check_positive(args.start, "--start", allow_zero=True)
     _check_positive(args.duration, "--duration")
     _check_positive(args.dt, "--dt")
-    d = reference_defaults
-    amplitude = math.radians(args.amplitude_deg) if args.amplitude_deg is not None else d.amplitude
-    half_period = args.half_period or d.half_period
-    start = d.start if args.start is None else args.start
-    if args.spiral:
-        duration, step = d.spiral_duration, d.spiral_step
-    else:
-        duration, step = d.duration, d.step
-    if tables and args.duration is None:
-        duration = max(duration, max(float(t.time[-1]) for t in tables))
-    duration = args.duration or duration
-    step = args.dt or step
-    if step >= duration:
-        raise InputError(_COMMAND_LINE, "--dt", f"a step smaller than the duration ({duration:g} s)",
-                         f"{step:g} s")
-    if duration / step > _MAX_SAMPLES:
-        longest = max(tables, key=lambda t: t.time[-1], default=None)
-        if args.duration is None and longest is not None and duration == longest.time[-1]:
-            raise InputError(longest.file, 'column "time"', f"a last time that keeps the run within "
-                             f"{_MAX_SAMPLES} samples at a step of {step:g} s (or set --duration, --dt)",
-                             f"{duration:g} s")
-        raise InputError(_COMMAND_LINE, "--dt", f"at most {_MAX_SAMPLES} samples over {duration:g} s",
-                         f"{duration / step:.3g} samples with a step of {step:g} s")
-    breakpoints = []
-    for kind in kinds:
-        if kind in INPUT_KINDS:
-            breakpoints.extend(switch_times(kind, half_period, start))
-    for table in tables:
-        breakpoints.extend(table.time.tolist())
-    time = time_grid(duration, step, breakpoints)
-    histories = [make_input(kind, time, amplitude, half_period, start) for kind in kinds if kind in INPUT_KINDS]
-    histories += [sample_table(table, time) for table in tables]
-    return combine(*histories), dict(amplitude=amplitude, half_period=half_period, start=start,
-                                     duration=duration, step=step)
+    settings = run_settings(
+        reference_defaults, tables,
+        amplitude=math.radians(args.amplitude_deg) if args.amplitude_deg is not None else None,
+        half_period=args.half_period, start=args.start, duration=args.duration, step=args.dt,
+        spiral=args.spiral, source=_COMMAND_LINE, options={"duration": "--duration", "step": "--dt"})
+    return run_inputs(kinds, tables, settings), settings.as_dict()
 
 
 def _format(value, digits=4):
@@ -453,15 +423,18 @@ def run(args):
             write_csv(path, response)
             written.append(path)
     if args.plot:
+        from latdyn.plots import save_figure
         from latdyn.plots.responses import time_history_figure
 
-        time_history_figure(responses, readouts, modes, labels=labels, path=args.plot)
+        save_figure(time_history_figure(responses, readouts, modes, labels=labels), args.plot)
         written.append(args.plot)
     if args.bode:
+        from latdyn.plots import save_figure
         from latdyn.plots.responses import bode_figure
 
-        bode_figure(all_transfers[0], modes[0], path=args.bode,
-                    title=labels[0] if len(labels) == 1 else f"{labels[0]} (first case)")
+        save_figure(bode_figure(all_transfers[0], modes[0],
+                                title=labels[0] if len(labels) == 1 else f"{labels[0]} (first case)"),
+                    args.bode)
         written.append(args.bode)
     sys.stdout.write(text)
     for path in written:

@@ -7,7 +7,7 @@ from __future__ import annotations
 import json
 import sys
 
-__all__ = ["add_arguments", "run", "sensitivity_document"]
+__all__ = ["add_arguments", "run"]
 
 
 
@@ -21,20 +21,12 @@ def add_arguments(parser):
                         help="show only the N largest per figure (default all)")
 
 
-def sensitivity_document(aircraft, results) -> dict:
-    from latdyn import __version__
-
-    return {"latdyn_version": __version__, "aircraft": aircraft.name, "file": aircraft.file,
-            "conditions": [{"name": r.condition.name, "pattern": r.pattern,
-                            "sensitivities": [s.as_dict() for s in r.items]} for r in results]}
-
-
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.errors import InputError
     from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import sensitivity_table
-    from latdyn.studies.sensitivity import sensitivities
+    from latdyn.studies.sensitivity import sensitivities, sensitivity_document
 
     if args.top < 0:
         raise InputError(args.file, "--top", "a whole number >= 0", str(args.top))

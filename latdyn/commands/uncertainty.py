@@ -60,8 +60,10 @@ def run(args):
         separator = "\n\n" if markdown else "\n"
         text = separator.join([*head, render(levels, style), render(figures, style), notice])
     if args.plot:
+        from latdyn.assessment import assess
+        from latdyn.plots import save_both
         from latdyn.plots.studies import uncertainty_figure
 
-        uncertainty_figure(aircraft, result, path=args.plot)
+        save_both(uncertainty_figure(result, assess(aircraft, result.criteria)), args.plot)
     sys.stdout.write(text)
     return 0

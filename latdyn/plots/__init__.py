@@ -1,7 +1,11 @@
 """Figures (matplotlib, imported inside the plotting functions only).
 
-One module per kind of figure; each function draws onto a new figure and
-returns it, or writes it atomically when given a path.
+One module per kind of figure (``levels``, ``responses``, ``studies``,
+``identification``) and one style for all (``style``).  Each plotting
+function draws into a given figure (``fig=``) or axis (``ax=``) or a new
+``matplotlib.figure.Figure`` made without pyplot, and returns the Figure;
+saving is separate (:func:`save_figure`, :func:`save_both`, atomic).  No
+library code touches matplotlib's global state.
 """
 
 import os

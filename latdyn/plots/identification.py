@@ -31,7 +31,7 @@ def identification_figure(result, figure=None):
     """
     from matplotlib.figure import Figure
 
-    from latdyn.plots.responses import PALETTE, _style_axis
+    from latdyn.plots.style import MUTED, PALETTE, style_axis
 
     records = result.records
     channels = [c for c in ("beta", "p", "r", "phi", "ny") if any(c in r.channels for r in records)]
@@ -42,13 +42,13 @@ def identification_figure(result, figure=None):
     else:
         figure.clear()
     axes = figure.subplots(rows, columns, sharex="col", squeeze=False)
-    measured_colour, identified_colour, predicted_colour = "#8b959e", PALETTE[0], PALETTE[1]
+    measured_colour, identified_colour, predicted_colour = MUTED, PALETTE[0], PALETTE[1]
     for j, record in enumerate(records):
         simulated = result.simulated[j]
         predicted = result.predicted_outputs[j] + result.biases[j]
         residual_axis = axes[-1, j]
         control_axis = axes[0, j]
-        _style_axis(control_axis)
+        style_axis(control_axis)
         for k, (control, style) in enumerate((("aileron", "-"), ("rudder", (0, (5, 2))))):
             control_axis.plot(record.time, np.degrees(record.inputs[:, k]), color=PALETTE[2 + k],
                               linewidth=1.1, linestyle=style, label=control)
@@ -57,12 +57,12 @@ def identification_figure(result, figure=None):
             control_axis.set_ylabel("control [deg]", fontsize=8)
         for i, channel in enumerate(channels):
             axis = axes[i + 1, j]
-            _style_axis(axis)
+            style_axis(axis)
             symbol, unit = _LABELS[channel]
             factor = 1.0 if channel == "ny" else 180.0 / np.pi
             if channel not in record.channels:
                 axis.text(0.5, 0.5, "not measured", transform=axis.transAxes, ha="center", va="center",
-                          fontsize=8, color="#6b7780")
+                          fontsize=8, color=MUTED)
             else:
                 k = record.channels.index(channel)
                 axis.plot(record.time, record.measured[:, k] * factor, color=measured_colour, linewidth=0.8,
@@ -76,7 +76,7 @@ def identification_figure(result, figure=None):
                 residual_axis.plot(record.time, residual / scale, linewidth=0.7, label=symbol)
             if j == 0:
                 axis.set_ylabel(f"{symbol} [{unit}]", fontsize=8)
-        _style_axis(residual_axis)
+        style_axis(residual_axis)
         residual_axis.set_xlabel("time [s]", fontsize=8)
         if j == 0:
             residual_axis.set_ylabel("residual /\nrange [-]", fontsize=8)

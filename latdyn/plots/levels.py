@@ -11,64 +11,34 @@ The regions are computed by the assessment's own array functions on a grid
 (:func:`latdyn.levels.dutch_roll_grades`), so the picture and the table
 cannot disagree.  Every figure carries the guidance-only notice.
 
-matplotlib is imported inside the functions; figures are built without
-pyplot (no global state) and written atomically as PNG and SVG.
+Each function draws into a given figure (``fig=``; a new one by default) or
+axis (``ax=``) and returns the Figure; saving is separate
+(:func:`latdyn.plots.save_both`, :func:`write_assessment_figures`).
+matplotlib is imported inside the functions and no pyplot is used; the style
+is :mod:`latdyn.plots.style`.
 """
 
 from __future__ import annotations
 
 import os
 import re
-import textwrap
 
 import numpy as np
 
 from latdyn.plots import save_both
+from latdyn.plots.style import (GRID, LABEL_SIZE, LEVEL_COLOURS, LEVEL_INK, MODE_MARKERS, MUTED, PALETTE, RULE,
+                                TEXT, TITLE_SIZE, UNDECIDED, add_notice, case_colour, figure_for,
+                                style_axis)
 
 __all__ = ["LEVEL_COLOURS", "LEVEL_INK", "dutch_roll_chart", "roll_spiral_chart", "s_plane_map",
            "write_assessment_figures"]
 
-#: Region fills by level (1, 2, 3, 4 = beyond Level 3): sage, straw, apricot, rose.
-LEVEL_COLOURS = {1: "#d3e9d6", 2: "#f2e4b8", 3: "#f2c9a9", 4: "#e8aeae"}
-#: Darker ink of the same hues for labels.
-LEVEL_INK = {1: "#2f6b3c", 2: "#7a6318", 3: "#8a4b20", 4: "#8c2f2f"}
-_UNDECIDED = "#e4e6ea"
-_POINT = "#1d3557"
-_TEXT = "#1f2933"
-_MUTED = "#6b7780"
-_CASE_COLOURS = ("#1d3557", "#b5532b", "#2a7f72", "#7b4f9d", "#a8842a", "#4f5d6b", "#c2417a")
-_MODE_MARKERS = {"dutch_roll": "o", "roll_subsidence": "s", "spiral": "^", "roll_spiral": "D"}
 
 
 def _level_words(level):
     from latdyn.assessment import level_words
 
     return level_words(int(level))
-
-
-def _notice(figure, extra=None):
-    """The guidance-only notice under the figure (inside the layout, so nothing overlaps it)."""
-    from latdyn.assessment import NOTICE
-
-    width = max(60, int(figure.get_figwidth() * 15))      # characters per line at 7 pt
-    lines = textwrap.wrap(NOTICE, width)
-    if extra:
-        lines = textwrap.wrap(extra, width) + lines
-    figure.supxlabel("\n".join(lines), fontsize=7, color=_MUTED, style="italic")
-
-
-def _style(axis):
-    axis.grid(True, color="#c9ced6", linewidth=0.5, alpha=0.7)
-    axis.set_axisbelow(True)
-    for side in ("top", "right"):
-        axis.spines[side].set_visible(False)
-    axis.tick_params(colors=_TEXT, labelsize=8)
-
-
-def _figure(width, height):
-    from matplotlib.figure import Figure
-
-    return Figure(figsize=(width, height), layout="constrained")
 
 
 def _level_sets(result):
@@ -118,7 +88,7 @@ def _label_regions(axis, level, extent):
                   color=LEVEL_INK[value], alpha=0.85)
 
 
-def dutch_roll_chart(result, criteria=None, path=None, resolution=360):
+def dutch_roll_chart(result, criteria=None, fig=None, resolution=360):
     """Dutch roll damping ratio against natural frequency, with the level regions.
 
     One panel per flight-phase category among the conditions; each shows
@@ -133,14 +103,14 @@ def dutch_roll_chart(result, criteria=None, path=None, resolution=360):
     result : latdyn.assessment.AircraftAssessment
     criteria : CriteriaSet, optional
         Default: the first levels set of the assessment, else its first set.
-    path : str or os.PathLike, optional
-        Write the figure there (format from the suffix) and return the path.
+    fig : matplotlib.figure.Figure, optional
+        Draw into this figure (cleared); default a new one.
     resolution : int
         Grid points per axis of the regions [-].
 
     Returns
     -------
-    matplotlib.figure.Figure or the path written
+    matplotlib.figure.Figure
     """
     from matplotlib.colors import ListedColormap
 
@@ -160,7 +130,7 @@ def dutch_roll_chart(result, criteria=None, path=None, resolution=360):
     omega_top = max([3.0] + [1.15 * m.natural_frequency for _, m, _ in points])
     zeta_top = max([0.6] + [1.15 * m.damping_ratio for _, m, _ in points])
     zeta_bottom = min([-0.1] + [m.damping_ratio - 0.05 for _, m, _ in points])
-    figure = _figure(max(4.6 * len(categories) + 0.6, 7.0), 5.4)
+    figure = figure_for(fig, max(4.6 * len(categories) + 0.6, 7.0), 5.4)
     axes = figure.subplots(1, len(categories), squeeze=False)[0]
     omega_axis = np.linspace(0.0, omega_top, resolution)
     zeta_axis = np.linspace(zeta_bottom, zeta_top, resolution)
@@ -168,22 +138,22 @@ def dutch_roll_chart(result, criteria=None, path=None, resolution=360):
     extent = (0.0, omega_top, zeta_bottom, zeta_top)
     flagged = []
     for axis, category in zip(axes, categories):
-        _style(axis)
+        style_axis(axis)
         if criteria.assessment == "levels":
             level = _dutch_roll_grid(criteria, result.airplane_class, category, omega_grid, zeta_grid)
-            colours = ListedColormap([_UNDECIDED] + [LEVEL_COLOURS[k] for k in (1, 2, 3, 4)])
+            colours = ListedColormap([UNDECIDED] + [LEVEL_COLOURS[k] for k in (1, 2, 3, 4)])
             axis.imshow(level, origin="lower", extent=extent, aspect="auto", cmap=colours,
                         vmin=-0.5, vmax=4.5, interpolation="nearest")
-            axis.contour(omega_grid, zeta_grid, level, levels=[0.5, 1.5, 2.5, 3.5], colors="#5b6470",
+            axis.contour(omega_grid, zeta_grid, level, levels=[0.5, 1.5, 2.5, 3.5], colors=MUTED,
                          linewidths=0.7)
             _label_regions(axis, level, extent)
             if (level == 0).any():
                 missing = "class" if not result.airplane_class else "category"
                 axis.text(0.98, 0.02, f"grey: depends on the {missing} (not given)", ha="right",
-                          va="bottom", fontsize=7, color=_MUTED, transform=axis.transAxes)
+                          va="bottom", fontsize=7, color=MUTED, transform=axis.transAxes)
         else:
             entry = criteria.mode("dutch_roll")
-            for band, colour in zip(entry.bands, _CASE_COLOURS):
+            for band, colour in zip(entry.bands, PALETTE):
                 limit = band.limit("min_damping_ratio")
                 if limit is not None:
                     axis.axhline(limit, color=colour, linewidth=1.2, linestyle=(0, (5, 2)))
@@ -194,37 +164,37 @@ def dutch_roll_chart(result, criteria=None, path=None, resolution=360):
                       color=LEVEL_INK[4], va="center")
             axis.text(0.02, 0.97 * zeta_top, "pass: above the line that holds for the condition", fontsize=8,
                       weight="bold", color=LEVEL_INK[1], va="top")
-        axis.axhline(0.0, color="#3d4550", linewidth=0.8)
+        axis.axhline(0.0, color=RULE, linewidth=0.8)
         for condition, mode, entry in points:
             if not pass_fail and condition.category != category:
                 continue
             axis.plot(mode.natural_frequency, mode.damping_ratio, marker="o", markersize=7,
-                      markerfacecolor="white", markeredgecolor=_POINT, markeredgewidth=1.6, zorder=5)
+                      markerfacecolor="white", markeredgecolor=PALETTE[0], markeredgewidth=1.6, zorder=5)
             words = entry.result if entry is not None else ""
             axis.annotate(f"{condition.name}\n{words}", (mode.natural_frequency, mode.damping_ratio),
-                          xytext=(7, 5), textcoords="offset points", fontsize=7.5, color=_TEXT, zorder=6)
+                          xytext=(7, 5), textcoords="offset points", fontsize=7.5, color=TEXT, zorder=6)
             rule = criteria.mode("dutch_roll").phi_to_beta_rule
             if rule and mode.phi_to_beta is not None and \
                     mode.natural_frequency ** 2 * mode.phi_to_beta > rule.threshold:
                 flagged.append(condition.name)
         axis.set_xlim(0.0, omega_top)
         axis.set_ylim(zeta_bottom, zeta_top)
-        axis.set_xlabel("undamped natural frequency omega_nd [rad/s]", fontsize=8.5, color=_TEXT)
-        axis.set_ylabel("damping ratio zeta_d [-]", fontsize=8.5, color=_TEXT)
+        axis.set_xlabel("undamped natural frequency omega_nd [rad/s]", fontsize=LABEL_SIZE, color=TEXT)
+        axis.set_ylabel("damping ratio zeta_d [-]", fontsize=LABEL_SIZE, color=TEXT)
         if pass_fail:
-            axis.set_title("every condition", fontsize=9.5, color=_TEXT)
+            axis.set_title("every condition", fontsize=9.5, color=TEXT)
         else:
             heading = f"Category {category}" if category else "category not given"
             cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given"
-            axis.set_title(f"{cls}, {heading}", fontsize=9.5, color=_TEXT)
+            axis.set_title(f"{cls}, {heading}", fontsize=9.5, color=TEXT)
     title = f"Dutch roll: {result.aircraft}\n{criteria.name}: {criteria.edition}"
-    figure.suptitle(title, fontsize=10.5, color=_TEXT)
+    figure.suptitle(title, fontsize=TITLE_SIZE, color=TEXT)
     extra = "Regions drawn for omega_nd^2 |phi/beta|_d below the rule's threshold."
     if flagged:
         extra += (" At " + ", ".join(flagged) + " it is above: the damping boundaries of that point lie "
                   "higher than drawn (see the table).")
-    _notice(figure, extra if criteria.mode("dutch_roll").phi_to_beta_rule else None)
-    return _finish(figure, path)
+    add_notice(figure, extra if criteria.mode("dutch_roll").phi_to_beta_rule else None)
+    return figure
 
 
 def _strip(axis, rows, limits_key, value_key, title, xlabel, log_floor, log_ceiling):
@@ -246,25 +216,25 @@ def _strip(axis, rows, limits_key, value_key, title, xlabel, log_floor, log_ceil
         value = row[value_key]
         if value is None:
             axis.text(log_ceiling * 0.9, y, row["text"], ha="right", va="center", fontsize=7.5,
-                      color=_TEXT, weight="bold")
+                      color=TEXT, weight="bold")
         else:
             shown = min(max(value, log_floor * 1.05), log_ceiling * 0.95)
-            axis.plot(shown, y, marker="D", markersize=6.5, markerfacecolor=_POINT, markeredgecolor="white",
+            axis.plot(shown, y, marker="D", markersize=6.5, markerfacecolor=PALETTE[0], markeredgecolor="white",
                       zorder=5)
             axis.annotate(f"{value:.3g} s  {row['result']}", (shown, y), xytext=(7, 7),
-                          textcoords="offset points", ha="left", fontsize=7, color=_TEXT)
+                          textcoords="offset points", ha="left", fontsize=7, color=TEXT)
     axis.set_yticks(range(len(rows)), [r["label"] for r in rows], fontsize=8)
     axis.set_ylim(-0.6, len(rows) - 0.4)
     axis.invert_yaxis()
     axis.set_xlim(log_floor, log_ceiling)
-    axis.set_xlabel(xlabel, fontsize=8.5, color=_TEXT)
-    axis.set_title(title, fontsize=9.5, color=_TEXT)
-    axis.grid(True, axis="x", which="both", color="#c9ced6", linewidth=0.4, alpha=0.6)
+    axis.set_xlabel(xlabel, fontsize=LABEL_SIZE, color=TEXT)
+    axis.set_title(title, fontsize=9.5, color=TEXT)
+    axis.grid(True, axis="x", which="both", color=GRID, linewidth=0.4, alpha=0.6)
     for side in ("top", "right"):
         axis.spines[side].set_visible(False)
 
 
-def roll_spiral_chart(result, criteria=None, path=None):
+def roll_spiral_chart(result, criteria=None, fig=None):
     """Roll time constant and spiral time to double of each condition against its limits.
 
     Parameters
@@ -272,11 +242,12 @@ def roll_spiral_chart(result, criteria=None, path=None):
     result : latdyn.assessment.AircraftAssessment
     criteria : CriteriaSet, optional
         A levels set with roll and spiral bands; default the first one.
-    path : str or os.PathLike, optional
+    fig : matplotlib.figure.Figure, optional
+        Draw into this figure (cleared); default a new one.
 
     Returns
     -------
-    matplotlib.figure.Figure or the path written
+    matplotlib.figure.Figure
     """
     from matplotlib.patches import Patch
 
@@ -309,7 +280,7 @@ def roll_spiral_chart(result, criteria=None, path=None):
             rows.append({"label": label, "limits": edges, "value": value, "text": text,
                          "sense": -1 if mode_name == "roll_subsidence" else 1,
                          "result": entry.result if entry else ""})
-    figure = _figure(10.0, 1.6 + 0.55 * max(len(roll_rows), 1) + 0.9)
+    figure = figure_for(fig, 10.0, 1.6 + 0.55 * max(len(roll_rows), 1) + 0.9)
     left, right = figure.subplots(1, 2)
     _strip(left, roll_rows, "limits", "value", "Roll mode: time constant T_R",
            "T_R [s] (shorter is better)", 0.02, 30.0)
@@ -319,34 +290,38 @@ def roll_spiral_chart(result, criteria=None, path=None):
     figure.legend(handles=handles, loc="outside right upper", fontsize=8, frameon=False)
     cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given (no bands drawn)"
     figure.suptitle(f"Roll and spiral modes: {result.aircraft}, {cls}\n{criteria.name}: {criteria.edition}",
-                    fontsize=10.5, color=_TEXT)
-    _notice(figure)
-    return _finish(figure, path)
+                    fontsize=TITLE_SIZE, color=TEXT)
+    add_notice(figure)
+    return figure
 
 
-def s_plane_map(result, path=None):
+def s_plane_map(result, ax=None):
     """Every root of every condition in the complex plane (symmetric-log real axis).
 
     Parameters
     ----------
     result : latdyn.assessment.AircraftAssessment
-    path : str or os.PathLike, optional
+    ax : matplotlib.axes.Axes, optional
+        Draw on this axis (of the caller's figure); default a new figure.
 
     Returns
     -------
-    matplotlib.figure.Figure or the path written
+    matplotlib.figure.Figure
     """
     from matplotlib.lines import Line2D
 
     from latdyn.modes import MODE_LABELS
 
-    figure = _figure(8.4, 6.0)
-    axis = figure.subplots()
-    _style(axis)
+    if ax is None:
+        figure = figure_for(None, 8.4, 6.0)
+        axis = figure.subplots()
+    else:
+        axis, figure = ax, ax.figure
+    style_axis(axis)
     top = 1.0
     reals = [0.1]
     for index, condition in enumerate(result.conditions):
-        colour = _CASE_COLOURS[index % len(_CASE_COLOURS)]
+        colour = case_colour(index)
         if condition.modes is None:
             continue
         for mode in condition.modes:
@@ -354,7 +329,7 @@ def s_plane_map(result, path=None):
             if len(roots) == 2 and roots[0].imag != 0:
                 roots = [roots[0], roots[0].conjugate()]
             for root in roots:
-                axis.plot(root.real, root.imag, marker=_MODE_MARKERS[mode.name], linestyle="none",
+                axis.plot(root.real, root.imag, marker=MODE_MARKERS[mode.name], linestyle="none",
                           markersize=7, markerfacecolor=colour, markeredgecolor="white", alpha=0.9)
                 top = max(top, abs(root.imag))
                 reals.append(abs(root.real))
@@ -365,24 +340,22 @@ def s_plane_map(result, path=None):
     axis.axvspan(0.0, max(0.5, 0.05 * span), color=LEVEL_COLOURS[4], alpha=0.45, linewidth=0)
     axis.text(0.99, 0.98, "unstable", transform=axis.transAxes, ha="right", va="top", fontsize=8,
               color=LEVEL_INK[4])
-    axis.axvline(0.0, color="#3d4550", linewidth=0.8)
-    axis.axhline(0.0, color="#3d4550", linewidth=0.8)
-    axis.set_xlabel("real part [1/s] (symmetric log scale, linear within +-0.1)", fontsize=8.5, color=_TEXT)
-    axis.set_ylabel("imaginary part [rad/s]", fontsize=8.5, color=_TEXT)
-    handles = [Line2D([], [], marker=m, linestyle="none", color="#4f5d6b", label=MODE_LABELS[name])
-               for name, m in _MODE_MARKERS.items()]
-    handles += [Line2D([], [], marker="o", linestyle="none", color=_CASE_COLOURS[i % len(_CASE_COLOURS)],
+    axis.axvline(0.0, color=RULE, linewidth=0.8)
+    axis.axhline(0.0, color=RULE, linewidth=0.8)
+    axis.set_xlabel("real part [1/s] (symmetric log scale, linear within +-0.1)", fontsize=LABEL_SIZE, color=TEXT)
+    axis.set_ylabel("imaginary part [rad/s]", fontsize=LABEL_SIZE, color=TEXT)
+    handles = [Line2D([], [], marker=m, linestyle="none", color=PALETTE[5], label=MODE_LABELS[name])
+               for name, m in MODE_MARKERS.items()]
+    handles += [Line2D([], [], marker="o", linestyle="none", color=case_colour(i),
                        label=c.name) for i, c in enumerate(result.conditions)]
     axis.legend(handles=handles, fontsize=7.5, frameon=False, loc="upper left")
-    figure.suptitle(f"Roots of every condition: {result.aircraft}", fontsize=10.5, color=_TEXT)
-    _notice(figure)
-    return _finish(figure, path)
-
-
-def _finish(figure, path):
-    if path is None:
-        return figure
-    return save_both(figure, path)[0]
+    title = f"Roots of every condition: {result.aircraft}"
+    if ax is None:
+        figure.suptitle(title, fontsize=TITLE_SIZE, color=TEXT)
+    else:
+        axis.set_title(title, fontsize=TITLE_SIZE, color=TEXT)
+    add_notice(figure)
+    return figure
 
 
 def _slug(result):

@@ -8,8 +8,10 @@ angle) and a table underneath sets the damping and period read from the
 trace beside the eigenvalue figures.  Several responses (conditions,
 aircraft files) can be overlaid.
 
-matplotlib is imported inside the functions, and figures are made without
-pyplot (no global state; the Agg canvas renders files).
+Each function draws into a given figure (``fig=``; a new one by default) and
+returns it; saving is separate (:func:`latdyn.plots.save_figure`).
+matplotlib is imported inside the functions, no pyplot is used (no global
+state); the style is :mod:`latdyn.plots.style`.
 """
 
 from __future__ import annotations
@@ -18,28 +20,20 @@ from __future__ import annotations
 import numpy as np
 
 from latdyn.display import SI, SIGNAL_QUANTITIES, format_number
-from latdyn.plots import save_figure
+from latdyn.plots.style import (BAND, GRID, INPUT_COLOURS, INPUT_STYLES, LEVEL_INK, MUTED, TEXT,
+                                case_colour, figure_for, style_axis)
 
-__all__ = ["PALETTE", "time_history_figure", "bode_figure"]
+__all__ = ["time_history_figure", "bode_figure"]
 
-#: Case colours, in order (deep blue, burnt orange, sea green, violet, ochre, slate).
-PALETTE = ("#22416b", "#c4572f", "#2a8c7a", "#8a5a9e", "#b8912a", "#5b6770")
-_INPUT_COLOURS = {"aileron": "#2a8c7a", "rudder": "#c4572f"}
-_INPUT_STYLES = {"aileron": (0, (5, 2)), "rudder": "-"}
-_GRID = "#d9dde2"
-_TEXT = "#1f2933"
-_MUTED = "#6b7780"
-_BAND = "#eef1f4"
 _LABEL_BOX = dict(boxstyle="round,pad=0.15", facecolor="white", edgecolor="none", alpha=0.85)
 
-_PANELS = {
-    "beta": ("\u03b2", "deg"),
-    "p": ("p", "deg/s"),
-    "r": ("r", "deg/s"),
-    "phi": ("\u03c6", "deg"),
-    "psi": ("\u03c8", "deg"),
-    "ny": ("n_y", "g"),
-}
+#: Symbol of each signal on its panel; the unit is the display unit of its quantity.
+_SYMBOLS = {"beta": "\u03b2", "p": "p", "r": "r", "phi": "\u03c6", "psi": "\u03c8", "ny": "n_y"}
+
+
+def _unit(name):
+    quantity = SIGNAL_QUANTITIES.get(name)
+    return SI.label(quantity) if quantity else ""
 
 
 def _factor(name):
@@ -47,14 +41,7 @@ def _factor(name):
 
 
 def _style_axis(axis):
-    axis.grid(True, color=_GRID, linewidth=0.6)
-    axis.set_axisbelow(True)
-    for side in ("top", "right"):
-        axis.spines[side].set_visible(False)
-    for side in ("left", "bottom"):
-        axis.spines[side].set_color(_MUTED)
-    axis.tick_params(colors=_TEXT, labelsize=8, length=3)
-    axis.axhline(0.0, color=_MUTED, linewidth=0.6, zorder=1)
+    style_axis(axis, zero_line=True)
 
 
 def _fmt(value, digits=3):
@@ -71,7 +58,7 @@ def _eigen_dutch(modes):
 
 
 def time_history_figure(responses, readouts=None, modes=None, labels=None, title=None,
-                        signals=("beta", "p", "r", "phi"), path=None):
+                        signals=("beta", "p", "r", "phi"), fig=None):
     """Stacked time history: inputs, then ``signals``, with the read-outs.
 
     Parameters
@@ -90,15 +77,13 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
         Figure title; default the single response's label.
     signals : sequence of str
         Output panels under the input panel.
-    path : str or os.PathLike, optional
-        Write the figure there (atomically) and return the path.
+    fig : matplotlib.figure.Figure, optional
+        Draw into this figure (cleared); default a new one.
 
     Returns
     -------
-    matplotlib.figure.Figure or the path written
+    matplotlib.figure.Figure
     """
-    from matplotlib.figure import Figure
-
     from latdyn.readouts import read_response
 
     if hasattr(responses, "time"):
@@ -113,7 +98,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
 
     rows = 1 + len(signals)
     table_height = 0.75 + 0.22 * len(responses)
-    figure = Figure(figsize=(8.6, 1.0 + 1.6 * rows + table_height), layout="constrained")
+    figure = figure_for(fig, 8.6, 1.0 + 1.6 * rows + table_height)
     grid = figure.add_gridspec(rows + 1, 1, height_ratios=[0.8] + [1.0] * len(signals) + [table_height / 1.6])
     axes = [figure.add_subplot(grid[0])]
     for i in range(len(signals)):
@@ -131,37 +116,37 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     if moving.size:
         begin, finish = first.time[moving[0] + 1], first.input_end
         for axis in axes:
-            axis.axvspan(begin, finish, color=_BAND, zorder=0, linewidth=0)
+            axis.axvspan(begin, finish, color=BAND, zorder=0, linewidth=0)
 
     # Input panel: drawn once when every response has the same input.
     top = axes[0]
     shared = all(r.inputs.shape == first.inputs.shape and np.array_equal(r.inputs, first.inputs)
                  and np.array_equal(r.time, first.time) for r in responses)
     for index, response in enumerate(responses[:1] if shared else responses):
-        colour = PALETTE[index % len(PALETTE)]
+        colour = case_colour(index)
         for j, name in enumerate(response.input_names):
             values = response.inputs[:, j] * _factor(name)
             if not np.any(values):
                 continue
             top.step(response.time, values, where="post", linewidth=1.4,
-                     color=_INPUT_COLOURS.get(name, colour) if shared else colour,
-                     linestyle=_INPUT_STYLES.get(name, "-"),
+                     color=INPUT_COLOURS.get(name, colour) if shared else colour,
+                     linestyle=INPUT_STYLES.get(name, "-"),
                      label=name if shared else f"{name}, {labels[index]}")
-    top.set_ylabel("\u03b4 [deg]", color=_TEXT, fontsize=9)
+    top.set_ylabel(f"\u03b4 [{_unit('rudder')}]", color=TEXT, fontsize=9)
     handles, _ = top.get_legend_handles_labels()
     if handles:
         top.legend(loc="upper right", fontsize=7.5, frameon=False, ncol=2)
     else:
         top.text(0.99, 0.8, "no control input", transform=top.transAxes, ha="right",
-                 fontsize=8, color=_MUTED)
+                 fontsize=8, color=MUTED)
 
     # Output panels.
     for k, name in enumerate(signals):
         axis = axes[k + 1]
-        symbol, unit = _PANELS.get(name, (name, ""))
-        axis.set_ylabel(f"{symbol} [{unit}]", color=_TEXT, fontsize=9)
+        symbol, unit = _SYMBOLS.get(name, name), _unit(name)
+        axis.set_ylabel(f"{symbol} [{unit}]", color=TEXT, fontsize=9)
         for index, (response, readout) in enumerate(zip(responses, readouts)):
-            colour = PALETTE[index % len(PALETTE)]
+            colour = case_colour(index)
             try:
                 values = response.signal(name) * _factor(name)
             except KeyError:
@@ -176,7 +161,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                 if single:
                     axis.annotate(f"peak {_fmt(shown)} {unit} at {peak.time:.2f} s",
                                   (peak.time, shown), xytext=(7, -9 if shown > 0 else 3),
-                                  textcoords="offset points", fontsize=7.5, color=_TEXT,
+                                  textcoords="offset points", fontsize=7.5, color=TEXT,
                                   bbox=_LABEL_BOX, zorder=6)
             dutch = readout.dutch_roll
             if dutch is not None and dutch.signal == name:
@@ -188,9 +173,9 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                 residual = readout.residual_bank_angle * _factor(name)
                 axis.axhline(residual, color=colour, linewidth=0.7, linestyle=":", zorder=2)
                 if single:
-                    axis.annotate(f"residual {_fmt(residual)} deg at {readout.residual_time:g} s",
+                    axis.annotate(f"residual {_fmt(residual)} {_unit('phi')} at {readout.residual_time:g} s",
                                   (readout.residual_time, residual), xytext=(-4, 5),
-                                  textcoords="offset points", ha="right", fontsize=7.5, color=_TEXT,
+                                  textcoords="offset points", ha="right", fontsize=7.5, color=TEXT,
                                   bbox=_LABEL_BOX, zorder=6)
         if single and any(r.dutch_roll is not None and r.dutch_roll.signal == name for r in readouts):
             axis.legend(loc="upper right", fontsize=7.5, frameon=False)
@@ -199,23 +184,23 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
         if k < len(signals) - 1:
             axis.tick_params(labelbottom=False)
     top.tick_params(labelbottom=False)
-    axes[-1].set_xlabel("time [s]", color=_TEXT, fontsize=9)
+    axes[-1].set_xlabel("time [s]", color=TEXT, fontsize=9)
 
     # Title.
     heading = title or (labels[0] if single else "Lateral-directional responses compared")
-    figure.suptitle(heading, fontsize=11.5, color=_TEXT, fontweight="bold", x=0.01, ha="left")
+    figure.suptitle(heading, fontsize=11.5, color=TEXT, fontweight="bold", x=0.01, ha="left")
     description = first.description or "free response"
     top.set_title(f"{description}   |   linear small-disturbance model, exact for held inputs",
-                  fontsize=8, color=_MUTED, loc="left")
+                  fontsize=8, color=MUTED, loc="left")
     if any(r.warnings for r in readouts):
         top.text(0.0, 1.16, "Beyond the small-disturbance range (|\u03b2| > 15 deg or |\u03c6| > 45 deg): "
                  "the linear model no longer represents the aircraft.", transform=top.transAxes,
-                 fontsize=8, color="#a8322d", fontweight="bold")
+                 fontsize=8, color=LEVEL_INK[4], fontweight="bold")
 
     # Read-out table: the trace figures beside the eigenvalue figures.
-    header = ["peak \u03b2\n[deg]", "peak p\n[deg/s]", "peak r\n[deg/s]", "peak \u03c6\n[deg]",
-              "peak n_y\n[g]", "Dutch roll \u03b6\ntrace | eigen", "Dutch roll P [s]\ntrace | eigen",
-              "\u03c6 at end\n[deg]"]
+    header = [f"peak {_SYMBOLS[n]}\n[{_unit(n)}]" for n in ("beta", "p", "r", "phi", "ny")]
+    header += ["Dutch roll \u03b6\ntrace | eigen", "Dutch roll P [s]\ntrace | eigen",
+               f"\u03c6 at end\n[{_unit('phi')}]"]
     widths = [0.09, 0.09, 0.09, 0.09, 0.09, 0.16, 0.16, 0.09]
     if not single:
         header = ["case"] + header
@@ -243,27 +228,25 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     table.auto_set_font_size(False)
     table.set_fontsize(7.5)
     for (r, c), cell in table.get_celld().items():
-        cell.set_edgecolor(_GRID)
+        cell.set_edgecolor(GRID)
         cell.set_linewidth(0.6)
         if r == 0:
-            cell.set_facecolor("#e7ebef")
-            cell.set_text_props(color=_TEXT, fontweight="bold")
+            cell.set_facecolor(BAND)
+            cell.set_text_props(color=TEXT, fontweight="bold")
         else:
-            cell.set_text_props(color=_TEXT if single else PALETTE[(r - 1) % len(PALETTE)])
+            cell.set_text_props(color=TEXT if single else case_colour(r - 1))
     read = [r.dutch_roll for r in readouts if r.dutch_roll is not None]
-    names = sorted({_PANELS.get(d.signal, (d.signal,))[0] for d in read})
+    names = sorted({_SYMBOLS.get(d.signal, d.signal) for d in read})
     how = ("logarithmic decrement on successive extrema of " + " / ".join(names)
            + " after the input (circles)" if read else "too few extrema after the input for a read-out")
     note = (f"Dutch roll trace figures: {how};\neigen: from the model's eigenvalues. "
             "Shaded: controls moving.")
-    table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=_MUTED,
+    table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=MUTED,
                     va="bottom")
-    if path is not None:
-        return save_figure(figure, path)
     return figure
 
 
-def bode_figure(transfers, modes=None, path=None, omega=None, title=None):
+def bode_figure(transfers, modes=None, omega=None, title=None, fig=None):
     """Bode magnitude and phase of transfer functions, with the mode frequencies marked.
 
     Parameters
@@ -273,19 +256,17 @@ def bode_figure(transfers, modes=None, path=None, omega=None, title=None):
     modes : ModeSet, optional
         Marks the Dutch roll natural frequency and the roll and spiral
         root magnitudes.
-    path : str or os.PathLike, optional
-        Write the figure there (atomically) and return the path.
     omega : array_like, optional
         Frequencies [rad/s]; default two decades around all roots.
     title : str, optional
         Name of the case, shown in the title.
+    fig : matplotlib.figure.Figure, optional
+        Draw into this figure (cleared); default a new one.
 
     Returns
     -------
-    matplotlib.figure.Figure or the path written
+    matplotlib.figure.Figure
     """
-    from matplotlib.figure import Figure
-
     from latdyn.transfer_functions import bode_data, frequency_grid
 
     transfers = list(transfers)
@@ -293,7 +274,7 @@ def bode_figure(transfers, modes=None, path=None, omega=None, title=None):
         omega = frequency_grid([r for t in transfers for r in t.poles], points=600, decades=1.0)
     controls = [name for name in ("rudder", "aileron") if any(t.input == name for t in transfers)]
     controls += sorted({t.input for t in transfers} - set(controls))
-    figure = Figure(figsize=(11.0, 7.4), layout="constrained")
+    figure = figure_for(fig, 11.0, 7.4)
     grid = figure.subplots(2, len(controls), sharex=True, squeeze=False, height_ratios=[1.2, 1.0])
     marks = []
     if modes is not None:
@@ -314,26 +295,24 @@ def bode_figure(transfers, modes=None, path=None, omega=None, title=None):
         chosen = [t for t in transfers if t.input == control]
         for index, transfer in enumerate(chosen):
             data = bode_data(transfer, omega)
-            colour = PALETTE[index % len(PALETTE)]
+            colour = case_colour(index)
             magnitude_axis.plot(data.omega, data.magnitude_db, color=colour, linewidth=1.5, label=data.name)
             phase_axis.plot(data.omega, data.phase_deg, color=colour, linewidth=1.5)
         for frequency, text in marks:
             for axis in (magnitude_axis, phase_axis):
-                axis.axvline(frequency, color=_MUTED, linewidth=0.8, linestyle=(0, (2, 2)), zorder=1)
+                axis.axvline(frequency, color=MUTED, linewidth=0.8, linestyle=(0, (2, 2)), zorder=1)
             magnitude_axis.annotate(text, (frequency, 0.0), xycoords=("data", "axes fraction"),
                                     xytext=(3, 4), textcoords="offset points", fontsize=7,
-                                    color=_MUTED, rotation=90, va="bottom")
-        magnitude_axis.set_title(f"{control} inputs", fontsize=9.5, color=_TEXT, loc="left")
+                                    color=MUTED, rotation=90, va="bottom")
+        magnitude_axis.set_title(f"{control} inputs", fontsize=9.5, color=TEXT, loc="left")
         magnitude_axis.legend(loc="upper right", fontsize=8, frameon=False)
-        phase_axis.set_xlabel("frequency \u03c9 [rad/s]", color=_TEXT, fontsize=9)
+        phase_axis.set_xlabel("frequency \u03c9 [rad/s]", color=TEXT, fontsize=9)
         if column == 0:
-            magnitude_axis.set_ylabel("magnitude [dB]", color=_TEXT, fontsize=9)
-            phase_axis.set_ylabel("phase [deg]", color=_TEXT, fontsize=9)
+            magnitude_axis.set_ylabel("magnitude [dB]", color=TEXT, fontsize=9)
+            phase_axis.set_ylabel("phase [deg]", color=TEXT, fontsize=9)
     figure.suptitle("Lateral-directional transfer functions" + (f": {title}" if title else ""),
-                    fontsize=11.5, color=_TEXT, fontweight="bold", x=0.01, ha="left")
+                    fontsize=11.5, color=TEXT, fontweight="bold", x=0.01, ha="left")
     figure.supxlabel("Magnitude of output per control deflection: rad per rad, (rad/s) per rad "
                      "(the same in degrees). Dashed: mode frequencies (|root|).", fontsize=7.5,
-                     color=_MUTED, x=0.01, ha="left")
-    if path is not None:
-        return save_figure(figure, path)
+                     color=MUTED, x=0.01, ha="left")
     return figure

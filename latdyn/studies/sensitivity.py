@@ -39,7 +39,7 @@ from latdyn.studies.batch import (AUGMENTATION_PARAMETERS, case_matrices, closed
 
 __all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "sensitivity_parameters",
            "matrix_derivatives", "eigenvalue_derivatives", "condition_sensitivities",
-           "sensitivities"]
+           "sensitivities", "sensitivity_document"]
 
 #: Figures differentiated, with units.
 FIGURE_NAMES = {
@@ -279,3 +279,12 @@ def sensitivities(aircraft, condition=None) -> tuple:
     """:func:`condition_sensitivities` of every condition (or of the named one)."""
     chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
     return tuple(condition_sensitivities(aircraft, item) for item in chosen)
+
+
+def sensitivity_document(aircraft, results) -> dict:
+    """The ``latdyn sensitivity --format json`` document (SI)."""
+    from latdyn import __version__
+
+    return {"latdyn_version": __version__, "aircraft": aircraft.name, "file": aircraft.file,
+            "conditions": [{"name": r.condition.name, "pattern": r.pattern,
+                            "sensitivities": [s.as_dict() for s in r.items]} for r in results]}
