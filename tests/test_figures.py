@@ -9,7 +9,7 @@ from matplotlib.figure import Figure
 
 from latdyn.aircraft import load_aircraft
 from latdyn.assessment import NOTICE, assess
-from latdyn.plots import levels, responses, studies, style
+from latdyn.plots import levels, responses, studies, style, turbulence
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 KESTREL = ROOT / "aircraft" / "kestrel-k40.toml"
@@ -17,7 +17,7 @@ FIN = ROOT / "aircraft" / "studies" / "kestrel-k40-fin.toml"
 
 PLOTS = [levels.dutch_roll_chart, levels.roll_spiral_chart, levels.s_plane_map, responses.time_history_figure,
          responses.bode_figure, studies.sweep_figure, studies.root_locus_figure, studies.level_map_figure,
-         studies.uncertainty_figure]
+         studies.uncertainty_figure, turbulence.spectra_figure]
 
 
 @pytest.mark.parametrize("plot", PLOTS, ids=lambda f: f.__name__)

@@ -100,9 +100,10 @@ def run(args):
             _write_history(path, result, args)
             written.append(path)
     if args.plot:
+        from latdyn.plots import save_figure
         from latdyn.plots.turbulence import spectra_figure
 
-        spectra_figure(entries, path=args.plot, title=aircraft.name)
+        save_figure(spectra_figure(entries, title=aircraft.name), args.plot)
         written.append(args.plot)
     if args.format == "json":
         payload = {"latdyn_version": __version__, "aircraft": aircraft.name, "file": aircraft.file,

@@ -10,48 +10,45 @@ _LABELS = {"beta": "beta [deg^2/(rad/s)]", "p": "p [(deg/s)^2/(rad/s)]", "r": "r
            "phi": "phi [deg^2/(rad/s)]", "ny": "n_y [g^2/(rad/s)]"}
 
 
-def spectra_figure(entries, path=None, title="", omega=None):
+def spectra_figure(entries, title="", omega=None, fig=None):
     """Power spectra of beta, p, r, phi and n_y, one line per (condition, aircraft) entry.
 
     Parameters
     ----------
     entries : sequence of (condition name, label, latdyn.turbulence.TurbulenceResult)
-    path : str, optional
-        Write the figure there (atomically).
     title : str
     omega : array_like, optional
         Frequencies [rad/s]; default 0.01 to 100 rad/s.
+    fig : matplotlib.figure.Figure, optional
+        Draw into this figure (cleared); default a new one.  Saving is separate
+        (:func:`latdyn.plots.save_figure`).
 
     Returns
     -------
     matplotlib.figure.Figure
     """
-    from matplotlib.figure import Figure
-
+    from latdyn.plots.style import GRID, LABEL_SIZE, TITLE_SIZE, case_colour, figure_for, style_axis
     from latdyn.turbulence import DEGREES, RMS_OUTPUTS, output_spectra
 
     omega = np.logspace(-2, 2, 400) if omega is None else np.asarray(omega, dtype=float)
-    figure = Figure(figsize=(8.0, 10.0), layout="constrained")
+    figure = figure_for(fig, 8.0, 10.0)
     axes = figure.subplots(len(RMS_OUTPUTS), 1, sharex=True)
-    for name, label, result in entries:
+    for index, (name, label, result) in enumerate(entries):
         spectra = output_spectra(result.system, omega)
         style = "-" if label != "bare airframe" else "--"
         for ax, (k, key) in zip(axes, enumerate(RMS_OUTPUTS)):
-            ax.loglog(omega, spectra[:, k] * DEGREES[key] ** 2, style,
+            ax.loglog(omega, spectra[:, k] * DEGREES[key] ** 2, style, color=case_colour(index),
                       label=f"{name}, {label}: RMS {result.rms[key] * DEGREES[key]:.3g}")
     for ax, key in zip(axes, RMS_OUTPUTS):
-        ax.set_ylabel(_LABELS[key], fontsize=8)
-        ax.grid(True, which="both", color="#d5dadf", linewidth=0.5)
+        style_axis(ax)
+        ax.grid(True, which="both", color=GRID, linewidth=0.5)
+        ax.set_ylabel(_LABELS[key], fontsize=LABEL_SIZE)
         ax.legend(fontsize=7, loc="lower left")
-    axes[-1].set_xlabel("frequency omega [rad/s]")
+    axes[-1].set_xlabel("frequency omega [rad/s]", fontsize=LABEL_SIZE)
     gust = entries[0][2].gust if entries else None
     heading = f"Response to Dryden lateral turbulence: {title}"
     if gust is not None:
         heading += f"\nsigma_v {gust.sigma_v:g} m/s, L_v {gust.scale_length:g} m (one-sided spectra; " \
                    "a neutral or divergent mode is left out)"
-    figure.suptitle(heading, fontsize=10)
-    if path is not None:
-        from latdyn.plots import save_figure
-
-        save_figure(figure, path)
+    figure.suptitle(heading, fontsize=TITLE_SIZE)
     return figure
