@@ -16,8 +16,8 @@ import os
 from dataclasses import dataclass, fields, replace
 
 from latdyn import atmosphere, units
-from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, UNCERTAIN_KEYS, Leaf,
-                                  form_unit, read_tree)
+from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, STALL_SPEED_KEYS,
+                                  UNCERTAIN_KEYS, Leaf, form_unit, read_tree)
 from latdyn.errors import InputError, describe_value
 
 __all__ = [
@@ -25,7 +25,7 @@ __all__ = [
     "DimensionalDerivatives", "Condition", "Aircraft", "load_aircraft",
     "aircraft_from_tree", "AIRPLANE_CLASSES", "CATEGORIES", "AXES", "FLIGHT_PHASES",
     "Fin", "Uncertainty", "DISTRIBUTIONS", "Controls", "MAX_TRAVEL_DEG", "PHASE_CATEGORIES", "Augmentation", "MAX_PADE_ORDER",
-    "Wing", "Fuselage", "Aileron", "SOURCES",
+    "Wing", "Fuselage", "Aileron", "SOURCES", "Engine", "StallSpeeds",
 ]
 
 AIRPLANE_CLASSES = ("I", "II-C", "II-L", "III", "IV")
@@ -321,6 +321,89 @@ class Augmentation:
 
 
 @dataclass(frozen=True)
+class StallSpeeds:
+    """Stall speeds the civil rules refer to, calibrated airspeeds [m/s].
+
+    A speed the file does not give is None.
+
+    Attributes
+    ----------
+    V_S0 : float or None
+        Stall speed in the landing configuration (14 CFR 23.233: crosswind
+        component of at least 0.2 V_S0).
+    V_S1 : float or None
+        Stall speed in the configuration of the rule (14 CFR 23.149(b):
+        V_MC at most 1.2 V_S1, takeoff configuration).
+    V_SR : float or None
+        Reference stall speed (14 CFR 25.149(c): V_MC at most 1.13 V_SR).
+    V_SR0 : float or None
+        Reference stall speed in the landing configuration (14 CFR 25.237:
+        crosswind of 20 kt or 0.2 V_SR0, whichever is greater, need not
+        exceed 25 kt).
+    V_SR1 : float or None
+        Reference stall speed in a specific configuration (25.177 speed
+        range from 1.13 V_SR1).
+    """
+
+    V_S0: float | None = None
+    V_S1: float | None = None
+    V_SR: float | None = None
+    V_SR0: float | None = None
+    V_SR1: float | None = None
+
+    def given(self) -> dict:
+        """The speeds the file gives, by key."""
+        return {key: getattr(self, key) for key in STALL_SPEED_KEYS if getattr(self, key) is not None}
+
+
+@dataclass(frozen=True)
+class Engine:
+    """One engine, for engine-out control (:mod:`latdyn.steady`).
+
+    Attributes
+    ----------
+    name : str
+        The engine's name (``engine 1``, ``engine 2``, ... when not given).
+    lateral_position : float
+        Position of the thrust line along the body y axis, positive towards
+        the right wing [m].
+    thrust : float or None
+        Constant thrust [N] (None when a table is given).
+    thrust_speeds, thrust_values : tuple of float
+        Thrust table against true airspeed: speeds [m/s], increasing, and
+        thrust [N]; empty with a constant thrust.  Between the points the
+        thrust is interpolated linearly, outside them held at the end values.
+    failed_drag : float
+        Drag of the engine when failed (windmilling or feathered) [N].
+    critical : bool
+        Named the critical engine in the file.
+    """
+
+    name: str
+    lateral_position: float
+    thrust: float | None
+    thrust_speeds: tuple = ()
+    thrust_values: tuple = ()
+    failed_drag: float = 0.0
+    critical: bool = False
+
+    def thrust_at(self, speed):
+        """Thrust at the true airspeed(s) ``speed`` [m/s] -> [N].
+
+        Examples
+        --------
+        >>> Engine("e", 2.0, None, (0.0, 100.0), (1000.0, 600.0)).thrust_at(25.0)
+        900.0
+        """
+        import numpy as np
+
+        if self.thrust is not None:
+            return np.full(np.shape(speed), self.thrust)[()] if np.ndim(speed) else float(self.thrust)
+        value = np.interp(speed, self.thrust_speeds, self.thrust_values)
+        return float(value) if np.ndim(value) == 0 else value
+
+
+@dataclass(frozen=True)
 class Condition:
     """A flight condition with the derivatives that describe it there.
 
@@ -330,6 +413,10 @@ class Condition:
 
     ``augmentation`` is the stability augmentation engaged in this condition
     (the aircraft's ``[augmentation]`` merged with the condition's), or None.
+
+    ``stall_speeds`` are the aircraft's ``[stall_speeds]`` with this
+    condition's ``[condition.stall_speeds]`` overriding them key by key
+    (None when the file gives neither).
     """
 
     flight: FlightCondition
@@ -337,6 +424,7 @@ class Condition:
     controls: Controls | None = None
     augmentation: Augmentation | None = None
     provenance: tuple = ()
+    stall_speeds: StallSpeeds | None = None
 
     @property
     def name(self) -> str:
@@ -575,6 +663,8 @@ class Aircraft:
     fuselage: Fuselage | None = None
     aileron: Aileron | None = None
     units: str = "SI"
+    engines: tuple = ()
+    stall_speeds: StallSpeeds | None = None
 
     @property
     def file(self) -> str:
@@ -831,6 +921,101 @@ def _controls(table, prefix, context, base=None):
                          describe_value(table[key].value), table[key])
         values[field] = units.rad(value)
     return Controls(**values)
+def _stall_speeds(table, prefix, context, base=None):
+    """Validate a ``[stall_speeds]`` table; speeds not given come from ``base``."""
+    if table is None:
+        return base
+    values = dict(base.given()) if base is not None else {}
+    for key in STALL_SPEED_KEYS:
+        if key in table:
+            values[key] = _number(table, key, prefix + key, context, "speed", positive=True)
+    speeds = StallSpeeds(**values)
+    for low, high in (("V_S0", "V_S1"), ("V_SR0", "V_SR"), ("V_SR0", "V_SR1")):
+        a, b = getattr(speeds, low), getattr(speeds, high)
+        if a is not None and b is not None and a > b:
+            leaf = table.get(low) or table.get(high)
+            context.fail(prefix + low, f"{low} <= {high} (the landing configuration stalls slowest)",
+                         f"{low} = {describe_value(_leaf_value(table, low, a))}, "
+                         f"{high} = {describe_value(_leaf_value(table, high, b))}", leaf)
+    return speeds
+
+
+def _leaf_value(table, key, si_value):
+    leaf = table.get(key)
+    return leaf.value if isinstance(leaf, Leaf) else round(si_value, 6)
+
+
+def _number_list(table, key, dotted, context, dimension, minimum=0.0):
+    leaf = table.get(key)
+    if leaf is None:
+        context.fail(dotted, "a list of numbers", "nothing (the key is missing)")
+    out = []
+    for item in leaf.value:
+        if isinstance(item, bool) or not isinstance(item, (int, float)) or not math.isfinite(item):
+            context.fail(dotted, "a list of finite numbers", f"the item {describe_value(item)}", leaf)
+        if item < minimum:
+            context.fail(dotted, f"a list of numbers >= {minimum:g}", f"the item {describe_value(item)}",
+                         leaf)
+        out.append(units.to_si(float(item), dimension, leaf.units))
+    return tuple(out), leaf
+
+
+def _engines(tree, context):
+    entries = tree.get("engine") or []
+    engines, names = [], set()
+    for number, entry in enumerate(entries, start=1):
+        prefix = "engine."
+        name = _word(entry, "name", prefix + "name", context, required=False,
+                     default=f"engine {number}")
+        if name in names:
+            context.fail(prefix + "name", "a name used by one engine only", f'"{name}" twice',
+                         entry.get("name"))
+        names.add(name)
+        where = f" (engine {number}" + (f', "{name}")' if "name" in entry else ")")
+        position = _number(entry, "lateral_position", prefix + "lateral_position", context, "length",
+                           required=False)
+        if position is None:
+            context.fail(prefix + "lateral_position", "the engine's position along body y, positive "
+                         "to the right wing" + where, "nothing (the key is missing)")
+        thrust_leaf = entry.get("thrust")
+        speeds = values = ()
+        thrust = None
+        if thrust_leaf is None:
+            context.fail(prefix + "thrust", "a thrust (a number, or a table of speed and thrust lists)"
+                         + where, "nothing (the key is missing)")
+        if isinstance(thrust_leaf, dict):
+            speeds, speed_leaf = _number_list(thrust_leaf, "speed", prefix + "thrust.speed", context,
+                                              "speed")
+            values, value_leaf = _number_list(thrust_leaf, "thrust", prefix + "thrust.thrust", context,
+                                              "force")
+            if len(speeds) < 2 or len(speeds) != len(values):
+                context.fail(prefix + "thrust", "speed and thrust lists of the same length, at least 2"
+                             + where, f"{len(speeds)} speeds and {len(values)} thrusts", speed_leaf)
+            if any(b <= a for a, b in zip(speeds, speeds[1:])):
+                context.fail(prefix + "thrust.speed", "increasing true airspeeds" + where,
+                             describe_value(speed_leaf.value), speed_leaf)
+        else:
+            thrust = _number(entry, "thrust", prefix + "thrust", context, "force")
+            if thrust < 0.0:
+                context.fail(prefix + "thrust", "a thrust >= 0" + where,
+                             describe_value(thrust_leaf.value), thrust_leaf)
+        drag = _number(entry, "failed_drag", prefix + "failed_drag", context, "force", required=False,
+                       default=0.0)
+        if drag < 0.0:
+            context.fail(prefix + "failed_drag", "a drag >= 0 (the failed engine's drag, a positive "
+                         "number)" + where, describe_value(entry["failed_drag"].value),
+                         entry["failed_drag"])
+        critical = entry.get("critical")
+        if critical is not None and not isinstance(critical.value, bool):
+            context.fail(prefix + "critical", "true or false" + where, describe_value(critical.value),
+                         critical)
+        engines.append(Engine(name, position, thrust, speeds, values, drag,
+                              bool(critical.value) if critical is not None else False))
+    named = [e.name for e in engines if e.critical]
+    if len(named) > 1:
+        context.fail("engine.critical", "at most one engine named critical",
+                     ", ".join(f'"{n}"' for n in named))
+    return tuple(engines)
 
 
 def _uncertainties(tree, context):
@@ -1168,6 +1353,8 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
     estimating = wing is not None
     mass = _mass(tree, context)
     controls = _controls(_table(tree, "controls"), "controls.", context)
+    stall_speeds = _stall_speeds(_table(tree, "stall_speeds"), "stall_speeds.", context)
+    engines = _engines(tree, context)
     entries = tree.get("condition") or []
     if not entries:
         context.fail("condition", "at least one [[condition]] table", "none")
@@ -1209,7 +1396,9 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
                              "nothing (the key is missing)")
         condition_controls = _controls(_table(entry, "controls"), "condition.controls.", context,
                                        controls)
-        conditions.append((flight, derivatives, condition_controls, augmentation))
+        condition_stall = _stall_speeds(_table(entry, "stall_speeds"), "condition.stall_speeds.",
+                                        context, stall_speeds)
+        conditions.append((flight, derivatives, condition_controls, augmentation, condition_stall))
         context = _Context(files)
     description = tree.get("description")
     aircraft = Aircraft(
@@ -1219,9 +1408,10 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         fin=_fin(tree, context), uncertainties=_uncertainties(tree, context),
         controls=controls, wing=wing, fuselage=_fuselage(tree, context),
         aileron=_aileron(tree, context, half_span), units=tree.get("__units__", "SI"),
+        engines=engines, stall_speeds=stall_speeds,
     )
     done = []
-    for flight, derivatives, condition_controls, augmentation in conditions:
+    for flight, derivatives, condition_controls, augmentation, condition_stall in conditions:
         provenance = ()
         if isinstance(derivatives, _Partial):
             if estimating:
@@ -1235,7 +1425,8 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
                 provenance = tuple((key, "given" if key in derivatives.given else "default")
                                    for key in NONDIMENSIONAL_KEYS)
             derivatives = NondimensionalDerivatives(axes=derivatives.axes, **values)
-        done.append(Condition(flight, derivatives, condition_controls, augmentation, provenance))
+        done.append(Condition(flight, derivatives, condition_controls, augmentation, provenance,
+                              condition_stall))
     return replace(aircraft, conditions=tuple(done), warnings=tuple(warnings))
 
 

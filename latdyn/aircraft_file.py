@@ -24,7 +24,8 @@ from latdyn.input_files import parse_toml
 
 __all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
            "given_values", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
-           "GEOMETRY_TABLES", "read_tree", "MAX_FILE_BYTES"]
+           "GEOMETRY_TABLES", "STALL_SPEED_KEYS", "ENGINE_KEYS", "LIST_TABLES", "read_tree",
+           "MAX_FILE_BYTES"]
 
 #: Largest aircraft or criteria file read [bytes].
 MAX_FILE_BYTES = 5 * 1024 * 1024
@@ -80,6 +81,22 @@ def _forms():
 #: mass), ``dL_d*`` (by Ixx) and ``dN_d*`` (by Izz).  Exactly one form per
 #: quantity.
 DIMENSIONAL_FORMS = _forms()
+#: Stall speeds (calibrated airspeeds, file speed units) of ``[stall_speeds]`` and
+#: ``[condition.stall_speeds]`` (latdyn.steady): the speeds the civil rules refer to.
+STALL_SPEED_KEYS = {"V_S0": "speed", "V_S1": "speed", "V_SR": "speed", "V_SR0": "speed",
+                    "V_SR1": "speed"}
+
+#: Keys of one ``[[engine]]`` table (latdyn.steady).  ``thrust`` is a number or a
+#: table of lists (:data:`LIST_TABLES`).
+ENGINE_KEYS = {"name": None, "lateral_position": "length", "thrust": "force",
+               "failed_drag": "force", "critical": None}
+
+#: Keys that may hold, instead of a number, a table of equally long lists of
+#: numbers, with the dimension of each list.
+LIST_TABLES = {"engine.thrust": {"speed": "speed", "thrust": "force"}}
+
+#: Keys that hold an array of tables (``[[condition]]``, ``[[engine]]``).
+ARRAY_TABLES = ("condition", "engine")
 
 #: Keys of an ``[augmentation]`` table (latdyn.augmentation); gains and time
 #: constants in SI (s, rad per rad/s, rad per rad) whatever the file's units.
@@ -109,6 +126,7 @@ SCHEMA = {
         "calibrated_airspeed": "speed", "calibrated_airspeed_kt": "knots",
         "alpha_deg": "none", "gamma_deg": "none",
         "controls": dict(CONTROL_KEYS),
+        "stall_speeds": dict(STALL_SPEED_KEYS),
         "derivatives": {"axes": None, **{key: "none" for key in NONDIMENSIONAL_KEYS}},
         "dimensional": {
             "axes": None, "primed": None,
@@ -120,6 +138,9 @@ SCHEMA = {
     },
     # optional control travel (latdyn.aircraft.Controls): degrees and degrees per second
     "controls": dict(CONTROL_KEYS),
+    # optional engines and stall speeds (latdyn.steady): engine-out control, crosswind rules
+    "engine": dict(ENGINE_KEYS),
+    "stall_speeds": dict(STALL_SPEED_KEYS),
     # optional fin geometry (latdyn.studies.fin, latdyn.estimation): SI or US lengths and area
     "fin": {"area": "area", "arm": "length", "height": "length", "lift_slope": "none",
             "efficiency": "none", "sidewash_factor": "none", "span": "length",
@@ -305,12 +326,21 @@ def _check_keys(table: dict, schema: dict, file: str, prefix: str, condition=Non
                 expected = "one of the known keys here (" + ", ".join(schema) + ")"
             raise InputError(file, dotted, expected, f"unknown key {key}", condition)
         sub = schema[key]
-        if key == "condition" and prefix == "":
+        if key in ARRAY_TABLES and prefix == "":
             if not isinstance(value, list) or not all(isinstance(v, dict) for v in value):
-                raise InputError(file, dotted, "[[condition]] tables", describe_value(value))
+                raise InputError(file, dotted, f"[[{key}]] tables", describe_value(value))
             for entry in value:
                 name = entry.get("name") if isinstance(entry.get("name"), str) else None
-                _check_keys(entry, sub, file, "condition.", name)
+                _check_keys(entry, sub, file, f"{key}.", name if key == "condition" else None)
+        elif dotted in LIST_TABLES and isinstance(value, dict):
+            lists = LIST_TABLES[dotted]
+            for inner, item in value.items():
+                if inner not in lists:
+                    raise InputError(file, f"{dotted}.{inner}", "one of the keys "
+                                     + ", ".join(lists), f"unknown key {inner}", condition)
+                if not isinstance(item, list):
+                    raise InputError(file, f"{dotted}.{inner}", "a list of numbers",
+                                     describe_value(item), condition)
         elif isinstance(sub, dict):
             if not isinstance(value, dict):
                 raise InputError(file, dotted, "a table", describe_value(value), condition)
@@ -324,7 +354,7 @@ def _wrap(table: dict, file: str, units: str) -> dict:
     for key, value in table.items():
         if isinstance(value, dict):
             out[key] = _wrap(value, file, units)
-        elif isinstance(value, list) and key == "condition":
+        elif isinstance(value, list) and key in ARRAY_TABLES:
             out[key] = [_wrap(entry, file, units) for entry in value]
         else:
             out[key] = Leaf(value, file, units)

@@ -23,6 +23,7 @@ COMMANDS = (
     ("assess", "handling-qualities levels of each mode against military and civil criteria"),
     ("compare", "a variant against its base: mode figures, level changes and what caused them"),
     ("report", "a report folder (HTML, Markdown, CSV, JSON, figures) for a chief engineer"),
+    ("steady", "steady sideslips, crosswind capability and engine-out minimum control speed"),
     ("respond", "time responses to rudder and aileron inputs, read-outs and transfer functions"),
     ("sweep", "parameter sweeps: mode figures and levels on a grid, level-boundary crossings"),
     ("sensitivity", "ranked sensitivities of the mode figures to each derivative and mass property"),

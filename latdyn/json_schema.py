@@ -38,6 +38,7 @@ def _word_values():
         "inertia_axes": {"enum": list(AXES)},
         "distribution": {"enum": list(DISTRIBUTIONS)},
         "primed": {"type": "boolean"}, "engaged": {"type": "boolean"},
+        "critical": {"type": "boolean"},
     }
 
 
@@ -58,18 +59,31 @@ def _leaf(key, dimension, words):
     return entry
 
 
+def _list_table(lists):
+    """A key that holds a table of equally long lists of numbers (LIST_TABLES)."""
+    return {"type": "object", "additionalProperties": False,
+            "properties": {key: {"type": "array", "items": _leaf(key, dimension, {})}
+                           for key, dimension in lists.items()}}
+
+
 def _table(schema, words, path=()):
+    from latdyn.aircraft_file import ARRAY_TABLES, LIST_TABLES
+
     properties = {}
     for key, sub in schema.items():
         if isinstance(sub, dict):
             table = _table(sub, words, (*path, key))
-            if not path and key == "condition":
+            if not path and key in ARRAY_TABLES:
                 properties[key] = {"type": "array", "items": table,
-                                   "description": "[[condition]]: one table per flight condition"}
+                                   "description": f"[[{key}]]: one table per {key}"
+                                   + (" (flight condition)" if key == "condition" else "")}
             else:
                 properties[key] = table
         else:
             properties[key] = _leaf(key, sub, words)
+            dotted = ".".join((*path, key))
+            if dotted in LIST_TABLES:
+                properties[key] = {"anyOf": [properties[key], _list_table(LIST_TABLES[dotted])]}
     return {"type": "object", "properties": properties, "additionalProperties": False}
 
 

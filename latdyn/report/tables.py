@@ -28,6 +28,7 @@ __all__ = [
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
     "turbulence_table", "equivalent_table", "roll_response_table", "buildup_table", "buildup_caption",
+    "steady_table",
 ]
 
 
@@ -873,3 +874,86 @@ def roll_response_table(assessments, units=DEFAULT, name="roll-response") -> Tab
                Column("lcdp", "LCDP", "1/rad", digits=3))
     return Table(name, "Response to roll control and departure indicators (indicators, not graded; "
                  "pedals free)", columns, tuple(rows))
+# ------------------------------------------------------------------ steady flight
+
+def steady_table(results, name="steady", units=DEFAULT, aircraft=None) -> Table:
+    """Steady sideslips, crosswind capability and engine-out control of
+    :func:`latdyn.steady.steady` results: one row per condition and quantity
+    (with an ``aircraft`` column holding ``aircraft`` when it is given).
+
+    ``value`` is in the display unit of ``units`` named in ``unit`` (angles in
+    degrees, per-degree gradients in deg/deg), airspeeds also in knots.
+    """
+    from latdyn.steady import HELD_NOTE, LINEAR_NOTE
+    from latdyn.units import KNOT
+
+    held = "non-dimensional derivatives held over the speed range"
+    rows = []
+
+    def add(condition, quantity, value, kind, limited_by=None, note=""):
+        if kind == "speed":
+            unit, shown = units.label("speed"), units.convert(value, "speed")
+            knots = None if value is None else value / KNOT
+        elif kind == "angle":
+            unit, shown, knots = units.label("angle"), units.convert(value, "angle"), None
+        elif kind == "ratio":
+            unit, shown, knots = f"{units.label('angle')}/{units.label('angle')}", value, None
+        elif kind == "fraction":
+            unit, shown, knots = "%", None if value is None else 100.0 * value, None
+        else:
+            unit, shown, knots = "", value, None
+        rows.append({"condition": condition, "quantity": quantity,
+                     "value": Absent("not computed") if value is None and kind != "none" else shown,
+                     "unit": unit, "knots": knots, "limited_by": limited_by, "note": note})
+
+    for result in results:
+        name_ = result.condition
+        s, c, e = result.sideslip, result.crosswind, result.engine_out
+        add(name_, "rudder per sideslip", s.rudder_per_sideslip, "ratio",
+            note="signed; + rudder gives the yawing moment of the sign of Cn_dr")
+        add(name_, "aileron per sideslip", s.aileron_per_sideslip, "ratio",
+            note="signed; + aileron gives the rolling moment of the sign of Cl_da")
+        add(name_, "bank per sideslip", s.bank_per_sideslip, "ratio",
+            note="+: right wing down with the wind from the right")
+        for point in s.points:
+            at = (f"at sideslip {math.degrees(point['sideslip']):.3g} deg, "
+                  f"bank {math.degrees(point['bank']):.3g} deg")
+            for control in ("rudder", "aileron"):
+                fraction = point[f"{control}_fraction"]
+                add(name_, f"{control} {at}", point[control], "angle",
+                    note="" if fraction is None else f"{100 * fraction:.0f} % of travel")
+        add(name_, "full-rudder sideslip", s.full_rudder_sideslip, "angle", s.limited_by,
+            "; ".join("large sideslip (linear derivatives)" if n == LINEAR_NOTE else n for n in s.notes))
+        if s.roll_fraction_at_10deg is not None:
+            add(name_, "roll control for 10 deg of sideslip", s.roll_fraction_at_10deg, "fraction",
+                note="of the aileron travel")
+        note = ("; ".join(c.notes) if c.max_component is None else
+                f"at most {100 * c.roll_control_fraction:.0f} % roll control; in the air (no ground "
+                "handling)" + ("; large sideslip (linear derivatives)" if LINEAR_NOTE in c.notes else ""))
+        add(name_, "crosswind capability (90 deg component)", c.max_component, "speed", c.limited_by, note)
+        for rule, value in c.required.items():
+            add(name_, f"crosswind asked by {rule}", value, "speed")
+        if e.failed_engine is None:
+            add(name_, "engine-out minimum control speed", None, "speed", None, "; ".join(e.notes))
+            continue
+        for case, words in ((e.wings_level, "wings level"), (e.banked, None)):
+            label = words or f"{abs(math.degrees(case.bank)):g} deg bank toward the operating engine"
+            add(name_, f"minimum control speed (TAS), {label}", case.minimum_control_speed, "speed",
+                case.limited_by, f'"{e.failed_engine}" engine failed; {held}')
+            if case.minimum_control_speed is not None:
+                kind = "CAS" if case.calibrated_airspeed is not None else "EAS"
+                value = case.calibrated_airspeed if kind == "CAS" else case.equivalent_airspeed
+                add(name_, f"minimum control speed ({kind}), {label}", value, "speed", case.limited_by, held)
+        for rule, value in e.limits.items():
+            add(name_, f"limit of {rule} (CAS)", value, "speed", None,
+                "1.2 V_S1" if "23" in rule else "1.13 V_SR")
+        extra = [n for n in e.notes if n != HELD_NOTE]
+        if extra:
+            add(name_, "engine-out notes", None, "none", None, "; ".join(extra))
+    columns = (Column("condition", "Condition"), Column("quantity", "Quantity"),
+               Column("value", "Value"), Column("unit", "Unit"), Column("knots", "Airspeed", "kt"),
+               Column("limited_by", "Limited by"), Column("note", "Note"))
+    if aircraft is not None:
+        columns = (Column("aircraft", "Aircraft"),) + columns
+        rows = [{"aircraft": aircraft, **row} for row in rows]
+    return Table(name, "Steady sideslips, crosswind and engine out", columns, tuple(rows))
