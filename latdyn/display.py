@@ -22,11 +22,15 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-__all__ = ["DASH", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
+__all__ = ["DASH", "ROUND_OFF", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
            "DEFAULT", "SYSTEMS", "unit_system", "SIGNAL_QUANTITIES"]
 
 #: Text of a figure that does not apply (or is not finite).
 DASH = "-"
+
+#: Magnitudes below this are the round-off of a zero in double precision on figures of order
+#: one (a rotated zero derivative, a cancelled coefficient) and are shown as 0.
+ROUND_OFF = 1e-12
 
 
 def format_number(value, digits=4, *, style="significant", signed=False):
@@ -54,12 +58,19 @@ def format_number(value, digits=4, *, style="significant", signed=False):
     ('+0.003800', '+4.8')
     >>> format_number(-1.3992e-05, style="general"), format_number(float("nan"))
     ('-1.399e-05', '-')
+
+    Values below :data:`ROUND_OFF` are shown as 0 (never ``1e-15`` or ``-0``):
+
+    >>> format_number(1.2e-15), format_number(-3e-17, style="general"), format_number(-0.0)
+    ('0', '0', '0')
     """
     if value is None or isinstance(value, bool):
         return DASH
     value = float(value)
     if not math.isfinite(value):
         return DASH
+    if abs(value) < ROUND_OFF:
+        value = 0.0
     sign = "+" if signed else ""
     if style == "fixed":
         return f"{value:{sign}.{digits}f}"

@@ -205,12 +205,16 @@ class Factor:
 
     def text(self, digits=4) -> str:
         """The factor as text, e.g. ``(s + 1.121)`` or ``(s^2 + 0.2187s + 0.9921)``."""
+        from latdyn.display import ROUND_OFF
+
         if self.order == 1:
             value = -self.root.real
-            if value == 0:
+            if abs(value) < ROUND_OFF:  # a root at the origin (or its round-off)
                 return "s"
             return f"(s {'+' if value > 0 else '-'} {abs(value):.{digits}g})"
         linear = 2 * self.damping_ratio * self.natural_frequency
+        if abs(linear) < ROUND_OFF * max(1.0, self.natural_frequency):
+            return f"(s^2 + {self.natural_frequency**2:.{digits}g})"
         return (f"(s^2 {'+' if linear >= 0 else '-'} {abs(linear):.{digits}g}s"
                 f" + {self.natural_frequency**2:.{digits}g})")
 

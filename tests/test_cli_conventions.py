@@ -110,7 +110,7 @@ def test_no_option_takes_a_list(name):
 
 
 @pytest.mark.parametrize("name", ["modes", "assess", "compare", "respond", "sweep", "sensitivity",
-                                  "uncertainty"])
+                                  "uncertainty", "turbulence", "identify"])
 def test_every_printing_command_has_the_four_formats(name):
     actions = {s: a for a in every_command_parser(name)._actions for s in a.option_strings}
     assert tuple(actions["--format"].choices) == ("table", "markdown", "csv", "json")
@@ -118,7 +118,7 @@ def test_every_printing_command_has_the_four_formats(name):
 
 @pytest.mark.parametrize("name,dest", [("assess", "plots"), ("report", "output"),
                                        ("respond", "output"), ("sweep", "plot"),
-                                       ("uncertainty", "plot")])
+                                       ("uncertainty", "plot"), ("turbulence", "plot")])
 def test_every_writing_command_has_dash_o(name, dest):
     actions = {s: a for a in every_command_parser(name)._actions for s in a.option_strings}
     assert actions["-o"] is actions["--output"] and actions["-o"].dest == dest
@@ -141,6 +141,7 @@ def test_criteria_does_not_swallow_the_file(capsys):
     ["respond", DRONE, "--duration", "4"], ["respond", DRONE, "--transfer-functions"],
     ["sweep", DRONE, "--vary", "Cn_beta=0.05:0.1:2"], ["sensitivity", DRONE, "--top", "2"],
     ["uncertainty", DRONE, "--samples", "200", "--seed", "1", "--vary", "Cn_r=±10%"],
+    ["turbulence", DRONE, "--sigma-v", "1", "--scale-length", "200"],
 ], ids=lambda v: "-".join(w for w in v if not w.startswith("/"))[:40] if isinstance(v, list) else v)
 def test_formats_parse(argv, fmt, capsys):
     status, out, err = run(capsys, *argv, "--format", fmt)

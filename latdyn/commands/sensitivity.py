@@ -35,7 +35,7 @@ def run(args):
     if args.format == "json":
         text = json.dumps(sensitivity_document(aircraft, results), indent=2, allow_nan=False) + "\n"
     elif args.format == "csv":
-        text = render(sensitivity_table(results, args.top), "csv")
+        text = render(sensitivity_table(results, args.top, units=aircraft.units), "csv")
     else:
         markdown = args.format == "markdown"
         title = f"{aircraft.name}  ({aircraft.file})"
@@ -43,7 +43,7 @@ def run(args):
                  "Normalised sensitivity: % change of the figure per % change of the parameter "
                  "(eigenvalue perturbation, left and right eigenvectors).", ""]
         for result in results:
-            table = sensitivity_table([result], args.top)
+            table = sensitivity_table([result], args.top, units=aircraft.units)
             heading = f'Condition "{result.condition.name}": {result.pattern}'
             lines += [f"### {escape_markdown(heading)}\n" if markdown else heading,
                       render(table.select([c.key for c in table.columns if c.key != "condition"]),

@@ -1,5 +1,6 @@
-"""``latdyn turbulence FILE --sigma-v S --scale-length L [--condition NAME] [--format table|json]
-[--plot OUT] [--csv OUT --duration T --dt DT --seed N]``: RMS response to Dryden lateral turbulence.
+"""``latdyn turbulence FILE --sigma-v S --scale-length L [--condition NAME]
+[--format table|markdown|csv|json] [-o OUT] [--csv OUT --duration T --dt DT --seed N]``: RMS
+response to Dryden lateral turbulence.
 
 All the work is done by latdyn.turbulence (and latdyn.augmentation for an augmented aircraft);
 this module checks the options, prints and writes.
@@ -13,7 +14,6 @@ import sys
 
 __all__ = ["add_arguments", "run"]
 
-FORMATS = ("table", "json")
 _COMMAND_LINE = "command line"
 
 
@@ -29,8 +29,11 @@ def add_arguments(parser):
                         help="vertical scale length for the roll-rate gust [m] (default L_v)")
     parser.add_argument("--no-rotary", action="store_true", help="leave out the roll- and yaw-rate gusts")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
-    parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default table)")
-    parser.add_argument("--plot", metavar="OUT", help="write the output spectra (.png, .pdf, .svg)")
+    from latdyn.commands import add_format
+
+    add_format(parser)
+    parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
+                        help="write the output spectra (.png, .pdf, .svg; --plot is the older name)")
     parser.add_argument("--csv", metavar="OUT",
                         help="write a seeded time history (one file per condition when several)")
     parser.add_argument("--duration", type=float, default=120.0, metavar="T",
@@ -51,7 +54,7 @@ def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.augmentation import AugmentedModel, condition_model
     from latdyn.errors import InputError
-    from latdyn.report.render import render
+    from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import turbulence_table
     from latdyn.turbulence import Gust, turbulence_response
 
@@ -109,6 +112,10 @@ def run(args):
         payload = {"latdyn_version": __version__, "aircraft": aircraft.name, "file": aircraft.file,
                    "conditions": documents}
         sys.stdout.write(json.dumps(payload, indent=2, allow_nan=False) + "\n")
+    elif args.format == "csv":
+        sys.stdout.write(render(turbulence_table(entries), "csv"))
+        for path in written:
+            print(f"wrote {path}", file=sys.stderr)
     else:
         lines = [f"{aircraft.name}  ({aircraft.file})",
                  f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2): sigma_v {args.sigma_v:g} m/s, "
@@ -117,7 +124,10 @@ def run(args):
                     f"sigma_w {gust.sigma_w or args.sigma_v:g} m/s, L_w {gust.scale_length_w or args.scale_length:g} m"),
                  "RMS from the stationary covariance (Lyapunov); a neutral or divergent mode (usually the "
                  "spiral) is left out and named: the pilot holds the bank against it.",
-                 render(turbulence_table(entries), "text")]
+                 render(turbulence_table(entries), args.format)]
+        if args.format == "markdown":
+            words = ["## " + escape_markdown(lines[0])] + [escape_markdown(line) for line in lines[1:-1]]
+            lines = ["\n\n".join(words + [lines[-1]])]
         lines += [f"wrote {path}" for path in written]
         sys.stdout.write("\n".join(lines) + "\n")
     return 0

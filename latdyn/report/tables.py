@@ -27,7 +27,7 @@ __all__ = [
     "derivative_table", "derivative_caption", "given_table", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
-    "turbulence_table", "equivalent_table", "roll_response_table", "buildup_table", "buildup_caption",
+    "turbulence_table", "equivalent_table", "roll_response_table", "FIGURE_LABELS", "buildup_table", "buildup_caption",
     "steady_table",
 ]
 
@@ -719,33 +719,62 @@ def sweep_summary_tables(result) -> tuple:
             Table("sweep-ranges", "Mode figures over the grid", range_columns, tuple(range_rows)))
 
 
-_SENSITIVITY_FIGURES = {
+#: Labels of the mode figures of the studies (trade symbols and units).
+FIGURE_LABELS = {
     "dutch_roll_frequency": "Dutch roll omega_n [rad/s]",
     "dutch_roll_damping": "Dutch roll zeta [-]",
+    "phi_to_beta": "Dutch roll |phi/beta| [-]",
+    "roll_root": "Roll root [1/s]",
     "roll_time_constant": "Roll time constant T_R [s]",
     "spiral_root": "Spiral root [1/s]",
+    "spiral_time_to_double": "Spiral time to double T_2 [s]",
+    "spiral_time_to_half": "Spiral time to half T_1/2 [s]",
     "roll_spiral_frequency": "Roll-spiral omega_n [rad/s]",
     "roll_spiral_damping": "Roll-spiral zeta [-]",
 }
 
 
-def sensitivity_table(results, top=0, name="sensitivity") -> Table:
+def sensitivity_table(results, top=0, name="sensitivity", units="SI") -> Table:
     """Ranked sensitivities (per condition and figure) of
-    :func:`latdyn.studies.sensitivity.sensitivities`; ``top`` > 0 keeps the N largest."""
+    :func:`latdyn.studies.sensitivity.sensitivities`; ``top`` > 0 keeps the N largest.
+
+    Each parameter's value and the derivative are in the parameter's own units
+    (those of the aircraft file, ``units`` "SI" or "US"), and a column says
+    which change of the parameter moves the figure away from the level
+    boundaries (:data:`latdyn.studies.sensitivity.BETTER`).
+    """
+    from latdyn import units as unit_factors
+    from latdyn.studies.keys import parameter_dimension
+
     rows = []
     for result in results:
         for figure in dict.fromkeys(s.figure for s in result.items):
             ranked = result.for_figure(figure)
             for rank, item in enumerate(ranked[:top] if top > 0 else ranked, start=1):
+                dimension = parameter_dimension(item.parameter)
+                if dimension not in unit_factors.DIMENSION_FACTORS:
+                    dimension = "none"
+                per_unit = unit_factors.to_si(1.0, dimension, units)
+                word = unit_factors.unit_word(dimension, units) or (
+                    "1/rad" if item.parameter.startswith("C") else "-")
+                better = item.improves_when
                 rows.append({"condition": result.condition.name,
-                             "figure": _SENSITIVITY_FIGURES[figure], "rank": rank,
-                             "parameter": item.parameter, "value": item.value,
-                             "derivative": item.derivative, "normalised": item.normalised})
+                             "figure": FIGURE_LABELS[figure], "rank": rank,
+                             "parameter": item.parameter, "unit": word,
+                             "value": unit_factors.from_si(item.value, dimension, units),
+                             "derivative": item.derivative * per_unit,
+                             "normalised": item.normalised,
+                             "improves": None if better is None else
+                             f"{'raise' if better == 'increased' else 'lower'} {item.parameter}"})
     columns = (Column("condition", "Condition"), Column("figure", "Figure"), Column("rank", "Rank"),
-               Column("parameter", "Parameter"), Column("value", "Value", "SI"),
-               Column("derivative", "d figure / d parameter", "SI", style="general"),
-               Column("normalised", "% per %", digits=3, style="fixed", signed=True))
-    return Table(name, "Normalised sensitivities", columns, tuple(rows))
+               Column("parameter", "Parameter"), Column("unit", "Unit"), Column("value", "Value"),
+               Column("derivative", "d figure / d parameter", "per parameter unit",
+                      style="general"),
+               Column("normalised", "% per %", digits=3, style="fixed", signed=True),
+               Column("improves", "Away from the boundaries"))
+    return Table(name, "Normalised sensitivities, in the parameters' own units; the last column "
+                       "says which change moves the figure away from the level boundaries",
+                 columns, tuple(rows))
 
 
 def uncertainty_tables(result) -> tuple:
@@ -768,7 +797,8 @@ def uncertainty_tables(result) -> tuple:
         for figure, values in item.percentiles.items():
             if not values["available"]:
                 continue
-            figure_rows.append({"condition": item.condition.name, "figure": figure,
+            figure_rows.append({"condition": item.condition.name,
+                                "figure": FIGURE_LABELS.get(figure, figure),
                                 **{key: values[key] for key in ("p5", "p50", "p95", "mean")},
                                 "available": 100 * values["available"]})
     return (

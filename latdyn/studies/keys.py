@@ -21,7 +21,7 @@ from latdyn import units
 from latdyn.aircraft_file import GEOMETRY_TABLES, SCHEMA, read_tree
 from latdyn.errors import InputError
 
-__all__ = ["StudyKey", "resolve_key", "file_units", "UNIT_WORDS"]
+__all__ = ["StudyKey", "resolve_key", "file_units", "UNIT_WORDS", "parameter_dimension"]
 
 _PREFIXES = ("condition.derivatives.", "condition.dimensional.", "condition.", "mass.",
              "geometry.")
@@ -84,6 +84,15 @@ def file_units(aircraft) -> str:
     if not aircraft.file:
         return "SI"
     return read_tree(aircraft.file)["__units__"]
+
+
+def parameter_dimension(name) -> str:
+    """Physical dimension (:data:`latdyn.units.DIMENSION_FACTORS`) of a batch input name.
+
+    >>> parameter_dimension("Ixx"), parameter_dimension("Cn_beta"), parameter_dimension("Y_p")
+    ('inertia', 'none', 'speed')
+    """
+    return _dimension(name)
 
 
 def _dimension(name):

@@ -37,7 +37,7 @@ from latdyn.aircraft import NondimensionalDerivatives
 from latdyn.studies.batch import (AUGMENTATION_PARAMETERS, case_matrices, closed_loop_matrices,
                                   condition_set, parameter_names, takes_augmented_path)
 
-__all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "sensitivity_parameters",
+__all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "BETTER", "sensitivity_parameters",
            "matrix_derivatives", "eigenvalue_derivatives", "condition_sensitivities",
            "sensitivities", "sensitivity_document"]
 
@@ -45,6 +45,15 @@ __all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "sensitivity
 FIGURE_NAMES = {
     "dutch_roll_frequency": "rad/s", "dutch_roll_damping": "-", "roll_time_constant": "s",
     "spiral_root": "1/s", "roll_spiral_frequency": "rad/s", "roll_spiral_damping": "-",
+}
+#: The direction in which each figure moves away from the level boundaries (+1: a larger
+#: figure is better, -1: a smaller one).  The level bands bound the Dutch roll and the
+#: roll-spiral oscillation from below (minimum zeta, zeta omega_n, omega_n), the roll time
+#: constant from above and the spiral from the divergent side (a more negative root is more
+#: stable, a longer time to double); MIL-F-8785C, 3.3.1 (common practice).
+BETTER = {
+    "dutch_roll_frequency": +1, "dutch_roll_damping": +1, "roll_time_constant": -1,
+    "spiral_root": -1, "roll_spiral_frequency": +1, "roll_spiral_damping": +1,
 }
 _STATE_DERIVATIVES = {
     True: ("Cy_beta", "Cy_p", "Cy_r", "Cl_beta", "Cl_p", "Cl_r", "Cn_beta", "Cn_p", "Cn_r"),
@@ -178,10 +187,19 @@ class Sensitivity:
     derivative: float
     normalised: float | None
 
+    @property
+    def improves_when(self) -> str | None:
+        """"increased" or "decreased": the change of the parameter that moves the figure
+        away from the level boundaries (:data:`BETTER`); None where it has no effect."""
+        sign = BETTER.get(self.figure, 0) * self.derivative
+        if sign == 0 or not math.isfinite(sign):
+            return None
+        return "increased" if sign > 0 else "decreased"
+
     def as_dict(self) -> dict:
         return {"figure": self.figure, "parameter": self.parameter, "value": self.value,
                 "figure_value": self.figure_value, "derivative": self.derivative,
-                "normalised": self.normalised}
+                "normalised": self.normalised, "improves_when": self.improves_when}
 
 
 @dataclass(frozen=True)
