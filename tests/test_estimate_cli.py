@@ -90,3 +90,20 @@ def test_modes_names_the_estimated_derivatives(capsys):
     assert main(["modes", str(KESTREL), "--json"]) == 0
     sources = json.loads(capsys.readouterr().out)["conditions"][0]["derivative_sources"]
     assert sources["Cn_beta"] == "given" and sources["Cy_da"] == "default"
+
+
+def test_report_blocks_of_the_buildup():
+    """The report shows the build-up table, the methods with their sources and the range notes."""
+    from latdyn.estimation import build_up
+    from latdyn.report.blocks import Paragraph, Table
+    from latdyn.report.content import buildup_blocks
+    from latdyn.report.render import render_csv
+
+    heron = load_aircraft(HERON)
+    blocks = buildup_blocks(build_up(heron, "cruise"), "heron-cruise")
+    table = blocks[0]
+    assert isinstance(table, Table) and table.name == "heron-cruise-buildup"
+    assert [row["derivative"] for row in table.rows][:3] == ["Cy_beta", "Cl_beta", "Cn_beta"]
+    assert "fin" in render_csv(table).splitlines()[0]
+    assert isinstance(blocks[1], Paragraph) and "DATCOM" in blocks[1].text
+    assert buildup_blocks(None, "x") == []

@@ -41,6 +41,8 @@ class ConditionData:
     transfers : tuple of latdyn.transfer_functions.TransferFunction
     bank_ratios : (float, float) or None
         omega_phi/omega_d and zeta_phi/zeta_d of phi/da (an oscillatory Dutch roll only).
+    buildup : latdyn.estimation.BuildUp or None
+        The component build-up of the derivatives (an aircraft with geometry tables only).
     """
 
     result: object
@@ -48,6 +50,7 @@ class ConditionData:
     responses: tuple
     transfers: tuple
     bank_ratios: tuple | None
+    buildup: object = None
 
 
 @dataclass(frozen=True)
@@ -117,9 +120,14 @@ def _condition(aircraft, result, assessment, step):
         phi_da = next((t for t in transfers if t.output == "phi" and t.input == "aileron"), None)
         if phi_da is not None:
             ratios = bank_numerator_ratios(phi_da, dutch.eigenvalue)
+    buildup = None
+    if getattr(aircraft, "wing", None) is not None:
+        from latdyn.estimation import build_up
+
+        buildup = build_up(aircraft, result.condition)
     if step is not None:
         step()
-    return ConditionData(result, assessment, responses, transfers, ratios)
+    return ConditionData(result, assessment, responses, transfers, ratios, buildup)
 
 
 def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, step=None) -> ReportData:

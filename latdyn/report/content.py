@@ -26,7 +26,7 @@ from latdyn.report.tables import (comparison_tables, flight_condition_table, giv
 
 __all__ = ["SECTIONS", "report_content", "slug", "summary_section", "comparison_section",
            "aircraft_section", "condition_section", "warnings_section", "provenance_section",
-           "results_document"]
+           "results_document", "buildup_blocks"]
 
 
 def slug(text) -> str:
@@ -140,6 +140,7 @@ def condition_section(item, data, units=DEFAULT) -> list:
         blocks.append(Paragraph(result.condition.flight.description))
     blocks += [flight_condition_table(result, f"{name}-flight-condition", units),
                given_table(item.aircraft, result, f"{name}-as-given"),
+               *buildup_blocks(data.buildup, name),
                Paragraph(f"Roots: {result.modes.pattern}."),
                mode_table(result.modes, f"{name}-modes").select(MODE_REPORT_VIEW),
                assessment_table(item.assessment, result.condition.name, f"{name}-assessment")
@@ -169,6 +170,21 @@ def condition_section(item, data, units=DEFAULT) -> list:
         omega, zeta = data.bank_ratios
         blocks.append(Paragraph(f"Bank-to-aileron numerator: omega_phi/omega_d = {format_number(omega)}, "
                                 f"zeta_phi/zeta_d = {format_number(zeta)} (indicator, no level bands)."))
+    return blocks
+
+
+def buildup_blocks(build, name) -> list:
+    """The component build-up of a condition's derivatives: the table, the methods and their
+    sources, and the methods used outside their range (none without geometry tables)."""
+    if build is None:
+        return []
+    from latdyn.estimation.documents import method_lines
+    from latdyn.report.tables import buildup_table
+
+    blocks = [buildup_table(build, f"{name}-buildup"),
+              Paragraph("Methods (derivatives - component: method (source)): "
+                        + "; ".join(method_lines(build)) + ".", "small")]
+    blocks += [Paragraph(f"Estimate note: {text}", "warning") for text in build.warnings]
     return blocks
 
 
@@ -213,12 +229,22 @@ def results_document(data) -> dict:
     return {
         "latdyn_version": __version__,
         "notice": NOTICE,
-        "aircraft": [{"modes": modes_document(a.aircraft, a.results), "assess": a.assessment.as_dict()}
-                     for a in data.aircraft],
+        "aircraft": [{"modes": modes_document(a.aircraft, a.results), "assess": a.assessment.as_dict(),
+                      **_estimates(a)} for a in data.aircraft],
         "variants": [{"modes": modes_document(v), "assess": s.as_dict()} for v, s in data.variants],
         "comparison": comparison_document(data.comparisons) if data.comparisons else None,
         "inputs": list(data.inputs),
     }
+
+
+def _estimates(item) -> dict:
+    """``{"estimate": the latdyn estimate document}`` of an aircraft with geometry tables, else {}."""
+    builds = [c.buildup for c in item.conditions if c.buildup is not None]
+    if not builds:
+        return {}
+    from latdyn.estimation.documents import estimate_document
+
+    return {"estimate": estimate_document(item.aircraft, builds)}
 
 
 def report_content(data, units=None) -> Report:
