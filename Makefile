@@ -1,18 +1,19 @@
 # latdyn: `make demo` runs the main job on the demo aircraft, `make test` runs the test suite.
-# Both create .venv and install latdyn into it when it is missing.
+# Both create .venv and install latdyn into it when it is missing; `make docs` builds the API
+# reference into docs/_build/html.
 PYTHON ?= python3
 VENV := .venv
 BIN := $(VENV)/bin
 STAMP := $(VENV)/.installed
 
-.PHONY: demo test bench clean
+.PHONY: demo test docs bench clean
 
 PIP := $(BIN)/python -m pip --disable-pip-version-check
 
 $(STAMP): pyproject.toml
 	test -x $(BIN)/python || $(PYTHON) -m venv $(VENV)
 	$(PIP) install -q --upgrade pip
-	$(PIP) install -q -e '.[test]'
+	$(PIP) install -q -e '.[test,docs]'
 	touch $(STAMP)
 
 DEMO_BASE := aircraft/kestrel-k40.toml
@@ -29,6 +30,10 @@ demo: $(STAMP)
 test: $(STAMP)
 	$(BIN)/python -m pytest
 
+# warnings are errors; tests/test_docs.py runs the same build, so make test (and CI) builds the docs
+docs: $(STAMP)
+	$(BIN)/python -m sphinx -W --keep-going -q -b html -d docs/_build/doctrees docs docs/_build/html
+
 bench: $(STAMP)
 	$(BIN)/python benchmarks/startup.py
 	$(BIN)/python benchmarks/engine.py
@@ -36,4 +41,4 @@ bench: $(STAMP)
 	$(BIN)/python benchmarks/studies.py
 
 clean:
-	rm -rf $(VENV) reports/*/ .pytest_cache
+	rm -rf $(VENV) reports/*/ .pytest_cache docs/_build docs/api docs/glossary.rst

@@ -113,9 +113,14 @@ def standard_atmosphere(altitude) -> Atmosphere:
     ValueError
         Altitude outside the model or not finite.
 
+    References
+    ----------
+    .. [1] *U.S. Standard Atmosphere, 1976*, NOAA-S/T 76-1562, US Government Printing
+       Office, 1976: Table 4 and equations 23, 33a, 33b, 42 and 50.
+
     Examples
     --------
-    Sea level and the tropopause, US Standard Atmosphere 1976, Table I
+    Sea level and the tropopause, Table I of [1]_
     (printed values 288.150 K, 1.01325E+05 Pa, 1.2250 kg/m^3, 340.29 m/s;
     11 km geopotential: 216.650 K, 2.2632E+04 Pa, 3.6392E-01 kg/m^3):
 

@@ -168,8 +168,8 @@ def damping_ratio_for_cycles(cycles, amplitude_ratio=0.1):
 
         zeta_min = k / sqrt(1 + k^2),   k = ln(1/r) / (2 pi N).
 
-    This is a derivation from the wording of 14 CFR 23.181(b) ("damped to 1/10
-    amplitude in 7 cycles"), not a published value.
+    This is a derivation from the wording of 14 CFR 23.181(b) [1]_ ("damped to
+    1/10 amplitude in 7 cycles"), not a published value.
 
     Parameters
     ----------
@@ -182,6 +182,11 @@ def damping_ratio_for_cycles(cycles, amplitude_ratio=0.1):
     -------
     numpy.ndarray or float
         Least damping ratio zeta_min [-].
+
+    References
+    ----------
+    .. [1] US Code of Federal Regulations, Title 14, Part 23, section 23.181(b),
+       Dynamic stability, edition of 1 January 2014 (the built-in set 14cfr23-181).
 
     Examples
     --------

@@ -71,9 +71,8 @@ def dimensional_from_coefficients(coefficients, wing_area, span, mass, Ixx, Izz,
         Y_{\\delta} = \\frac{q S C_{y_\\delta}}{m},\\quad
         L_{\\delta} = \\frac{q S b C_{l_\\delta}}{I_{xx}}
 
-    and likewise for r and for N with Izz, q = rho V^2 / 2 (Etkin & Reid,
-    *Dynamics of Flight*, 3rd ed., 1996, table 4.5; R. C. Nelson, *Flight
-    Stability and Automatic Control*, 2nd ed., 1998, table 5.2).
+    and likewise for r and for N with Izz, q = rho V^2 / 2 (table 4.5 of
+    [1]_; table 5.2 of [2]_).
 
     Parameters
     ----------
@@ -97,6 +96,13 @@ def dimensional_from_coefficients(coefficients, wing_area, span, mass, Ixx, Izz,
     -------
     dict
         Unprimed dimensional derivatives (:data:`DIMENSIONAL_NAMES`), SI.
+
+    References
+    ----------
+    .. [1] B. Etkin and L. D. Reid, *Dynamics of Flight: Stability and Control*, 3rd ed.,
+       Wiley, 1996, table 4.5.
+    .. [2] R. C. Nelson, *Flight Stability and Automatic Control*, 2nd ed., McGraw-Hill,
+       1998, table 5.2.
 
     Examples
     --------
@@ -145,9 +151,8 @@ def prime(derivatives, Ixx, Izz, Ixz):
         L' = \\frac{L + (I_{xz}/I_{xx}) N}{1 - I_{xz}^2/(I_{xx} I_{zz})},\\quad
         N' = \\frac{N + (I_{xz}/I_{zz}) L}{1 - I_{xz}^2/(I_{xx} I_{zz})}
 
-    where L and N are the moment derivatives divided by Ixx and Izz.
-    Source: McRuer, Ashkenas & Graham, *Aircraft Dynamics and Automatic
-    Control*, 1973, eq. 4-57; Heffley & Jewell, NASA CR-2144, 1972, section II.
+    where L and N are the moment derivatives divided by Ixx and Izz
+    (eq. 4-57 of [1]_; section II of [2]_).
 
     Parameters
     ----------
@@ -160,6 +165,13 @@ def prime(derivatives, Ixx, Izz, Ixz):
     -------
     dict
         The same keys, L and N primed.
+
+    References
+    ----------
+    .. [1] D. T. McRuer, I. Ashkenas and D. Graham, *Aircraft Dynamics and Automatic
+       Control*, Princeton University Press, 1973, chapter 4, eq. 4-57.
+    .. [2] R. K. Heffley and W. F. Jewell, *Aircraft Handling Qualities Data*, NASA
+       CR-2144, December 1972, section II.
 
     Examples
     --------
@@ -187,8 +199,8 @@ def rotate_inertia(Ixx, Izz, Ixz, angle):
         Izz' = Ixx s^2 + Izz c^2 + 2 Ixz s c
         Ixz' = (Ixx - Izz) s c + Ixz (c^2 - s^2)
 
-    This is the tensor rotation (a derivation; see Etkin & Reid, 3rd ed.,
-    1996, section 4.9 for the same result with their sign of Ixz).
+    This is the tensor rotation (a derivation; see section 4.9 of [1]_ for
+    the same result with their sign of Ixz).
 
     Parameters
     ----------
@@ -196,6 +208,11 @@ def rotate_inertia(Ixx, Izz, Ixz, angle):
         Inertias in the original axes [kg m^2].
     angle : float or array
         Rotation angle [rad]; alpha0 from body to stability axes, -alpha0 back.
+
+    References
+    ----------
+    .. [1] B. Etkin and L. D. Reid, *Dynamics of Flight: Stability and Control*, 3rd ed.,
+       Wiley, 1996, section 4.9.
 
     Examples
     --------
@@ -274,6 +291,10 @@ def lateral_matrices(derivatives, speed, alpha_equations, theta, gravity=STANDAR
                      include_heading=False):
     """State and input matrices of the lateral-directional model.
 
+    The equations of the module notes: those of section 4.9 of [1]_
+    (equations 4.9,19) in primed dimensional derivatives, written as in
+    section II of [2]_.
+
     Parameters
     ----------
     derivatives : mapping
@@ -296,6 +317,13 @@ def lateral_matrices(derivatives, speed, alpha_equations, theta, gravity=STANDAR
         (..., n, n), states beta [rad], p [rad/s], r [rad/s], phi [rad] (, psi [rad]).
     B : numpy.ndarray
         (..., n, 2), inputs aileron, rudder [rad].
+
+    References
+    ----------
+    .. [1] B. Etkin and L. D. Reid, *Dynamics of Flight: Stability and Control*, 3rd ed.,
+       Wiley, 1996, section 4.9, equations 4.9,19.
+    .. [2] R. K. Heffley and W. F. Jewell, *Aircraft Handling Qualities Data*, NASA
+       CR-2144, December 1972, section II.
 
     Examples
     --------
@@ -338,7 +366,7 @@ def output_matrices(derivatives, speed, n_states=4, gravity=STANDARD_GRAVITY):
     """Output matrices: the states, then lateral load factor at the c.g. [g].
 
     n_y = a_y / g with a_y = V (Y_v beta + Y_p p / V + Y_r r / V) + Y_da da + Y_dr dr,
-    the side force per unit mass (Etkin & Reid, 3rd ed., 1996, section 4.9).
+    the side force per unit mass (section 4.9 of [1]_).
 
     Returns
     -------
@@ -346,6 +374,11 @@ def output_matrices(derivatives, speed, n_states=4, gravity=STANDARD_GRAVITY):
         (..., n_states + 1, n_states).
     D : numpy.ndarray
         (..., n_states + 1, 2).
+
+    References
+    ----------
+    .. [1] B. Etkin and L. D. Reid, *Dynamics of Flight: Stability and Control*, 3rd ed.,
+       Wiley, 1996, section 4.9.
     """
     d = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
     V = np.asarray(speed, dtype=float)
@@ -497,6 +530,61 @@ def lateral_model(aircraft: Aircraft, condition: Condition | str,
     Returns
     -------
     LateralModel
+
+    References
+    ----------
+    .. [1] R. K. Heffley and W. F. Jewell, *Aircraft Handling Qualities Data*, NASA
+       CR-2144, December 1972.
+
+    Examples
+    --------
+    The rocket-powered research airplane at Mach 0.5 of [1]_ (primed
+    body-axis derivatives, US units as printed; sea level, V = 558.0 ft/s,
+    alpha0 = 4.0 deg; Y_da and Y_dr are Y*_da V and Y*_dr V):
+
+    >>> import pathlib, tempfile
+    >>> from latdyn.aircraft import load_aircraft
+    >>> path = pathlib.Path(tempfile.mkdtemp()) / "research.toml"
+    >>> _ = path.write_text('''
+    ... name = "rocket-powered research airplane, NASA CR-2144"
+    ... units = "US"
+    ... [[condition]]
+    ... name = "M0.5"
+    ... altitude = 0.0
+    ... speed = 558.0
+    ... alpha_deg = 4.0
+    ... [condition.dimensional]
+    ... axes = "body"
+    ... primed = true
+    ... Y_v = -0.357
+    ... L_beta = -12.4
+    ... L_p = -2.54
+    ... L_r = -0.184
+    ... N_beta = 10.4
+    ... N_p = 0.0129
+    ... N_r = -0.576
+    ... L_da = 35.2
+    ... L_dr = 5.87
+    ... N_da = 1.59
+    ... N_dr = -5.81
+    ... Y_da = -15.2892
+    ... Y_dr = 76.446
+    ... ''')
+    >>> model = lateral_model(load_aircraft(path), "M0.5")
+    >>> [round(float(x), 4) for x in model.A[0]]  # Y_v, sin(a0), -cos(a0), g cos(th0) / V
+    [-0.357, 0.0698, -0.9976, 0.0575]
+
+    Its published modes: Dutch roll omega_n = 3.36 rad/s, zeta = 0.148 (this
+    model gives 0.1485, within the 0.35 % to which the compilation of the
+    data reproduces the report); roll root 1/T_R = 2.46 1/s; spiral root
+    1/T_S = 0.0149 1/s (convergent):
+
+    >>> from latdyn.modes import find_modes
+    >>> modes = find_modes(model)
+    >>> round(modes["dutch_roll"].natural_frequency, 2), round(modes["dutch_roll"].damping_ratio, 4)
+    (3.36, 0.1485)
+    >>> round(-modes["roll_subsidence"].eigenvalue.real, 2), round(-modes["spiral"].eigenvalue.real, 4)
+    (2.46, 0.0149)
     """
     if isinstance(condition, str):
         condition = aircraft.condition(condition)

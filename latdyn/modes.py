@@ -280,7 +280,7 @@ def pair_figures(first, second):
         \\zeta = -\\frac{\\lambda_1 + \\lambda_2}{2 \\omega_n}
 
     For a conjugate pair this is omega_n = |lambda|, zeta = -Re(lambda)/|lambda|
-    (Etkin & Reid, *Dynamics of Flight*, 3rd ed., 1996, section 6.1).  For two
+    (section 6.1 of [1]_).  For two
     real roots of one sign it gives the over-damped figures (zeta > 1 or
     < -1); for real roots of opposite signs (a static divergence) omega_n and
     zeta are NaN.
@@ -296,6 +296,11 @@ def pair_figures(first, second):
         [rad/s].
     damping_ratio : numpy.ndarray
         [-], negative for a divergent oscillation.
+
+    References
+    ----------
+    .. [1] B. Etkin and L. D. Reid, *Dynamics of Flight: Stability and Control*, 3rd ed.,
+       Wiley, 1996, section 6.1.
 
     Examples
     --------
@@ -696,5 +701,39 @@ def find_modes(model) -> ModeSet:
     Returns
     -------
     ModeSet
+
+    References
+    ----------
+    .. [1] C. L. Teper, *Aircraft Stability and Control Data*, NASA CR-96008 (Systems
+       Technology, Inc. Technical Report 176-1), April 1969.
+
+    Examples
+    --------
+    The light four-seat single-engine airplane at sea level, Mach 0.158, of
+    [1]_: primed stability-axis derivatives as printed (US units: V = 176.0
+    ft/s; Y_v [1/s], L_beta and N_beta [1/s^2], rate derivatives [1/s],
+    g = 32.174 ft/s^2), the state matrix of :func:`latdyn.model.lateral_model`
+    written out (stability axes: alpha0 = 0, theta0 = 0):
+
+    >>> from types import SimpleNamespace
+    >>> Y_v, L_beta, L_p, L_r, N_beta, N_p, N_r = -0.2543, -15.982, -8.402, 2.193, 4.495, -0.3498, -0.7605
+    >>> A = [[Y_v, 0.0, -1.0, 32.174 / 176.0],
+    ...      [L_beta, L_p, L_r, 0.0],
+    ...      [N_beta, N_p, N_r, 0.0],
+    ...      [0.0, 1.0, 0.0, 0.0]]
+    >>> modes = find_modes(SimpleNamespace(A=A))
+
+    Published: Dutch roll omega_n = 2.385 rad/s and zeta = 0.204; roll root
+    1/T_R = 8.435 1/s; spiral root 1/T_S = 0.00876 1/s (convergent; this gives
+    0.00875, within the 2.5 % to which the compilation of the data reproduces
+    the spiral root):
+
+    >>> dutch = modes["dutch_roll"]
+    >>> round(dutch.natural_frequency, 3), round(dutch.damping_ratio, 3)
+    (2.385, 0.204)
+    >>> round(-modes["roll_subsidence"].eigenvalue.real, 3), round(-modes["spiral"].eigenvalue.real, 5)
+    (8.435, 0.00875)
+    >>> modes.pattern
+    'dutch roll pair, roll and spiral roots'
     """
     return modes_from_matrix(model.A)

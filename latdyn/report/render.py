@@ -103,12 +103,12 @@ _MD_ORDERED = re.compile(r"^(\s*\d{1,9})([.)])(?=\s|$)")
 def escape_markdown(text, block=True) -> str:
     """Text that Markdown (CommonMark with tables) shows as written.
 
-    Backslash-escapes what would make markup: ``\\ ` * ~ < |``, an
+    Backslash-escapes what would make markup: a backslash or a backtick, ``*``, ``~``, ``<``, ``|``, an
     underscore that could open or close emphasis (not one inside a word such
     as ``omega_n``), a ``[`` that would open a link, an ``&`` that would make
     an entity, and, with ``block`` (text that starts a line: headings,
     paragraphs, list items, not table cells), a block marker at the start
-    (``#``, ``>``, ``- ``, ``1. ``); line breaks become spaces.
+    (``#``, ``>``, and ``-`` or ``1.`` before a space); line breaks become spaces.
 
     Examples
     --------
