@@ -1,5 +1,6 @@
 """``latdyn report FILE... [--compare VARIANT]... [-o reports/NAME] [--criteria SET]... [--units SI|US]
-[--force]``."""
+[--title T] [--number N] [--revision R] [--date D] [--prepared NAME] [--checked NAME]
+[--approved NAME] [--force]``."""
 
 from __future__ import annotations
 
@@ -22,6 +23,12 @@ def add_arguments(parser):
     parser.add_argument("--units", choices=("SI", "US"),
                         help="display units of the tables (default: those of the first file; "
                              "results.json stays SI)")
+    for key, words in (("title", "document title (default: from the aircraft names)"),
+                       ("number", "document number"), ("revision", "document revision"),
+                       ("date", "document date"), ("prepared", "prepared by"),
+                       ("checked", "checked by"), ("approved", "approved by")):
+        parser.add_argument(f"--{key}", metavar="TEXT",
+                            help=f"{words}, in the document block and the printed page headers")
     parser.add_argument("--force", action="store_true", help="replace an existing report folder")
     parser.add_argument("--progress", action="store_true", default=None,
                         help="show the progress line even when stderr is not a terminal")
@@ -31,11 +38,13 @@ def run(args):
     from latdyn.commands import criteria_names
     from latdyn.display import SYSTEMS
     from latdyn.report import write_report
+    from latdyn.report.content import DOCUMENT_FIELDS
 
     output = args.output or os.path.join(
         "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
     folder = write_report(args.files, output, args.compare, criteria_names(args), args.force,
                           units=SYSTEMS[args.units] if args.units else None,
+                          document={key: getattr(args, key) for key, _ in DOCUMENT_FIELDS},
                           progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]])
     print(f"wrote {os.path.join(folder, 'index.html')}")
     return 0

@@ -29,10 +29,11 @@ __all__ = [
 ]
 
 
-def build_report(files, variants=(), criteria_sets=None, now=None, argv=None, units=None) -> Report:
+def build_report(files, variants=(), criteria_sets=None, now=None, argv=None, units=None,
+                 document=None) -> Report:
     """The content of the report of aircraft files: :func:`analyse_report` then :func:`report_content`.
 
     No matplotlib and nothing written.
     """
     data = analyse_report(files, variants, criteria_sets, now=now, argv=argv)
-    return report_content(data, units)
+    return report_content(data, units, document)

@@ -165,6 +165,7 @@ class Report:
     blocks: list = field(default_factory=list)
     results: dict = field(default_factory=dict)
     generated: str = ""
+    document: dict = field(default_factory=dict)
 
     def add(self, *blocks):
         self.blocks.extend(blocks)

@@ -25,6 +25,7 @@ from latdyn.report.tables import (comparison_tables, flight_condition_table, giv
                                   transfer_table)
 
 __all__ = ["SECTIONS", "report_content", "slug", "summary_section", "comparison_section",
+           "conclusion_sentences", "document_table", "DOCUMENT_FIELDS",
            "aircraft_section", "condition_section", "warnings_section", "provenance_section",
            "results_document", "buildup_blocks"]
 
@@ -56,6 +57,117 @@ def front_section(data, units=DEFAULT) -> list:
                       "in degrees where marked.")]
 
 
+def _check_words(entry):
+    """"Dutch roll damping ratio 0.073 against 0.08 (margin -0.007, -8.8 %)" of an assessment."""
+    from latdyn.modes import MODE_LABELS
+
+    words = MODE_LABELS.get(entry.mode, entry.mode)
+    if entry.governing and entry.value is not None and entry.limit is not None:
+        name = entry.governing.replace("_", " ")
+        unit = f" {entry.unit}" if entry.unit and entry.unit != "-" else ""
+        words += f" {name} {format_number(entry.value)}{unit} against {format_number(entry.limit)}{unit}"
+        if entry.margin is not None:
+            words += f" (margin {format_number(entry.margin, signed=True)}{unit}"
+            if entry.margin_fraction is not None:
+                words += f", {format_number(100 * entry.margin_fraction, 2, style='fixed', signed=True)} %"
+            words += ")"
+    return words
+
+
+def conclusion_sentences(assessments, comparisons=()) -> list:
+    """The conclusions, one sentence each, built from the results.
+
+    Per aircraft and criteria set: the checks below Level 1 (or failing), with
+    the value, the boundary and the margin, else "Level 1 (or pass) in every
+    condition"; the smallest margin.  Per variant: the checks that lose or
+    gain a level or a pass, and the largest changes of the mode figures.
+
+    Parameters
+    ----------
+    assessments : iterable of latdyn.assessment.AircraftAssessment
+    comparisons : iterable of latdyn.compare.Comparison
+
+    Examples
+    --------
+    >>> conclusion_sentences([])
+    []
+    """
+    from latdyn.assessment import below_level, level_words
+    from latdyn.modes import MODE_LABELS
+
+    out = []
+    for assessment in assessments:
+        for criteria in assessment.criteria:
+            entries = [(condition.name, entry) for condition in assessment.conditions
+                       for entry in condition.for_criteria(criteria.name) if entry.severity > 0]
+            if not entries:
+                continue
+            below = [(name, e) for name, e in entries if below_level(e.level, e.passed, 1)]
+            if below:
+                parts = [f'"{name}" {level_words(e.level, e.passed)}: {_check_words(e)}'
+                         for name, e in below]
+                out.append(f"{assessment.aircraft} under {criteria.name}: below Level 1 (or failing) in "
+                           + "; ".join(parts) + ".")
+            else:
+                word = "passes every check" if criteria.assessment == "pass_fail" else \
+                    "is Level 1 in every condition"
+                margins = [(name, e) for name, e in entries if e.margin_fraction is not None]
+                line = f"{assessment.aircraft} {word} under {criteria.name}"
+                if margins:
+                    name, e = min(margins, key=lambda item: item[1].margin_fraction)
+                    line += f"; the smallest margin is in \"{name}\": {_check_words(e)}"
+                out.append(line + ".")
+    for comparison in comparisons:
+        moves = [(condition.name, change) for condition in comparison.conditions
+                 for change in condition.levels if change.verdict in ("improved", "degraded")]
+        for verdict, word in (("degraded", "loses"), ("improved", "gains")):
+            chosen = [(name, c) for name, c in moves if c.verdict == verdict]
+            if chosen:
+                out.append(f"{comparison.variant} {word} against the base: " + "; ".join(
+                    f'"{name}" {MODE_LABELS.get(c.mode, c.mode)} under {c.criteria} '
+                    f"{level_words(c.base_level, c.base_pass)} -> {level_words(c.variant_level, c.variant_pass)}"
+                    for name, c in chosen) + ".")
+        if not moves:
+            out.append(f"{comparison.variant} changes no level against the base.")
+        changes = sorted(((condition.name, f) for condition in comparison.conditions
+                          for f in condition.figures if f.change_percent is not None),
+                         key=lambda item: -abs(item[1].change_percent))[:3]
+        if changes:
+            out.append(f"Largest changes of {comparison.variant}: " + "; ".join(
+                f'"{name}" {MODE_LABELS.get(f.mode, f.mode)} {f.figure.replace("_", " ")} '
+                f"{format_number(f.change_percent, 1, style='fixed', signed=True)} %"
+                for name, f in changes) + ".")
+    return out
+
+
+#: Fields of the document block (title page of a signed report), in order.
+DOCUMENT_FIELDS = (("title", "Title"), ("number", "Document number"), ("revision", "Revision"),
+                   ("date", "Date"), ("prepared", "Prepared"), ("checked", "Checked"),
+                   ("approved", "Approved"))
+
+
+def document_table(document):
+    """The document block: title, number, revision, date, prepared/checked/approved (blank lines
+    to sign where a name is not given)."""
+    from latdyn.report.blocks import Column, Table
+
+    rows = tuple({"field": words, "value": document.get(key) or "________________"}
+                 for key, words in DOCUMENT_FIELDS)
+    return Table("document", "Document", (Column("field", "Field"), Column("value", "Entry")), rows)
+
+
+def conclusions_section(data, units=DEFAULT) -> list:
+    """The conclusions paragraph, built from the results (levels lost or gained, smallest margins,
+    largest changes)."""
+    from latdyn.assessment import NOTICE
+
+    sentences = conclusion_sentences(data.assessments, data.comparisons)
+    if not sentences:
+        return []
+    return [Heading(2, "Conclusions", "conclusions"), Paragraph(" ".join(sentences)),
+            Paragraph(NOTICE, "small")]
+
+
 def summary_section(data, units=DEFAULT) -> list:
     """The handling-qualities summary: the worst result per condition and criteria set, worst first."""
     from latdyn.assessment import NOTICE
@@ -78,7 +190,8 @@ def summary_section(data, units=DEFAULT) -> list:
 
 
 def comparison_section(data, units=DEFAULT) -> list:
-    """The base against each variant: level changes, input differences, mode figures."""
+    """The base against each variant: level changes, mode figures (the changes), then the input
+    differences (their causes)."""
     from latdyn.assessment import NOTICE
 
     if not data.comparisons:
@@ -94,7 +207,7 @@ def comparison_section(data, units=DEFAULT) -> list:
         blocks += [Heading(3, f"{comparison.variant}", f"variant-{index}"),
                    Paragraph(f"File {comparison.variant_file}. Level changes: "
                              + ("; ".join(moves) if moves else "none") + "."),
-                   levels, inputs, figures]
+                   levels, figures, inputs]
         if comparison.only_in_base or comparison.only_in_variant:
             blocks.append(Paragraph("Not compared: only in the base " + (", ".join(comparison.only_in_base) or "-")
                                     + "; only in the variant " + (", ".join(comparison.only_in_variant) or "-"),
@@ -215,7 +328,7 @@ def provenance_section(data, units=DEFAULT) -> list:
 
 
 #: The sections of a report, in order.
-SECTIONS = (front_section, summary_section, comparison_section, aircraft_section, warnings_section,
+SECTIONS = (front_section, conclusions_section, summary_section, comparison_section, aircraft_section, warnings_section,
             provenance_section)
 
 
@@ -247,7 +360,7 @@ def _estimates(item) -> dict:
     return {"estimate": estimate_document(item.aircraft, builds)}
 
 
-def report_content(data, units=None) -> Report:
+def report_content(data, units=None, document=None) -> Report:
     """The report of analysed aircraft: every section's blocks and ``results.json``.
 
     Parameters
@@ -256,6 +369,10 @@ def report_content(data, units=None) -> Report:
     units : latdyn.display.UnitSystem, optional
         Display units of the tables; default the unit system of the first
         aircraft's file (``results.json`` stays SI).
+    document : dict, optional
+        The document block (:data:`DOCUMENT_FIELDS` keys: title, number,
+        revision, date, prepared, checked, approved), shown under the title
+        and in the running header of printed pages.
 
     Returns
     -------
@@ -268,5 +385,10 @@ def report_content(data, units=None) -> Report:
     report = Report(title=_title(data), generated=data.generated)
     for section in SECTIONS:
         report.add(*section(data, units))
+    if document:
+        report.document = {k: v for k, v in document.items() if v}
+        report.blocks.insert(1, document_table(document))
+        if document.get("title"):
+            report.title = document["title"]
     report.results = results_document(data)
     return report

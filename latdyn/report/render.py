@@ -22,7 +22,7 @@ from functools import lru_cache
 from latdyn.display import DASH, format_number, format_root
 from latdyn.report.blocks import Absent, Figure, Heading, Notice, Paragraph, Table
 
-__all__ = ["cell_text", "render_text", "render_markdown_table", "render_csv", "render_html_table",
+__all__ = ["page_style", "cell_text", "render_text", "render_markdown_table", "render_csv", "render_html_table",
            "table_records", "render", "escape_markdown", "render_markdown", "render_html", "css"]
 
 
@@ -270,10 +270,31 @@ def render_markdown(report) -> str:
     return "\n\n".join(out) + "\n"
 
 
+def _css_string(text) -> str:
+    return '"' + str(text).replace("\\", "\\\\").replace('"', '\\"').replace("\n", " ") + '"'
+
+
+def page_style(report) -> str:
+    """Print page boxes: the guidance-only notice at the foot of every printed page, page
+    numbers ("page 3 of 12"), and the document number and revision at the head."""
+    from latdyn.assessment import NOTICE
+
+    head = " ".join(f"{words} {report.document[key]}" for key, words in
+                    (("number", "Document"), ("revision", "revision"), ("date", "of"))
+                    if report.document.get(key))
+    return ("@page {\n"
+            f"  @top-left {{ content: {_css_string(report.title)}; font-size: 8pt; color: #555; }}\n"
+            f"  @top-right {{ content: {_css_string(head)}; font-size: 8pt; color: #555; }}\n"
+            f"  @bottom-left {{ content: {_css_string(NOTICE)}; font-size: 7pt; color: #8a1c1c; }}\n"
+            '  @bottom-right { content: "page " counter(page) " of " counter(pages); font-size: 8pt; }\n'
+            "}")
+
+
 def render_html(report, folder) -> str:
     """The self-contained HTML page; the figures (``folder/figures/<name>.png``) embedded as data."""
     out = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
-           f"<title>{html.escape(report.title)}</title>", f"<style>\n{css()}</style></head><body>"]
+           f"<title>{html.escape(report.title)}</title>", f"<style>\n{css()}</style>",
+           f"<style>\n{page_style(report)}</style></head><body>"]
     headings = [b for b in report.blocks if isinstance(b, Heading) and b.level == 2]
     nav_done = False
     for block in report.blocks:

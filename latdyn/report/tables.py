@@ -504,7 +504,8 @@ SUMMARY_VIEW = ("aircraft", "condition", "category", "criteria", "result", "mode
 
 
 def summary_table(assessments, name="summary", caption="Worst result per condition") -> Table:
-    """The worst row per aircraft, condition and criteria set, worst first (by severity)."""
+    """The worst row per aircraft, condition and criteria set, worst first: by level (or
+    fail), then by the smallest margin to the next-better boundary."""
     rows = []
     for assessment in assessments:
         sources = assessment_sources(assessment)
@@ -512,9 +513,13 @@ def summary_table(assessments, name="summary", caption="Worst result per conditi
             for criteria in assessment.criteria:
                 worst = item.worst(criteria.name)
                 if worst is not None:
+                    closeness = worst.margin_fraction if worst.margin_fraction is not None else (
+                        worst.margin if worst.margin is not None else math.inf)
                     rows.append((worst.severity,
-                                 _assessment_row(assessment, item, worst, sources, {id(worst)})))
-    order = sorted(range(len(rows)), key=lambda i: (-rows[i][0], i))
+                                 _assessment_row(assessment, item, worst, sources, {id(worst)}),
+                                 closeness))
+    # worst level first; among equal levels the smallest margin (fraction) first
+    order = sorted(range(len(rows)), key=lambda i: (-rows[i][0], rows[i][2], i))
     emphasis = tuple(k for k, i in enumerate(order) if rows[i][0] >= 2)
     columns = tuple(Column(c.key, {"result": "Worst result", "mode": "Limiting mode"}.get(c.key, c.title),
                            c.unit, c.symbol, c.digits, c.style, c.signed, c.words)

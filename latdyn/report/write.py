@@ -21,7 +21,7 @@ from latdyn.report.analysis import analyse_report
 from latdyn.report.content import report_content
 from latdyn.report.render import render_csv, render_html, render_markdown
 
-__all__ = ["write_report", "write_files"]
+__all__ = ["write_report", "write_files", "shows_level", "LEVEL_COLUMNS"]
 
 
 def _progress(total, enabled):
@@ -50,15 +50,29 @@ def write_files(report, folder, step=None) -> None:
     tables = os.path.join(folder, "tables")
     os.makedirs(tables, exist_ok=True)
     for table in report.tables:
-        _write_text(os.path.join(tables, table.name + ".csv"), render_csv(table))
+        text = render_csv(table)
+        if shows_level(table):
+            from latdyn.assessment import NOTICE
+
+            text = f"# {NOTICE}\n" + text
+        _write_text(os.path.join(tables, table.name + ".csv"), text)
     _write_text(os.path.join(folder, "report.md"), render_markdown(report))
     _write_text(os.path.join(folder, "index.html"), render_html(report, folder))
     _write_text(os.path.join(folder, "results.json"),
                 json.dumps(report.results, indent=2, allow_nan=False, sort_keys=False) + "\n")
 
 
+#: Column keys of a table that shows a level or a verdict (its CSV carries the notice).
+LEVEL_COLUMNS = ("result", "level", "verdict", "probabilities", "base_level", "variant_level")
+
+
+def shows_level(table) -> bool:
+    """True when a table shows a level, pass/fail or verdict (its CSV starts with the notice)."""
+    return any(column.key in LEVEL_COLUMNS for column in table.columns) or "level" in table.name
+
+
 def write_report(files, output, variants=(), criteria_sets=None, force=False, progress=None,
-                 argv=None, units=None) -> str:
+                 argv=None, units=None, document=None) -> str:
     """Analyse aircraft files and write their report folder atomically.
 
     Parameters
@@ -79,6 +93,9 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         The command line, recorded in the provenance.
     units : latdyn.display.UnitSystem, optional
         Display units of the tables (default: those of the first file).
+    document : dict, optional
+        The document block (title, number, revision, date, prepared, checked,
+        approved; :data:`latdyn.report.content.DOCUMENT_FIELDS`).
 
     Returns
     -------
@@ -118,7 +135,7 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
     bar = _progress(None, progress)
     try:
         data = analyse_report(files, variants, criteria_sets, argv=argv, step=lambda: bar.update(1))
-        report = report_content(data, units)
+        report = report_content(data, units, document)
         bar.total = data.condition_count + len(report.figures)
         bar.refresh()
         write_files(report, temporary, step=lambda: bar.update(1))
