@@ -17,13 +17,18 @@ $(STAMP): pyproject.toml
 	touch $(STAMP)
 
 DEMO_BASE := aircraft/kestrel-k40.toml
-DEMO_VARIANTS := aircraft/kestrel-k40-tall-fin.toml aircraft/kestrel-k40-tip-tanks.toml
+DEMO_VARIANTS := aircraft/kestrel-k40-tall-fin.toml aircraft/kestrel-k40-tip-tanks.toml aircraft/kestrel-k40-tip-tanks-yaw-damper.toml
+DEMO_YAW_DAMPER := aircraft/kestrel-k40-tip-tanks-yaw-damper.toml
+# turbulence of the demo (invented for the scenario, not taken from a document)
+DEMO_GUST := --sigma-v 1.5 --scale-length 500
 DEMO_FLIGHT_TEST := --data aircraft/flight-test/kestrel-k40-cruise-rudder-doublet.csv --data aircraft/flight-test/kestrel-k40-cruise-aileron-3211.csv
 
 demo: $(STAMP)
 	$(BIN)/latdyn modes aircraft/skylark-sv2.toml
 	$(BIN)/latdyn assess $(DEMO_BASE) $(DEMO_VARIANTS)
-	$(BIN)/latdyn report $(DEMO_BASE) $(addprefix --compare ,$(DEMO_VARIANTS)) -o reports/demo --force --progress
+	$(BIN)/latdyn sweep $(DEMO_YAW_DAMPER) --vary augmentation.yaw_damper_gain=0:0.2:11 --condition cruise
+	$(BIN)/latdyn turbulence $(DEMO_YAW_DAMPER) $(DEMO_GUST) --condition cruise
+	$(BIN)/latdyn report $(DEMO_BASE) $(addprefix --compare ,$(DEMO_VARIANTS)) -o reports/demo --force --progress $(DEMO_GUST)
 	$(BIN)/latdyn identify $(DEMO_BASE) --condition cruise $(DEMO_FLIGHT_TEST) -o reports/kestrel-k40-identified.toml --plot reports/kestrel-k40-identification.png
 	$(BIN)/latdyn compare $(DEMO_BASE) reports/kestrel-k40-identified.toml
 

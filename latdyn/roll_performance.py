@@ -254,10 +254,16 @@ def bank_history(A, B, aileron, aileron_rate, times, bank_row, input_column=0, o
     N, n = A.shape[0], A.shape[-1]
     b = B[:, :, input_column]
     row = np.broadcast_to(np.asarray(bank_row, dtype=float), (N, n))
-    # initial roll acceleration of the bank angle per unit command: C_phi A b
-    curvature = np.einsum("nk,nkj,nj->n", row, A, b)
-    first = np.einsum("nk,nk->n", row, b)
-    sign = np.sign(np.where(first != 0.0, first, curvature))
+    # initial roll acceleration of the bank angle per unit command: C_phi A b; through an
+    # augmentation's actuator and delay the first non-zero C_phi A^k b (its relative degree)
+    sign = np.zeros(N)
+    vector = b
+    scale = np.abs(A).max(axis=(1, 2)) + 1.0
+    size = np.abs(row).max(axis=1) * np.abs(b).max(axis=1)
+    for k in range(n):
+        value = np.einsum("nk,nk->n", row, vector)
+        sign = np.where((sign == 0) & (np.abs(value) > 1e-12 * size * scale**k), np.sign(value), sign)
+        vector = np.einsum("nkj,nj->nk", A, vector)
     amplitude = sign * np.asarray(aileron, dtype=float)
     rate = np.broadcast_to(np.asarray(aileron_rate, dtype=float), (N,))
     with np.errstate(all="ignore"):

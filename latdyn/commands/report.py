@@ -30,6 +30,11 @@ def add_arguments(parser):
         parser.add_argument(f"--{key}", metavar="TEXT",
                             help=f"{words}, in the document block and the printed page headers")
     parser.add_argument("--force", action="store_true", help="replace an existing report folder")
+    parser.add_argument("--sigma-v", type=float, metavar="S",
+                        help="RMS lateral gust velocity [m/s] for the turbulence tables of augmented conditions "
+                             "(with --scale-length)")
+    parser.add_argument("--scale-length", type=float, metavar="L",
+                        help="lateral gust scale length L_v [m] (with --sigma-v)")
     parser.add_argument("--progress", action="store_true", default=None,
                         help="show the progress line even when stderr is not a terminal")
 
@@ -37,14 +42,27 @@ def add_arguments(parser):
 def run(args):
     from latdyn.commands import criteria_names
     from latdyn.display import SYSTEMS
+    import math
+
+    from latdyn.errors import InputError
     from latdyn.report import write_report
     from latdyn.report.content import DOCUMENT_FIELDS
 
+    gust = None
+    if (args.sigma_v is None) != (args.scale_length is None):
+        raise InputError("command line", "--sigma-v", "--sigma-v and --scale-length together", "only one of them")
+    if args.sigma_v is not None:
+        from latdyn.turbulence import Gust
+
+        for value, option in ((args.sigma_v, "--sigma-v"), (args.scale_length, "--scale-length")):
+            if not math.isfinite(value) or value <= 0:
+                raise InputError("command line", option, "a number > 0", repr(value))
+        gust = Gust(args.sigma_v, args.scale_length)
     output = args.output or os.path.join(
         "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
     folder = write_report(args.files, output, args.compare, criteria_names(args), args.force,
                           units=SYSTEMS[args.units] if args.units else None,
                           document={key: getattr(args, key) for key, _ in DOCUMENT_FIELDS},
-                          progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]])
+                          progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]], gust=gust)
     print(f"wrote {os.path.join(folder, 'index.html')}")
     return 0

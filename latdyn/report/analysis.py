@@ -64,6 +64,54 @@ class AircraftData:
 
 
 @dataclass(frozen=True)
+class AugmentationData:
+    """One augmented condition of an aircraft (analysed in full or a variant).
+
+    Attributes
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+    condition : latdyn.assessment.ConditionAssessment
+        Its assessment, with the equivalent system and its grades.
+    description : str
+        The augmentation in words (:func:`latdyn.augmentation.describe`).
+    bare_modes, modes : latdyn.modes.ModeSet
+        The bare airframe's modes and the closed loop's.
+    washout : latdyn.augmentation.WashoutEffect or None
+    turbulence : tuple of (condition, label, TurbulenceResult)
+        Augmented and bare RMS (empty without a gust).
+    """
+
+    aircraft: object
+    condition: object
+    description: str
+    bare_modes: object
+    modes: object
+    washout: object
+    turbulence: tuple = ()
+
+
+def _augmentation_data(aircraft, assessment, gust):
+    """AugmentationData of every augmented condition of an aircraft."""
+    from latdyn.augmentation import condition_model, describe, model_modes, washout_effect
+
+    out = []
+    for condition, graded in zip(aircraft.conditions, assessment.conditions):
+        if getattr(condition, "augmentation", None) is None:
+            continue
+        model = condition_model(aircraft, condition)
+        turbulence = ()
+        if gust is not None and aircraft.geometry is not None:
+            from latdyn.turbulence import turbulence_response
+
+            span = aircraft.geometry.span
+            turbulence = ((condition.name, "augmented", turbulence_response(model, gust, span)),
+                          (condition.name, "bare airframe", turbulence_response(model.bare, gust, span)))
+        out.append(AugmentationData(aircraft, graded, describe(condition.augmentation),
+                                    model_modes(model.bare), graded.modes, washout_effect(model), turbulence))
+    return out
+
+
+@dataclass(frozen=True)
 class ReportData:
     """The results a report is built from.
 
@@ -79,6 +127,10 @@ class ReportData:
         Time of the run (ISO 8601, UTC), for the human-readable files only.
     argv : tuple of str or None
         The command line, for the provenance.
+    augmentation : tuple of AugmentationData
+        Every augmented condition of every file (full and variants).
+    gust : latdyn.turbulence.Gust or None
+        The turbulence of the RMS tables, when asked for.
     """
 
     aircraft: tuple
@@ -87,6 +139,8 @@ class ReportData:
     inputs: tuple
     generated: str
     argv: tuple | None = None
+    augmentation: tuple = ()
+    gust: object = None
 
     @property
     def assessments(self) -> list:
@@ -130,7 +184,8 @@ def _condition(aircraft, result, assessment, step):
     return ConditionData(result, assessment, responses, transfers, ratios, buildup)
 
 
-def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, step=None) -> ReportData:
+def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, step=None,
+                   gust=None) -> ReportData:
     """Load and analyse the aircraft files of a report.
 
     Parameters
@@ -147,6 +202,8 @@ def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, 
         The command line, recorded in the provenance.
     step : callable, optional
         Called once per condition analysed (progress).
+    gust : latdyn.turbulence.Gust, optional
+        Turbulence for the RMS of the augmented conditions beside their bare airframes.
 
     Returns
     -------
@@ -180,6 +237,9 @@ def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, 
               for a in [*aircraft_list, *variant_list] for path in a.files]
     inputs += [{"file": path, "sha256": sha256_of(path)}
                for path in (criteria_sets or ()) if os.path.exists(path)]
+    augmentation = []
+    for aircraft, assessment in [*zip(aircraft_list, assessments), *zip(variant_list, variant_assessments)]:
+        augmentation += _augmentation_data(aircraft, assessment, gust)
     return ReportData(tuple(aircraft_data), tuple(zip(variant_list, variant_assessments)),
                       tuple(comparisons), tuple(inputs), now.isoformat(timespec="seconds"),
-                      tuple(argv) if argv else None)
+                      tuple(argv) if argv else None, tuple(augmentation), gust)

@@ -301,6 +301,48 @@ def buildup_blocks(build, name) -> list:
     return blocks
 
 
+def augmentation_section(data, units=DEFAULT) -> list:
+    """Every augmented condition: what the augmentation is, the bare airframe's and the closed loop's
+    modes, the washout's effect, the equivalent low-order system and its grades, the RMS in turbulence."""
+    from latdyn.report.tables import equivalent_table, turbulence_table
+
+    if not data.augmentation:
+        return []
+    blocks = [Heading(2, "Stability augmentation", "augmentation"),
+              Paragraph("Conditions flown with a stability augmentation: the bare airframe's modes, the closed "
+                        "loop's (airframe modes named by following their roots as the gains rise; the roots the "
+                        "augmentation adds listed after them), and the equivalent low-order system fitted to the "
+                        "closed loop's p/da and beta/dr over 0.1 to 10 rad/s (MIL-STD-1797A's approach; forms, "
+                        "range and mismatch weighting from memory), graded with the same criteria. The equivalent "
+                        "delays and the mismatch are indicators, not graded. Guidance only.")]
+    for entry in data.augmentation:
+        graded = entry.condition
+        name = f"{_aircraft_slug(entry.aircraft)}-{slug(graded.name)}-augmentation"
+        assessment = next(a for a in data.assessments if any(c is graded for c in a.conditions))
+        single = replace(assessment, conditions=(graded,))
+        blocks += [Heading(3, f"{entry.aircraft.name}: {graded.name}, augmented", name),
+                   Paragraph(f"Augmentation: {entry.description}."),
+                   mode_table(entry.bare_modes, f"{name}-bare-modes", "Modes of the bare airframe")
+                   .select(MODE_REPORT_VIEW),
+                   mode_table(entry.modes, f"{name}-modes", "Modes of the closed loop").select(MODE_REPORT_VIEW)]
+        if entry.washout is not None:
+            blocks.append(Paragraph(f"Yaw damper and washout: {entry.washout.words()}."))
+        if graded.equivalent is not None:
+            view = single.equivalent_view()
+            blocks += [equivalent_table(single, f"{name}-equivalent"),
+                       assessment_table(view, graded.name, f"{name}-equivalent-assessment",
+                                        "Equivalent system against the criteria (guidance only)")
+                       .select(ASSESSMENT_REPORT_VIEW)]
+        if entry.turbulence:
+            gust = data.gust
+            blocks += [Paragraph(f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2), sigma_v "
+                                 f"{format_number(gust.sigma_v)} m/s, L_v {format_number(gust.scale_length)} m "
+                                 "(given for this report, not taken from the document); rotary gusts in forms "
+                                 "from memory. A neutral or divergent root is left out of the RMS."),
+                       turbulence_table(entry.turbulence, f"{name}-turbulence")]
+    return blocks
+
+
 def warnings_section(data, units=DEFAULT) -> list:
     """Sign warnings of the files, and what is missing for the military criteria."""
     everyone = data.all_aircraft
@@ -328,8 +370,8 @@ def provenance_section(data, units=DEFAULT) -> list:
 
 
 #: The sections of a report, in order.
-SECTIONS = (front_section, conclusions_section, summary_section, comparison_section, aircraft_section, warnings_section,
-            provenance_section)
+SECTIONS = (front_section, conclusions_section, summary_section, comparison_section, augmentation_section,
+            aircraft_section, warnings_section, provenance_section)
 
 
 def results_document(data) -> dict:
@@ -347,6 +389,9 @@ def results_document(data) -> dict:
         "variants": [{"modes": modes_document(v), "assess": s.as_dict()} for v, s in data.variants],
         "comparison": comparison_document(data.comparisons) if data.comparisons else None,
         "inputs": list(data.inputs),
+        "turbulence": [{"aircraft": entry.aircraft.name, "condition": name, "model": label,
+                        "turbulence": result.as_dict(), "turbulence_notes": result.notes()}
+                       for entry in data.augmentation for name, label, result in entry.turbulence],
     }
 
 

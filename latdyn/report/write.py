@@ -72,7 +72,7 @@ def shows_level(table) -> bool:
 
 
 def write_report(files, output, variants=(), criteria_sets=None, force=False, progress=None,
-                 argv=None, units=None, document=None) -> str:
+                 argv=None, units=None, document=None, gust=None) -> str:
     """Analyse aircraft files and write their report folder atomically.
 
     Parameters
@@ -96,6 +96,8 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
     document : dict, optional
         The document block (title, number, revision, date, prepared, checked,
         approved; :data:`latdyn.report.content.DOCUMENT_FIELDS`).
+    gust : latdyn.turbulence.Gust, optional
+        Turbulence for the RMS tables of the augmented conditions.
 
     Returns
     -------
@@ -134,7 +136,7 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         progress = sys.stderr.isatty()
     bar = _progress(None, progress)
     try:
-        data = analyse_report(files, variants, criteria_sets, argv=argv, step=lambda: bar.update(1))
+        data = analyse_report(files, variants, criteria_sets, argv=argv, step=lambda: bar.update(1), gust=gust)
         report = report_content(data, units, document)
         bar.total = data.condition_count + len(report.figures)
         bar.refresh()
