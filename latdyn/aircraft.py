@@ -17,7 +17,7 @@ from dataclasses import dataclass, fields, replace
 
 from latdyn import atmosphere, units
 from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, STALL_SPEED_KEYS,
-                                  UNCERTAIN_KEYS, Leaf, form_unit, read_tree)
+                                  UNCERTAIN_KEYS, Leaf, form_unit, plausible_range, read_tree)
 from latdyn.errors import InputError, describe_value
 
 __all__ = [
@@ -717,7 +717,23 @@ def _number(table, key, dotted, context, dimension="none", required=True, defaul
         context.fail(dotted, "a finite number", describe_value(leaf.value), leaf)
     if positive and value <= 0.0:
         context.fail(dotted, "a number > 0", describe_value(leaf.value), leaf)
-    return units.to_si(value, dimension, leaf.units)
+    si = units.to_si(value, dimension, leaf.units)
+    _check_plausible(si, dimension, dotted, context, leaf)
+    return si
+
+
+def _check_plausible(si, dimension, dotted, context, leaf=None):
+    """Refuse a number outside :func:`latdyn.aircraft_file.plausible_range` of its dimension."""
+    low, high = plausible_range(dimension)
+    if si != 0.0 and not low <= abs(si) <= high:
+        file_units = leaf.units if isinstance(leaf, Leaf) else "SI"
+        word = units.unit_word(dimension, file_units) if dimension in units.UNIT_WORDS else ""
+        shown = [units.from_si(x, dimension, file_units) if dimension in units.DIMENSION_FACTORS else x
+                 for x in (low, high)]
+        found = describe_value(leaf.value) if isinstance(leaf, Leaf) else f"{si:g}"
+        context.fail(dotted, f"0 or a magnitude from {shown[0]:.3g} to {shown[1]:.3g}"
+                     f"{' ' + word if word else ''} (a plausible range, far beyond any aircraft)",
+                     found, leaf)
 
 
 def _word(table, key, dotted, context, choices=None, required=True, default=None):

@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml
 
-__all__ = ["Leaf", "SCHEMA", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
+__all__ = ["Leaf", "SCHEMA", "PLAUSIBLE_RANGES", "plausible_range", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
            "given_values", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
            "GEOMETRY_TABLES", "STALL_SPEED_KEYS", "ENGINE_KEYS", "LIST_TABLES", "read_tree",
            "MAX_FILE_BYTES"]
@@ -160,6 +160,32 @@ SCHEMA = {
 
 #: The geometry tables read by the estimation stage (latdyn.estimation).
 GEOMETRY_TABLES = ("wing", "fuselage", "fin", "aileron")
+
+#: Plausible magnitudes of a number of each physical dimension, SI: (least, largest) of |x|
+#: for x != 0 (zero passes wherever the key's own rule allows it).  Far beyond any aircraft
+#: (a 1 mg insect robot to a 10,000 t airship), short of overflow, so that 1e200 or 1e-300
+#: anywhere in a file is one clear line instead of an overflow later.  Every number the
+#: loader reads (latdyn.aircraft) is checked against its key's dimension in SCHEMA; a
+#: dimension without a row gets DEFAULT_PLAUSIBLE.  Add a row with a new dimension.
+PLAUSIBLE_RANGES = {
+    "none": (1e-30, 1e6),            # coefficients, dimensional derivatives, ratios, Mach
+    "length": (1e-6, 1e7), "area": (1e-10, 1e10), "volume": (1e-12, 1e12),
+    "mass": (1e-6, 1e10), "inertia": (1e-12, 1e14), "density": (1e-9, 1e5),
+    "speed": (1e-6, 1e6), "knots": (1e-6, 1e6), "acceleration": (1e-30, 1e8),
+    "per_length": (1e-30, 1e8), "force": (1e-30, 1e12), "force_per_speed": (1e-30, 1e12),
+    "impulse": (1e-30, 1e12), "moment": (1e-30, 1e14), "moment_time": (1e-30, 1e14),
+}
+DEFAULT_PLAUSIBLE = (1e-30, 1e12)
+
+
+def plausible_range(dimension) -> tuple:
+    """(least, largest) plausible magnitude of a number of this dimension, SI (:data:`PLAUSIBLE_RANGES`).
+
+    >>> plausible_range("mass")
+    (1e-06, 10000000000.0)
+    """
+    return PLAUSIBLE_RANGES.get(dimension, DEFAULT_PLAUSIBLE)
+
 
 #: Keys that may carry an uncertainty, with the dimension of an absolute amount.
 UNCERTAIN_KEYS = {

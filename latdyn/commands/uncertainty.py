@@ -56,7 +56,11 @@ def run(args):
         title = f"{aircraft.name}  ({aircraft.file})"
         head = [] if style == "csv" else [
             f"## {escape_markdown(title)}" if markdown else title,
-            f"{result.samples} samples per condition, seed {result.seed}"]
+            f"{result.samples} samples per condition, seed {result.seed}",
+            *[f'condition "{item.condition.name}": {item.excluded} samples left the file\'s rules '
+              f"and were not analysed (" + "; ".join(f"{rule}: {count}" for rule, count
+                                                  in (item.excluded_rules or {}).items()) + ")"
+              for item in result.conditions if item.excluded]]
         separator = "\n\n" if markdown else "\n"
         text = separator.join([*head, render(levels, style), render(figures, style), notice])
     if args.plot:

@@ -145,11 +145,18 @@ def eigenvalue_derivatives(A, dA, roots) -> np.ndarray:
     [[1.0, 0.0]]
     """
     values, right = np.linalg.eig(np.asarray(A, dtype=float))
+    dA = np.asarray(dA, dtype=float)
+    # a defective (multiple) root has no independent eigenvectors: its eigenvalue is not
+    # differentiable and the derivative is NaN, not a traceback from a singular inverse
+    if not np.isfinite(right).all() or np.linalg.cond(right) * np.finfo(float).eps >= 1.0:
+        return np.full((len(dA), len(roots)), np.nan + 0j)
     left = np.linalg.inv(right)  # rows are w^H, normalised so that w^H v = 1
     index = [int(np.argmin(np.abs(values - complex(root)))) for root in roots]
     v = right[:, index]  # (4, R)
     w = left[index, :]  # (R, 4)
-    return np.einsum("ri,pij,jr->pr", w, np.asarray(dA, dtype=float), v)
+    out = np.einsum("ri,pij,jr->pr", w, dA, v)
+    out[:, ~np.isfinite(np.asarray(roots, dtype=complex))] = np.nan
+    return out
 
 
 def _pair(l1, l2, d1, d2):
@@ -178,28 +185,36 @@ class Sensitivity:
     normalised : float or None
         (parameter / figure) d figure / d parameter [% per %]; None where the
         parameter or the figure is zero.
+    note : str or None
+        Why the derivative is None (a multiple root is not differentiable).
     """
 
     figure: str
     parameter: str
     value: float
     figure_value: float
-    derivative: float
+    derivative: float | None
     normalised: float | None
+    note: str | None = None
 
     @property
     def improves_when(self) -> str | None:
         """"increased" or "decreased": the change of the parameter that moves the figure
         away from the level boundaries (:data:`BETTER`); None where it has no effect."""
+        if self.derivative is None:
+            return None
         sign = BETTER.get(self.figure, 0) * self.derivative
         if sign == 0 or not math.isfinite(sign):
             return None
         return "increased" if sign > 0 else "decreased"
 
     def as_dict(self) -> dict:
-        return {"figure": self.figure, "parameter": self.parameter, "value": self.value,
-                "figure_value": self.figure_value, "derivative": self.derivative,
-                "normalised": self.normalised, "improves_when": self.improves_when}
+        out = {"figure": self.figure, "parameter": self.parameter, "value": self.value,
+               "figure_value": self.figure_value, "derivative": self.derivative,
+               "normalised": self.normalised, "improves_when": self.improves_when}
+        if self.note:
+            out["note"] = self.note
+        return out
 
 
 @dataclass(frozen=True)
@@ -285,12 +300,21 @@ def condition_sensitivities(aircraft, condition) -> ConditionSensitivities:
         for p, name in enumerate(names):
             nominal = _nominal(aircraft, condition, name)
             slope = float(derivative[p])
+            if not (math.isfinite(slope) and math.isfinite(float(value))):
+                rows.append(Sensitivity(figure, name, nominal, _finite_or_none(value), None, None,
+                                        "not differentiable here (a multiple or unresolved root)"))
+                continue
             normalised = (nominal / float(value) * slope) if nominal != 0 and value != 0 else None
             rows.append(Sensitivity(figure, name, nominal, float(value), slope, normalised))
         rows.sort(key=lambda s: (-abs(s.normalised) if s.normalised is not None else math.inf,
-                                 -abs(s.derivative)))
+                                 -abs(s.derivative or 0.0)))
         items += rows
     return ConditionSensitivities(condition, tuple(items), PATTERNS[pattern])
+
+
+def _finite_or_none(value):
+    value = float(value)
+    return value if math.isfinite(value) else None
 
 
 def sensitivities(aircraft, condition=None) -> tuple:

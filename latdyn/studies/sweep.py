@@ -23,6 +23,7 @@ import numpy as np
 from latdyn.errors import InputError
 from latdyn.studies.batch import condition_set, parameter_names, run_batch, sweep_notes
 from latdyn.studies.keys import StudyKey, file_units, resolve_key
+from latdyn.studies.rules import check_grid
 
 __all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
            "find_crossings", "boundary_name", "MAX_POINTS", "level_text",
@@ -407,6 +408,7 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
                      for key, start, stop, count in ranges)
         if len({axis.key.name for axis in axes}) != len(axes):
             raise InputError(aircraft.file, "--vary", "two different keys", "the same key twice")
+        check_grid(aircraft, item, axes)
         mesh = np.meshgrid(*[axis.values for axis in axes], indexing="ij")
         cases = condition_set(aircraft, item, _overrides(axes, [m.ravel() for m in mesh]))
         result = run_batch(cases, sets, progress=progress, path=len(axes) == 1)

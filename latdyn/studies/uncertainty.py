@@ -26,6 +26,7 @@ from latdyn.aircraft import DISTRIBUTIONS, Uncertainty
 from latdyn.errors import InputError
 from latdyn.studies.batch import FIGURES, condition_set, iterate_batch, parameter_names
 from latdyn.studies.keys import file_units, resolve_key
+from latdyn.studies.rules import sample_rules
 
 __all__ = ["parse_uncertainty", "condition_uncertainties", "draw_samples", "ConditionUncertainty",
            "UncertaintyResult", "uncertainty", "level_probabilities", "standard_errors",
@@ -152,7 +153,8 @@ def draw_samples(aircraft, condition, uncertainties, samples, seed) -> dict:
             error = rng.standard_normal(samples)
         else:
             error = rng.uniform(-1.0, 1.0, samples)
-        out[item.key] = nominal + scale * error
+        with np.errstate(over="ignore", invalid="ignore"):  # left to the file's rules
+            out[item.key] = nominal + scale * error
     return out
 
 
@@ -289,6 +291,11 @@ class ConditionUncertainty:
         (criteria name, mode) -> :func:`level_probabilities`.
     percentiles : dict
         Figure name -> :func:`figure_percentiles`.
+    excluded : int
+        Samples that left the file's rules (:func:`latdyn.studies.rules.sample_rules`):
+        counted here, never passed to the solver; the probabilities are over the others.
+    excluded_rules : dict
+        Rule (in words) -> samples that left it.
     """
 
     condition: object
@@ -296,6 +303,8 @@ class ConditionUncertainty:
     figures: object
     probabilities: dict
     percentiles: dict
+    excluded: int = 0
+    excluded_rules: dict | None = None
 
     def __iter__(self):
         return iter((self.condition, self.probabilities, self.percentiles))
@@ -381,13 +390,24 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
                              "an [uncertainty.KEY] table in the file or --vary KEY=±AMOUNT",
                              "no uncertainty for this condition's derivatives", item.name)
         drawn = draw_samples(aircraft, item, specs, samples, seed)
+        valid, excluded = sample_rules(aircraft, item, drawn)
+        kept = int(np.count_nonzero(valid))
+        if kept == 0:
+            worst = max(excluded, key=excluded.get)
+            raise InputError(aircraft.file, "--vary",
+                             "uncertainties whose samples pass the file's rules",
+                             f"all {samples} samples leave them ({worst}: {excluded[worst]})",
+                             item.name)
+        if kept < samples:  # samples that leave the file's rules never reach the solver
+            drawn = {k: v[valid] for k, v in drawn.items()}
         counts, figures = stream_samples(condition_set(aircraft, item, drawn), sets, progress)
         probabilities = {}
         for (name, mode), count in counts.items():
             criteria = next(c for c in sets if c.name == name)
             probabilities[(name, mode)] = probabilities_from_counts(criteria, count)
         percentiles = {name: figure_percentiles(getattr(figures, name)) for name in FIGURES}
-        items.append(ConditionUncertainty(item, specs, figures, probabilities, percentiles))
+        items.append(ConditionUncertainty(item, specs, figures, probabilities, percentiles,
+                                          samples - kept, excluded))
     return UncertaintyResult(aircraft, samples, seed, sets, tuple(items))
 
 
@@ -404,8 +424,9 @@ def uncertainty_document(result: UncertaintyResult) -> dict:
             "name": item.condition.name, "category": item.condition.flight.category,
             "uncertainties": [{"key": u.key, "kind": u.kind, "amount": u.amount,
                                "distribution": u.distribution} for u in item.uncertainties],
+            "excluded_samples": {"count": item.excluded, "rules": dict(item.excluded_rules or {})},
             "levels": [{"criteria": name, "mode": mode, "probabilities": p,
-                        "standard_error": standard_errors(p, result.samples)}
+                        "standard_error": standard_errors(p, result.samples - item.excluded)}
                        for (name, mode), p in item.probabilities.items()],
             "figures": {name: {"unit": FIGURES[name], **values}
                         for name, values in item.percentiles.items()},
