@@ -736,6 +736,16 @@ def _check_plausible(si, dimension, dotted, context, leaf=None):
                      found, leaf)
 
 
+def _free_text(table, key, dotted, context):
+    """An optional free-text value (a description): text in quotes, or None when absent."""
+    leaf = table.get(key)
+    if leaf is None:
+        return None
+    if not isinstance(leaf.value, str):
+        context.fail(dotted, "a text in quotes", describe_value(leaf.value), leaf)
+    return leaf.value
+
+
 def _word(table, key, dotted, context, choices=None, required=True, default=None):
     leaf = table.get(key)
     if leaf is None:
@@ -790,10 +800,16 @@ def _mass(tree, context):
     Ixz = _number(table, "Ixz", "mass.Ixz", context, "inertia", required=False, default=0.0)
     if Ixz**2 >= Ixx * Izz:
         leaf = table["Ixz"]
-        context.fail("mass.Ixz", "Ixz^2 < Ixx Izz (a physical inertia)",
+        # blame the file that broke the rule: the newest of the three values (a variant that
+        # changes Ixx against the base's Ixz is the variant's mistake)
+        newest = min((table[k] for k in ("Ixz", "Ixx", "Izz")),
+                     key=lambda item: context.files.index(item.file)
+                     if item.file in context.files else len(context.files))
+        key = next(k for k in ("Ixz", "Ixx", "Izz") if table[k] is newest)
+        context.fail(f"mass.{key}", "Ixz^2 < Ixx Izz (a physical inertia)",
                      f"Ixz = {describe_value(leaf.value)} with Ixx = "
                      f"{describe_value(table['Ixx'].value)}, Izz = {describe_value(table['Izz'].value)}",
-                     leaf)
+                     newest)
     axes = _word(table, "inertia_axes", "mass.inertia_axes", context, AXES,
                  required=False, default="body")
     return MassProperties(mass, Ixx, Izz, Ixz, axes)
@@ -1207,12 +1223,12 @@ def _flight(entry, name, context):
         context.fail("condition.gamma_deg", "a pitch attitude alpha + gamma between -90 and 90 degrees",
                      f"{units.deg(angles['alpha_deg'] + angles['gamma_deg']):g} degrees",
                      entry.get("gamma_deg"))
-    description = entry.get("description")
+    description = _free_text(entry, "description", "condition.description", context)
     return FlightCondition(
         name=name, category=category, altitude=altitude, density=density, speed=speed,
         mach=mach, speed_of_sound=speed_of_sound, alpha=angles["alpha_deg"],
         gamma=angles["gamma_deg"],
-        description=description.value if isinstance(description, Leaf) else None,
+        description=description,
         flight_phase=flight_phase,
     )
 
@@ -1416,11 +1432,11 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
                                         context, stall_speeds)
         conditions.append((flight, derivatives, condition_controls, augmentation, condition_stall))
         context = _Context(files)
-    description = tree.get("description")
+    description = _free_text(tree, "description", "description", context)
     aircraft = Aircraft(
         name=name, airplane_class=airplane_class, geometry=geometry, mass=mass,
         conditions=(), files=tuple(files), warnings=(),
-        description=description.value if isinstance(description, Leaf) else None,
+        description=description,
         fin=_fin(tree, context), uncertainties=_uncertainties(tree, context),
         controls=controls, wing=wing, fuselage=_fuselage(tree, context),
         aileron=_aileron(tree, context, half_span), units=tree.get("__units__", "SI"),

@@ -20,7 +20,7 @@ import os
 from dataclasses import dataclass
 
 from latdyn.errors import InputError, describe_value
-from latdyn.input_files import parse_toml
+from latdyn.input_files import parse_toml, special_file_kind
 
 __all__ = ["Leaf", "SCHEMA", "PLAUSIBLE_RANGES", "plausible_range", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
            "given_values", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
@@ -322,6 +322,9 @@ def _read_toml(path: str, referrer=None) -> dict:
         raise InputError(where[0], where[1], "an existing file", f"no file {path}")
     if os.path.isdir(path):
         raise InputError(path, None, "a TOML file", "a folder")
+    special = special_file_kind(path)
+    if special:  # refused before opening: a FIFO would block for ever
+        raise InputError(path, None, "a regular TOML file", special)
     size = os.path.getsize(path)
     if size > MAX_FILE_BYTES:
         raise InputError(path, None, f"a TOML file of at most {MAX_FILE_BYTES // 1048576} MB",

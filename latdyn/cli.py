@@ -99,6 +99,22 @@ def parse_arguments(argv) -> argparse.Namespace:
     return args
 
 
+#: Options whose value is a name or a path: an empty value is refused (it would mean "all
+#: conditions" or the current folder by accident).  Attribute name -> option as typed.
+_NAMED_OPTIONS = {"condition": "--condition", "output": "-o", "plots": "-o/--plots",
+                  "plot": "-o/--plot", "csv": "--csv", "bode": "--bode", "inputs": "--input",
+                  "criteria": "--criteria", "compare": "--compare", "data": "--data"}
+
+
+def _refuse_empty_values(args):
+    """One line for an option given an empty (or blank) name or path, before any work."""
+    for attribute, option in _NAMED_OPTIONS.items():
+        value = getattr(args, attribute, None)
+        values = value if isinstance(value, list) else [value]
+        if any(isinstance(v, str) and not v.strip() for v in values):
+            raise InputError("command line", option, "a name or path", "an empty value")
+
+
 def main(argv=None) -> int:
     """Run ``latdyn`` with the given arguments; return the exit status."""
     args = parse_arguments(sys.argv[1:] if argv is None else argv)
@@ -107,6 +123,7 @@ def main(argv=None) -> int:
         with warnings.catch_warnings():
             # the commands print these texts themselves (from Aircraft.warnings and the read-outs)
             warnings.simplefilter("ignore", LatdynWarning)
+            _refuse_empty_values(args)
             status = _command_module(args.command).run(args)
     except (InputError, UnresolvedRoots) as error:
         if debug:

@@ -79,7 +79,17 @@ def format_problem(file, key, expected, found, condition=None) -> str:
         parts.append(f'condition "{condition}"')
     if key:
         parts.append(str(key))
-    return ": ".join(parts) + f": expected {expected}, found {found}"
+    # one line whatever the names hold: line breaks in a file, condition or value shown escaped
+    return _one_line(": ".join(parts) + f": expected {expected}, found {found}")
+
+
+def _one_line(text):
+    """Line breaks and other control characters shown escaped (\\n, \\r, \\x1b)."""
+    if text.isprintable():
+        return text
+    return "".join(c if c.isprintable() or c == " " else
+                   {"\n": "\\n", "\r": "\\r", "\t": "\\t"}.get(c, f"\\x{ord(c):02x}")
+                   for c in text)
 
 
 class InputError(ValueError):

@@ -14,10 +14,38 @@ import tomllib
 
 from latdyn.errors import InputError
 
-__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES"]
+__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES", "special_file_kind"]
 
 #: Largest input text file read [bytes] (the aircraft loader has its own limit).
 MAX_INPUT_BYTES = 64 * 1024 * 1024
+
+
+def special_file_kind(path):
+    """What a path is when it exists and is not a regular file or folder ("a FIFO (named pipe)", ...), else None.
+
+    Found with ``os.stat`` (symbolic links followed), without opening the
+    file, so a FIFO is refused at once instead of blocking the reader.
+
+    Examples
+    --------
+    >>> special_file_kind("/dev/null")
+    'a device'
+    """
+    import stat
+
+    try:
+        mode = os.stat(path).st_mode
+    except OSError:
+        return None
+    if stat.S_ISREG(mode) or stat.S_ISDIR(mode):
+        return None
+    if stat.S_ISFIFO(mode):
+        return "a FIFO (named pipe)"
+    if stat.S_ISCHR(mode) or stat.S_ISBLK(mode):
+        return "a device"
+    if stat.S_ISSOCK(mode):
+        return "a socket"
+    return "not a regular file"
 
 
 def read_input_text(path, kind, max_bytes=MAX_INPUT_BYTES, missing=None) -> str:
@@ -58,6 +86,9 @@ def read_input_text(path, kind, max_bytes=MAX_INPUT_BYTES, missing=None) -> str:
     file = os.fspath(path)
     if os.path.isdir(file):
         raise InputError(file, None, f"a {kind}", "a folder")
+    special = special_file_kind(file)
+    if special:  # refused before opening: a FIFO would block for ever
+        raise InputError(file, None, f"a regular {kind}", special)
     try:
         size = os.path.getsize(file)
         if size > max_bytes:

@@ -222,6 +222,13 @@ def run(args):
             if name not in names and not args.condition:
                 raise InputError(path, "--flight-phase", "the name of a condition of the file ("
                                  + ", ".join(sorted(names)) + ")", f'"{name}"')
+        for condition in aircraft.conditions:  # the file's rule: sub-phases of Category A only
+            if condition.name in phases and condition.flight.category != "A":
+                category = condition.flight.category
+                raise InputError(path, "--flight-phase",
+                                 'a condition of category "A" (combat and ground attack are '
+                                 "Category A phases)",
+                                 f"category {category or 'not given'}", condition.name)
         results.append(assess(aircraft, criteria, phases))
     if args.format == "json":
         documents = [r.as_dict() for r in results]
