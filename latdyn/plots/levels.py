@@ -67,6 +67,44 @@ def _dutch_roll_grid(criteria, airplane_class, category, omega, zeta):
     return np.where(same, stack[0], 0)
 
 
+def _exact_boundaries(axis, criteria, airplane_class, category, omega_top, zeta_top):
+    """Draw each level's Dutch roll boundary from its equation; False when it is not one curve.
+
+    The boundary of a band is zeta_d = max(zeta_min, (zeta omega)_min / omega_nd) (capped
+    where the criteria cap the damping required) for omega_nd above omega_min, and the
+    vertical omega_nd = omega_min: a hyperbola joined to a horizontal line, drawn on a
+    fine geometric grid instead of read off the level grid.
+    """
+    from latdyn.levels import select_bands
+
+    if not airplane_class or not category:
+        return False  # the regions depend on a class or category that is not given
+    selection = select_bands(criteria, "dutch_roll", airplane_class, category)
+    if selection.undefined:
+        return False
+    limits = selection.limits
+    least_zeta = np.atleast_1d(np.asarray(limits.min_damping_ratio, float))
+    least_product = np.atleast_1d(np.asarray(limits.min_zeta_omega, float))
+    least_omega = np.atleast_1d(np.asarray(limits.min_natural_frequency, float))
+    cap = float(limits.damping_ratio_cap)
+    for grade in range(least_zeta.shape[-1]):
+        start = least_omega[grade] if np.isfinite(least_omega[grade]) else 0.0
+        omega = np.geomspace(max(start, 1e-3 * omega_top), omega_top, 800)
+        zeta = np.full(omega.shape, -np.inf)
+        if np.isfinite(least_zeta[grade]):
+            zeta = np.fmax(zeta, least_zeta[grade])
+        if np.isfinite(least_product[grade]):
+            zeta = np.fmax(zeta, least_product[grade] / omega)
+        if np.isfinite(cap):
+            zeta = np.fmin(zeta, cap)
+        if np.all(np.isfinite(zeta)):
+            axis.plot(omega, np.minimum(zeta, 2.0 * zeta_top), color=MUTED, linewidth=0.9, zorder=3)
+        if start > 0.0:
+            bottom = zeta[0] if np.isfinite(zeta[0]) else -1.0
+            axis.plot([start, start], [bottom, 2.0 * zeta_top], color=MUTED, linewidth=0.9, zorder=3)
+    return True
+
+
 def _label_regions(axis, level, extent):
     """Write each region's level in words at its most interior point."""
     from scipy.ndimage import distance_transform_edt
@@ -144,8 +182,10 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360):
             colours = ListedColormap([UNDECIDED] + [LEVEL_COLOURS[k] for k in (1, 2, 3, 4)])
             axis.imshow(level, origin="lower", extent=extent, aspect="auto", cmap=colours,
                         vmin=-0.5, vmax=4.5, interpolation="nearest")
-            axis.contour(omega_grid, zeta_grid, level, levels=[0.5, 1.5, 2.5, 3.5], colors=MUTED,
-                         linewidths=0.7)
+            if not _exact_boundaries(axis, criteria, result.airplane_class, category, omega_top,
+                                     zeta_top):
+                axis.contour(omega_grid, zeta_grid, level, levels=[0.5, 1.5, 2.5, 3.5], colors=MUTED,
+                             linewidths=0.7)
             _label_regions(axis, level, extent)
             if (level == 0).any():
                 missing = "class" if not result.airplane_class else "category"
