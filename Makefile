@@ -29,8 +29,7 @@ demo: $(STAMP)
 	$(BIN)/latdyn sweep $(DEMO_YAW_DAMPER) --vary augmentation.yaw_damper_gain=0:0.2:11 --condition cruise
 	$(BIN)/latdyn turbulence $(DEMO_YAW_DAMPER) $(DEMO_GUST) --condition cruise
 	$(BIN)/latdyn report $(DEMO_BASE) $(addprefix --compare ,$(DEMO_VARIANTS)) -o reports/demo --force --progress $(DEMO_GUST)
-	$(BIN)/latdyn identify $(DEMO_BASE) --condition cruise $(DEMO_FLIGHT_TEST) -o reports/kestrel-k40-identified.toml --plot reports/kestrel-k40-identification.png
-	$(BIN)/latdyn compare $(DEMO_BASE) reports/kestrel-k40-identified.toml
+	$(BIN)/latdyn identify $(DEMO_BASE) --condition cruise $(DEMO_FLIGHT_TEST) --report reports/flight-test --force
 
 test: $(STAMP)
 	$(BIN)/python -m pytest

@@ -391,3 +391,49 @@ def test_identify_refuses_to_overwrite_an_input(tmp_path):
     run = _latdyn("identify", target, "--data", RECORDS[0], "-o", target)
     assert run.returncode == 2 and "not one of the inputs" in run.stderr
     assert target.read_bytes() == DEMO.read_bytes().replace(b'"../', b'"')
+
+
+def test_identify_report_folder(tmp_path):
+    """--report: the flight-test report (HTML, Markdown, CSV, JSON, figure) with the identified variant
+    aircraft file in the folder and the aircraft re-graded with it; guidance notice on the page."""
+    folder = tmp_path / "flight-test"
+    run = _latdyn("identify", DEMO, "--condition", "cruise", "--data", RECORDS[0], "--data", RECORDS[1],
+                  "--report", folder)
+    assert run.returncode == 0, run.stderr
+    for name in ("index.html", "report.md", "results.json", "kestrel-k40-identified.toml",
+                 "figures/cruise-identification.png", "figures/cruise-identification.svg",
+                 "tables/cruise-derivatives.csv", "tables/cruise-regrading-levels.csv"):
+        assert (folder / name).is_file(), name
+    page = (folder / "index.html").read_text(encoding="utf-8")
+    assert "GUIDANCE ONLY" in page and "Re-graded with the identified derivatives" in page
+    document = json.loads((folder / "results.json").read_text())
+    assert document["derivatives"]["Cn_beta"]["predicted"] == pytest.approx(0.112)
+    assert document["comparison"]["comparisons"][0]["variant"]["file"].endswith("kestrel-k40-identified.toml")
+    variant = load_aircraft(folder / "kestrel-k40-identified.toml")
+    assert variant.condition("cruise").derivatives.Cn_beta == pytest.approx(
+        document["derivatives"]["Cn_beta"]["value"], rel=1e-5)
+    again = _latdyn("identify", DEMO, "--data", RECORDS[0], "--report", folder)
+    assert again.returncode == 2 and "--force" in again.stderr
+    assert (folder / "index.html").read_text(encoding="utf-8") == page
+
+
+def test_identify_report_refuses_a_folder_holding_the_inputs(tmp_path):
+    data = tmp_path / "record.csv"
+    data.write_bytes(RECORDS[0].read_bytes())
+    run = _latdyn("identify", DEMO, "--data", data, "--report", tmp_path, "--force")
+    assert run.returncode == 2 and "holds none of the inputs" in run.stderr
+    assert data.read_bytes() == RECORDS[0].read_bytes()
+
+
+def test_identification_report_content_needs_no_matplotlib():
+    """The report's content is data: built without importing matplotlib (subprocess)."""
+    code = ("import sys; from latdyn.aircraft import load_aircraft; from latdyn.flight_data import read_flight_csv; "
+            "from latdyn.identification import identify, identified_model; from latdyn.model import lateral_model; "
+            "from latdyn.modes import find_modes; from latdyn.report.flight_test import identification_content; "
+            f"a = load_aircraft({str(DEMO)!r}); r = identify(a, 'cruise', [read_flight_csv({str(RECORDS[0])!r})]); "
+            "m = lateral_model(a, 'cruise'); "
+            "rep = identification_content(a, r, find_modes(m), find_modes(identified_model(m, r))); "
+            "assert len(rep.tables) == 4 and len(rep.figures) == 1; "
+            "assert 'matplotlib' not in sys.modules, 'matplotlib imported'")
+    run = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT)
+    assert run.returncode == 0, run.stderr

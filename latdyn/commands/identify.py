@@ -11,23 +11,12 @@ responses with the residuals.  All numbers come from the library.
 from __future__ import annotations
 
 import json
+import os
 import sys
 
-__all__ = ["add_arguments", "run", "derivative_rows", "fit_rows", "mode_rows", "identify_document"]
+__all__ = ["add_arguments", "run", "identify_document"]
 
 FORMATS = ("table", "markdown", "csv", "json")
-
-DERIVATIVE_COLUMNS = (("derivative", "Derivative"), ("unit", "Unit"), ("value", "Identified"),
-                      ("standard_error", "Std. error"), ("predicted", "Predicted"),
-                      ("difference", "Difference"), ("sigmas", "Difference [std. errors]"),
-                      ("status", "Status"))
-FIT_COLUMNS = (("channel", "Channel"), ("unit", "Unit"), ("rms_residual", "RMS residual"),
-               ("r_squared", "R^2 [-]"), ("lag1_autocorrelation", "Lag-1 autocorrelation [-]"))
-MODE_COLUMNS = (("figure", "Mode figure"), ("unit", "Unit"), ("predicted", "Predicted"),
-                ("identified", "Identified"))
-
-_CHANNEL_NAMES = {"beta": "sideslip", "p": "roll rate", "r": "yaw rate", "phi": "bank",
-                  "ny": "lateral load factor"}
 
 
 def add_arguments(parser):
@@ -48,6 +37,10 @@ def add_arguments(parser):
     parser.add_argument("-o", "--output", metavar="OUT.toml",
                         help="write a variant aircraft file (extends FILE) with the identified derivatives")
     parser.add_argument("--plot", metavar="OUT", help="write measured against identified responses (.png, .svg, .pdf)")
+    parser.add_argument("--report", metavar="FOLDER",
+                        help="write a flight-test report folder (HTML, Markdown, CSV, JSON, figures) with the "
+                             "identified variant aircraft file and the aircraft re-graded with it")
+    parser.add_argument("--force", action="store_true", help="replace an existing --report folder")
 
 
 def _columns(items):
@@ -63,60 +56,6 @@ def _columns(items):
     return mapping
 
 
-def derivative_rows(estimates, dimensional=False):
-    """Rows (raw values) of the derivative table."""
-    from latdyn.model import DIMENSIONAL_UNITS
-
-    rows = []
-    for item in estimates:
-        if item.fixed:
-            status = "held at the prediction"
-        elif not item.identifiable:
-            status = f"NOT identifiable: {item.note}"
-        else:
-            status = "identified"
-        difference = None if item.fixed or item.predicted is None else item.value - item.predicted
-        rows.append({"derivative": item.name,
-                     "unit": DIMENSIONAL_UNITS[item.name] if dimensional else "1/rad",
-                     "value": item.value, "standard_error": item.standard_error,
-                     "predicted": item.predicted, "difference": difference,
-                     "sigmas": item.difference_in_standard_errors, "status": status})
-    return rows
-
-
-def fit_rows(result):
-    """Rows (raw values, display units) of the fit table."""
-    from latdyn.display import SI, SIGNAL_QUANTITIES
-
-    rows = []
-    for channel, stats in result.fit["channels"].items():
-        quantity = SIGNAL_QUANTITIES[channel]
-        rows.append({"channel": _CHANNEL_NAMES[channel], "unit": SI.label(quantity),
-                     "rms_residual": SI.convert(stats["rms_residual"], quantity),
-                     "r_squared": stats["r_squared"], "lag1_autocorrelation": stats["lag1_autocorrelation"]})
-    return rows
-
-
-def mode_rows(predicted, identified):
-    """Rows of the mode figures of the file's model and the identified model."""
-    rows = []
-    for name, label in (("dutch_roll", "Dutch roll"), ("roll_subsidence", "Roll"), ("spiral", "Spiral"),
-                        ("roll_spiral", "Roll-spiral")):
-        before, after = predicted.get(name), identified.get(name)
-        if before is None and after is None:
-            continue
-        figures = (("natural_frequency", "omega_n", "rad/s"), ("damping_ratio", "zeta", "-")) \
-            if name in ("dutch_roll", "roll_spiral") else (
-                ("time_constant", "T", "s"), ("time_to_double", "T_double", "s"))
-        for key, symbol, unit in figures:
-            values = [getattr(mode, key) if mode is not None else None for mode in (before, after)]
-            if all(v is None for v in values):
-                continue
-            rows.append({"figure": f"{label} {symbol}", "unit": unit, "predicted": values[0],
-                         "identified": values[1]})
-    return rows
-
-
 def identify_document(aircraft, result, predicted_modes, identified_modes) -> dict:
     """The ``--format json`` document (SI, radians; non-dimensional derivatives per radian)."""
     from latdyn import __version__
@@ -130,17 +69,13 @@ def identify_document(aircraft, result, predicted_modes, identified_modes) -> di
             "nondimensional": result.nondimensional is not None,
             "dimensional": {item.name: item.as_dict() for item in result.derivatives},
             "axes": result.axes,
-            "fit": _json_fit(result.fit),
+            "fit": dict(result.fit),
             "modes": {"predicted": [m.as_dict() for m in predicted_modes],
                       "identified": [m.as_dict() for m in identified_modes]},
             "records": [r.file for r in result.records],
             "notes": list(result.notes),
         }],
     }
-
-
-def _json_fit(fit):
-    return {key: value for key, value in fit.items()}
 
 
 def run(args):
@@ -151,6 +86,9 @@ def run(args):
     from latdyn.model import lateral_model
     from latdyn.modes import find_modes
     from latdyn.output_files import check_output_file
+    from latdyn.report.render import render, render_csv
+    from latdyn.report.tables import (identification_fit_table, identified_derivative_table,
+                                      identified_mode_table)
 
     for option, path, figure in (("-o", args.output, False), ("--plot", args.plot, True)):
         if path:
@@ -160,13 +98,19 @@ def run(args):
     columns = _columns(args.column)
     aircraft = load_aircraft(args.file)
     condition = aircraft.condition(args.condition) if args.condition else aircraft.conditions[0]
-    import os
-
     inputs = {os.path.realpath(p) for p in (*aircraft.files, *args.data)}
     for option, path in (("-o", args.output), ("--plot", args.plot)):
         if path and os.path.realpath(path) in inputs:
             raise InputError(path, option, "an output path that is not one of the inputs",
                              "the path of an input file")
+    if args.report:
+        folder = os.path.realpath(args.report)
+        if os.path.exists(folder) and not args.force:
+            raise InputError(args.report, "--report", "a report folder that does not exist yet (or --force "
+                             "to replace it)", "an existing " + ("folder" if os.path.isdir(folder) else "file"))
+        if any(os.path.commonpath([folder, path]) == folder for path in inputs):
+            raise InputError(args.report, "--report", "a report folder that holds none of the inputs",
+                             "a folder holding an input file")
     records = [read_flight_csv(path, columns) for path in args.data]
     method = args.method.replace("-", "_")
     result = identify(aircraft, condition, records, fix=args.fix, method=method)
@@ -180,13 +124,19 @@ def run(args):
         save_figure(identification_figure(result), args.plot)
     if args.output:
         write_variant(aircraft, result, aircraft.file, args.output)
+    if args.report:
+        from latdyn.report.flight_test import write_identification_report
+
+        write_identification_report(args.report, aircraft, result, predicted_modes, identified_modes,
+                                    force=args.force, command="latdyn identify " + " ".join(sys.argv[2:]))
     primary = result.nondimensional if result.nondimensional is not None else result.derivatives
     dimensional = result.nondimensional is None
+    derivatives = identified_derivative_table(primary, dimensional=dimensional)
     if args.format == "json":
         text = json.dumps(identify_document(aircraft, result, predicted_modes, identified_modes),
                           indent=2, allow_nan=False) + "\n"
     elif args.format == "csv":
-        text = _csv(derivative_rows(primary, dimensional))
+        text = render_csv(derivatives, raw=True)
     else:
         style = "markdown" if args.format == "markdown" else "text"
         fit = result.fit
@@ -198,13 +148,13 @@ def run(args):
                  "(equation error: least-squares standard errors).", ""]
         lines += ["Derivatives " + ("(non-dimensional, per rad; rates per p b/2V, r b/2V)"
                                     if not dimensional else f"(primed dimensional, SI, {result.axes} axes)"),
-                  _render(DERIVATIVE_COLUMNS, derivative_rows(primary, dimensional), style), ""]
+                  render(derivatives, style), ""]
         if not dimensional:
             lines += [f"Primed dimensional derivatives ({result.axes} axes, SI)",
-                      _render(DERIVATIVE_COLUMNS, derivative_rows(result.derivatives, True), style), ""]
-        lines += ["Fit per measured channel", _render(FIT_COLUMNS, fit_rows(result), style), ""]
+                      render(identified_derivative_table(result.derivatives, dimensional=True), style), ""]
+        lines += ["Fit per measured channel", render(identification_fit_table(result), style), ""]
         lines += ["Modes of the file's model and of the identified model",
-                  _render(MODE_COLUMNS, mode_rows(predicted_modes, identified_modes), style), ""]
+                  render(identified_mode_table(predicted_modes, identified_modes), style), ""]
         if fit.get("max_correlation"):
             pair = fit["max_correlation"]
             lines.append(f"Largest correlation between derivatives: {pair['value']:+.3f} "
@@ -213,24 +163,8 @@ def run(args):
             lines.append(f"Note: {note}.")
         if args.output:
             lines.append(f"Variant aircraft file written: {args.output}")
+        if args.report:
+            lines.append(f"Flight-test report written: {os.path.join(args.report, 'index.html')}")
         text = "\n".join(lines).rstrip() + "\n"
     sys.stdout.write(text)
     return 0
-
-
-def _table(columns, rows):
-    from latdyn.report.blocks import Column, Table
-
-    return Table("identify", "", tuple(Column(key, heading) for key, heading in columns), tuple(rows))
-
-
-def _render(columns, rows, style):
-    from latdyn.report.render import render
-
-    return render(_table(columns, rows), style)
-
-
-def _csv(rows):
-    from latdyn.report.render import render_csv
-
-    return render_csv(_table(DERIVATIVE_COLUMNS, rows), raw=True, header="headings")

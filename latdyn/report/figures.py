@@ -35,8 +35,14 @@ def _time_history(responses, readouts, modes):
     return time_history_figure(responses, readouts, modes)
 
 
+def _identification(result):
+    from latdyn.plots.identification import identification_figure
+
+    return identification_figure(result)
+
+
 #: ``Figure.kind`` -> function of the figure's arguments returning a matplotlib Figure.
-PLOTS = {"s_plane": _s_plane, "roll_spiral": _roll_spiral, "dutch_roll": _dutch_roll,
+PLOTS = {"identification": _identification, "s_plane": _s_plane, "roll_spiral": _roll_spiral, "dutch_roll": _dutch_roll,
          "time_history": _time_history}
 
 

@@ -992,3 +992,82 @@ def steady_table(results, name="steady", units=DEFAULT, aircraft=None) -> Table:
         columns = (Column("aircraft", "Aircraft"),) + columns
         rows = [{"aircraft": aircraft, **row} for row in rows]
     return Table(name, "Steady sideslips, crosswind and engine out", columns, tuple(rows))
+
+
+
+# ------------------------------------------------------------------ flight test (latdyn identify)
+
+_CHANNEL_NAMES = {"beta": "sideslip", "p": "roll rate", "r": "yaw rate", "phi": "bank",
+                  "ny": "lateral load factor"}
+
+
+def identified_derivative_table(estimates, dimensional=False, name="identified-derivatives",
+                                caption="Identified derivatives beside the prediction") -> Table:
+    """Each derivative identified from flight test beside the file's prediction, with its bound.
+
+    Parameters
+    ----------
+    estimates : sequence of latdyn.identification.ParameterEstimate
+    dimensional : bool
+        Primed dimensional derivatives (SI units by name) rather than non-dimensional (1/rad).
+    """
+    from latdyn.model import DIMENSIONAL_UNITS
+
+    columns = (Column("derivative", "Derivative"), Column("unit", "Unit"), Column("value", "Identified"),
+               Column("standard_error", "Std. error", digits=3),
+               Column("predicted", "Predicted"), Column("difference", "Difference", signed=True),
+               Column("sigmas", "Difference", "std. errors", digits=3, signed=True),
+               Column("status", "Status"))
+    rows, emphasis = [], []
+    for item in estimates:
+        if item.fixed:
+            status = "held at the prediction"
+        elif not item.identifiable:
+            status = f"NOT identifiable: {item.note}"
+        else:
+            status = "identified"
+        difference = None if item.fixed or item.predicted is None else item.value - item.predicted
+        rows.append({"derivative": item.name,
+                     "unit": DIMENSIONAL_UNITS[item.name] if dimensional else "1/rad",
+                     "value": item.value, "standard_error": item.standard_error,
+                     "predicted": item.predicted, "difference": difference,
+                     "sigmas": item.difference_in_standard_errors, "status": status})
+        if not item.fixed and not item.identifiable:
+            emphasis.append(len(rows) - 1)
+    return Table(name, caption, columns, tuple(rows), tuple(emphasis))
+
+
+def identification_fit_table(result, units=DEFAULT, name="identification-fit") -> Table:
+    """Fit per measured channel: RMS residual (display units), R^2, lag-1 autocorrelation."""
+    columns = (Column("channel", "Channel"), Column("unit", "Unit"), Column("rms_residual", "RMS residual"),
+               Column("r_squared", "R^2", "-"), Column("lag1_autocorrelation", "Lag-1 autocorrelation", "-",
+                                                       digits=3, signed=True))
+    rows = []
+    for channel, stats in result.fit["channels"].items():
+        quantity = SIGNAL_QUANTITIES[channel]
+        rows.append({"channel": _CHANNEL_NAMES[channel], "unit": units.label(quantity),
+                     "rms_residual": units.convert(stats["rms_residual"], quantity),
+                     "r_squared": stats["r_squared"], "lag1_autocorrelation": stats["lag1_autocorrelation"]})
+    return Table(name, "Fit per measured channel", columns, tuple(rows))
+
+
+def identified_mode_table(predicted, identified, name="identified-modes") -> Table:
+    """The mode figures of the file's model and of the identified model."""
+    columns = (Column("figure", "Mode figure"), Column("unit", "Unit"), Column("predicted", "Predicted"),
+               Column("identified", "Identified"))
+    rows = []
+    for mode_name, label in (("dutch_roll", "Dutch roll"), ("roll_subsidence", "Roll"), ("spiral", "Spiral"),
+                             ("roll_spiral", "Roll-spiral")):
+        before, after = predicted.get(mode_name), identified.get(mode_name)
+        if before is None and after is None:
+            continue
+        figures = (("natural_frequency", "omega_n", "rad/s"), ("damping_ratio", "zeta", "-")) \
+            if mode_name in ("dutch_roll", "roll_spiral") else (
+                ("time_constant", "T", "s"), ("time_to_double", "T_double", "s"))
+        for key, symbol, unit in figures:
+            values = [getattr(mode, key) if mode is not None else None for mode in (before, after)]
+            if all(v is None for v in values):
+                continue
+            rows.append({"figure": f"{label} {symbol}", "unit": unit, "predicted": values[0],
+                         "identified": values[1]})
+    return Table(name, "Modes of the file's model and of the identified model", columns, tuple(rows))

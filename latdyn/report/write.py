@@ -21,7 +21,7 @@ from latdyn.report.analysis import analyse_report
 from latdyn.report.content import report_content
 from latdyn.report.render import render_csv, render_html, render_markdown
 
-__all__ = ["write_report", "write_files", "shows_level", "LEVEL_COLUMNS"]
+__all__ = ["write_report", "write_files", "write_folder", "shows_level", "LEVEL_COLUMNS"]
 
 
 def _progress(total, enabled):
@@ -109,6 +109,47 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
     InputError
         Bad input, or ``output`` exists and ``force`` is not set.
     """
+    if progress is None:
+        progress = sys.stderr.isatty()
+    bar = _progress(None, progress)
+
+    def fill(temporary):
+        data = analyse_report(files, variants, criteria_sets, argv=argv, step=lambda: bar.update(1), gust=gust)
+        report = report_content(data, units, document)
+        bar.total = data.condition_count + len(report.figures)
+        bar.refresh()
+        write_files(report, temporary, step=lambda: bar.update(1))
+
+    try:
+        return write_folder(output, fill, force)
+    finally:
+        bar.close()
+
+
+def write_folder(output, fill, force=False) -> str:
+    """Write a report folder atomically: ``fill(temporary)`` writes into a temporary folder
+    beside ``output``, which is renamed into place only when ``fill`` returns.
+
+    Parameters
+    ----------
+    output : str
+        The folder to create.
+    fill : callable
+        Writes every file into the (existing, empty) folder it is given.
+    force : bool
+        Replace an existing folder.
+
+    Returns
+    -------
+    str
+        The folder written.
+
+    Raises
+    ------
+    InputError
+        ``output`` exists and ``force`` is not set, or cannot be created; and
+        whatever ``fill`` raises (nothing is left behind then).
+    """
     output = os.path.normpath(os.fspath(output))
     if os.path.exists(output) and not force:
         raise InputError(output, "-o", "a report folder that does not exist yet (or --force to replace it)",
@@ -132,15 +173,8 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         remove_created()
         raise InputError(output, "-o", "a report folder in a writable place",
                          error.strerror or str(error)) from None
-    if progress is None:
-        progress = sys.stderr.isatty()
-    bar = _progress(None, progress)
     try:
-        data = analyse_report(files, variants, criteria_sets, argv=argv, step=lambda: bar.update(1), gust=gust)
-        report = report_content(data, units, document)
-        bar.total = data.condition_count + len(report.figures)
-        bar.refresh()
-        write_files(report, temporary, step=lambda: bar.update(1))
+        fill(temporary)
         os.chmod(temporary, 0o755)
         if os.path.exists(output):
             old = tempfile.mkdtemp(prefix="." + os.path.basename(output) + ".old.", dir=parent)
@@ -153,6 +187,4 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         shutil.rmtree(temporary, ignore_errors=True)
         remove_created()
         raise
-    finally:
-        bar.close()
     return output
