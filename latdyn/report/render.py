@@ -271,7 +271,21 @@ def render_markdown(report) -> str:
 
 
 def _css_string(text) -> str:
-    return '"' + str(text).replace("\\", "\\\\").replace('"', '\\"').replace("\n", " ") + '"'
+    r"""A CSS string literal of free text: backslash, quote, ``<``, ``>`` and control characters
+    as CSS hex escapes, so a name ends neither the string nor the ``<style>`` element.
+
+    Examples
+    --------
+    >>> print(_css_string('a"</style>'))
+    "a\22 \3c /style\3e "
+    """
+    out = []
+    for character in str(text):
+        if character in '\\"<>' or ord(character) < 32 or ord(character) == 127:
+            out.append(f"\\{ord(character):x} ")
+        else:
+            out.append(character)
+    return '"' + "".join(out) + '"'
 
 
 def page_style(report) -> str:
