@@ -38,20 +38,12 @@ import time
 
 import numpy as np
 
+from responses import best  # the same best-of-N timer (this folder is on the path of a script run)
+
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 DEMO = ROOT / "aircraft" / "kestrel-k40.toml"
 RANGES = {"Cn_beta": (0.03, 0.2), "Cl_beta": (-0.3, -0.02), "Cl_p": (-0.7, -0.2),
           "Cn_r": (-0.3, -0.05), "Cl_r": (0.0, 0.4), "Cn_p": (-0.2, 0.05), "Cy_beta": (-1.0, -0.3)}
-
-
-def best(function, repeat):
-    """Shortest of ``repeat`` timed calls [s]."""
-    times = []
-    for _ in range(repeat):
-        start = time.perf_counter()
-        function()
-        times.append(time.perf_counter() - start)
-    return min(times)
 
 
 def polynomial_floor(A):
