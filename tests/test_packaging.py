@@ -113,8 +113,10 @@ def test_wheel_installs_and_assesses_in_a_fresh_environment(sdist, tmp_path):
     # numpy, scipy, control, matplotlib and tqdm from this environment; latdyn only from the wheel
     # (a .pth path entry does not run this environment's own .pth files, the editable one included)
     (site / "outer.pth").write_text(sysconfig.get_paths()["purelib"] + "\n")
+    # --ignore-installed: pip --python sees the running environment's editable latdyn (through
+    # the .pth above and pip's own path) and would otherwise skip the wheel as already installed
     run([sys.executable, "-m", "pip", "--python", str(python), "install", "--no-deps", "--no-index",
-         "--disable-pip-version-check", "-q", str(wheel)], tmp_path)
+         "--ignore-installed", "--disable-pip-version-check", "-q", str(wheel)], tmp_path)
 
     clean = {k: v for k, v in os.environ.items() if k not in ("PYTHONPATH", "PYTHONHOME")}
     where = run([str(python), "-c", "import latdyn, latdyn.criteria_sets as c; "
