@@ -27,6 +27,7 @@ from latdyn.input_files import read_input_text
 
 __all__ = [
     "INPUT_KINDS",
+    "TRANSIENT_KINDS",
     "freeze_arrays",
     "MAX_DEFLECTION_DEG",
     "InputHistory",
@@ -65,6 +66,11 @@ INPUT_KINDS = (
     "rudder-3211",
     "none",
 )
+
+#: Input kinds that return to zero after the input (doublets, pulses, 3-2-1-1): a run of these
+#: alone has its amplitude sized when none is given (:func:`latdyn.responses.size_run`); a
+#: step holds its deflection, so its bank grows with time whatever the amplitude.
+TRANSIENT_KINDS = tuple(kind for kind in INPUT_KINDS if kind.endswith(("doublet", "pulse", "3211")))
 
 #: The 3-2-1-1 pattern: durations in unit times, alternating sign.
 PATTERN_3211 = (3, -2, 1, -1)

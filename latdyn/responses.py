@@ -39,6 +39,8 @@ __all__ = [
     "with_heading",
     "simulate",
     "STANDARD_LIMITS",
+    "sized_amplitude",
+    "size_run",
     "StandardResponse",
     "standard_response",
     "display_columns",
@@ -520,6 +522,94 @@ def simulate(model, history, initial=None, hold="zero", label="") -> Response:
 STANDARD_LIMITS = {"beta": math.radians(8.0), "phi": math.radians(30.0)}
 
 
+def sized_amplitude(models, unit, limits=None, largest=5.0) -> float:
+    """The input amplitude that keeps every model's response within ``limits``.
+
+    Sizing (our choice): the largest amplitude in 0.5 deg steps, at least
+    0.5 deg and at most ``largest``, for which every signal of ``limits``
+    stays within its limit in every model -- found from the response to
+    ``unit``, the input at 1 deg, scaled (exact because the models are
+    linear; an augmented model's actuator rate limits are not applied here).
+
+    Parameters
+    ----------
+    models : sequence of latdyn.model.LateralModel
+    unit : latdyn.inputs.InputHistory
+        The input with an amplitude of 1 deg.
+    limits : dict, optional
+        Signal -> largest magnitude [rad]; default :data:`STANDARD_LIMITS`.
+    largest : float
+        Largest amplitude [deg].
+
+    Returns
+    -------
+    float
+        Amplitude [rad].
+
+    Examples
+    --------
+    A first-order lag from the rudder to sideslip, 2 deg of sideslip per degree
+    of rudder: 4 deg of rudder keeps beta within 8 deg.
+
+    >>> from latdyn.inputs import make_input, time_grid
+    >>> from latdyn.model import LateralModel
+    >>> A = np.diag([-1.0, -2.0, -2.0, -3.0]); B = np.zeros((4, 2)); B[0, 1] = 2.0
+    >>> model = LateralModel(A, B, np.eye(4), np.zeros((4, 2)), ("beta", "p", "r", "phi"),
+    ...                      ("aileron", "rudder"), ("beta", "p", "r", "phi"), "body", 50.0,
+    ...                      0.0, 0.0, None, "lag")
+    >>> time = time_grid(30.0, 0.01, (1.0,))
+    >>> round(math.degrees(sized_amplitude([model], make_input("rudder-step", time, math.radians(1.0), 1.0, 1.0))), 6)
+    4.0
+    """
+    limits = STANDARD_LIMITS if limits is None else limits
+    worst = 0.0
+    for model in models:
+        trial = simulate(model, unit)
+        for name, limit in limits.items():
+            worst = max(worst, float(np.abs(trial.signal(name)).max()) / limit)
+    degrees = largest if worst == 0 else max(0.5, min(largest, math.floor(2.0 / worst) / 2.0))
+    return math.radians(degrees)
+
+
+def size_run(models, kinds, settings, limits=None):
+    """A run's settings with the amplitude sized to the small-disturbance range, where it may be.
+
+    When every named input returns to zero (:data:`latdyn.inputs.TRANSIENT_KINDS`)
+    the amplitude becomes :func:`sized_amplitude` of the models for those
+    inputs on the run's grid, never above the given default; a run with a
+    step keeps its amplitude (a held deflection banks the aircraft further
+    the longer the run, whatever the amplitude: the read-outs warn instead,
+    :data:`latdyn.readouts.SMALL_DISTURBANCE_LIMITS`).  Call it only where
+    the user gave no amplitude.
+
+    Parameters
+    ----------
+    models : sequence of latdyn.model.LateralModel
+        The cases run with the one input history.
+    kinds : sequence of str
+        The run's inputs (kinds of :data:`latdyn.inputs.INPUT_KINDS`; input files are not sized).
+    settings : latdyn.inputs.RunSettings
+    limits : dict, optional
+        Signal -> largest magnitude [rad]; default :data:`STANDARD_LIMITS`.
+
+    Returns
+    -------
+    settings : latdyn.inputs.RunSettings
+    sized : bool
+        The amplitude was sized.
+    """
+    from dataclasses import replace
+
+    from latdyn.inputs import TRANSIENT_KINDS, run_inputs
+
+    named = [kind for kind in kinds if kind in TRANSIENT_KINDS]
+    if not named or len(named) != len([k for k in kinds if not k.lower().endswith(".csv") and k != "none"]):
+        return settings, False
+    unit = run_inputs(named, (), replace(settings, amplitude=math.radians(1.0)))
+    amplitude = sized_amplitude(models, unit, limits, largest=math.degrees(settings.amplitude))
+    return replace(settings, amplitude=amplitude), True
+
+
 @dataclass(frozen=True)
 class StandardResponse:
     """A standard response sized for the aircraft; unpacks as (response, readouts).
@@ -553,9 +643,9 @@ def standard_response(model, modes, kind, label="", limits=None) -> StandardResp
     Sized for the aircraft (our choice): the input of
     :func:`latdyn.inputs.default_inputs`, its amplitude lowered in 0.5 deg
     steps (5 deg at most, 0.5 deg at least) so that every signal of
-    ``limits`` stays within its limit — found from a 1 deg trial, exact
-    because the model is linear.  An aileron step runs for five roll time
-    constants or one and a half Dutch roll periods, whichever is longer (at
+    ``limits`` stays within its limit (:func:`sized_amplitude`).  An
+    aileron step runs for five roll time constants or one and a half Dutch
+    roll periods, whichever is longer (at
     least 3 s after the input starts), and no longer than the default run.
 
     Parameters
@@ -587,12 +677,10 @@ def standard_response(model, modes, kind, label="", limits=None) -> StandardResp
         duration = min(duration, math.ceil(settings.start + max(max(spans), 3.0)))
     time = time_grid(duration, settings.step, switch_times(kind, settings.half_period, settings.start))
     unit = make_input(kind, time, math.radians(1.0), settings.half_period, settings.start)
-    trial = simulate(model, unit, label=label)
-    worst = max(float(np.abs(trial.signal(name)).max()) / limit for name, limit in limits.items())
-    degrees = 5.0 if worst == 0 else max(0.5, min(5.0, math.floor(2.0 / worst) / 2.0))
-    history = make_input(kind, time, math.radians(degrees), settings.half_period, settings.start)
+    amplitude = sized_amplitude([model], unit, limits)
+    history = make_input(kind, time, amplitude, settings.half_period, settings.start)
     response = simulate(model, history, label=label)
-    return StandardResponse(kind, response, read_response(response), math.radians(degrees), dict(limits))
+    return StandardResponse(kind, response, read_response(response), amplitude, dict(limits))
 
 
 def display_columns(response) -> dict:

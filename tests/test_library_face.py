@@ -167,14 +167,14 @@ def test_response_frame_equals_the_respond_csv(tmp_path):
         rows = list(csv.reader(handle))
     header, values = rows[0], np.array(rows[1:], dtype=float)
 
-    from latdyn.inputs import default_inputs, make_input, switch_times, time_grid
+    from latdyn.inputs import default_inputs, run_inputs, run_settings
+    from latdyn.responses import size_run
 
     aircraft = latdyn.load_aircraft(KESTREL)
     model = latdyn.lateral_model(aircraft, "approach")
-    settings = default_inputs(latdyn.find_modes(model))
-    time = time_grid(settings.duration, settings.step,
-                     switch_times("rudder-doublet", settings.half_period, settings.start))
-    history = make_input("rudder-doublet", time, settings.amplitude, settings.half_period, settings.start)
+    settings, sized = size_run([model], ["rudder-doublet"], run_settings(default_inputs(latdyn.find_modes(model))))
+    assert sized
+    history = run_inputs(["rudder-doublet"], (), settings)
     frame = latdyn.simulate(model, history).to_pandas()
     assert [frame.index.name, *frame.columns] == header
     np.testing.assert_allclose(frame.reset_index().to_numpy(), values, rtol=1e-9, atol=1e-12)

@@ -397,3 +397,43 @@ def test_matrix_model_stand_in_matches_the_core_model_attributes():
     model = published_model(LIGHTLY_DAMPED)
     assert isinstance(model, MatrixModel)
     assert model.A.shape == (4, 4) and model.C.shape == (5, 4)
+
+
+# ---------------------------------------------------------------- sized amplitude (issue 13)
+@pytest.mark.parametrize("name, model", DEMOS + [(n, published_model(n)) for n in CASES], ids=DEMO_IDS + list(CASES))
+@pytest.mark.parametrize("kind", ("rudder-doublet", "rudder-pulse", "3211"))
+def test_sized_amplitude_is_the_largest_half_degree_within_the_limits(name, model, kind):
+    """The sized amplitude keeps |beta| <= 8 deg and |phi| <= 30 deg (STANDARD_LIMITS, our choice), and
+    0.5 deg more would not (unless it is the 5 deg cap or the 0.5 deg floor): checked by simulating both."""
+    from latdyn.responses import STANDARD_LIMITS, sized_amplitude
+
+    amplitude = sized_amplitude([model], _history(model, kind, math.radians(1.0)))
+
+    def worst(a):
+        response = simulate(model, _history(model, kind, a))
+        return max(np.abs(response.signal(s)).max() / limit for s, limit in STANDARD_LIMITS.items())
+
+    assert math.radians(0.5) - 1e-12 <= amplitude <= math.radians(5.0) + 1e-12
+    assert round(math.degrees(amplitude) * 2) == pytest.approx(math.degrees(amplitude) * 2, abs=1e-9)
+    if amplitude > math.radians(0.5) + 1e-12:
+        assert worst(amplitude) <= 1.0 + 1e-9
+    if amplitude < math.radians(5.0) - 1e-12:
+        assert worst(amplitude + math.radians(0.5)) > 1.0
+
+
+def test_size_run_sizes_only_runs_that_return_to_zero():
+    """size_run: doublets, pulses and 3-2-1-1 alone are sized (never above the default, one amplitude
+    for all cases: the smallest); a step, 'none' or an input file alone keep the default."""
+    from latdyn.inputs import run_settings
+    from latdyn.responses import size_run, sized_amplitude
+
+    models = [model for _, model in DEMOS]
+    settings = run_settings(default_inputs(find_modes(models[0])))
+    sized, done = size_run(models, ["rudder-doublet", "aileron-pulse"], settings)
+    assert done and sized.amplitude <= settings.amplitude
+    each = [size_run([m], ["rudder-doublet", "aileron-pulse"], settings)[0].amplitude for m in models]
+    assert sized.amplitude == min(each)
+    for kinds in (["rudder-doublet", "aileron-step"], ["none"], ["inputs.csv"], ["rudder-step"]):
+        kept, done = size_run(models, kinds, settings)
+        assert not done and kept == settings, kinds
+    assert sized_amplitude(models, combine(_history(models[0], "rudder-doublet", 0.0))) == math.radians(5.0)

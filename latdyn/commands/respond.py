@@ -38,7 +38,8 @@ def add_arguments(parser):
                              "file with columns time, aileron, rudder [s, deg, deg]; repeat for "
                              "simultaneous inputs")
     parser.add_argument("--amplitude-deg", type=float, metavar="A",
-                        help="control deflection [deg] (default 5)")
+                        help="control deflection [deg] (default 5, lowered for doublets, pulses and "
+                             "3-2-1-1 inputs to keep |beta| within 8 deg and |phi| within 30 deg)")
     parser.add_argument("--half-period", type=float, metavar="T",
                         help="doublet half-period and pulse width [s]; the 3-2-1-1 unit is half of it "
                              "(default: half the Dutch roll period)")
@@ -144,10 +145,11 @@ def case_csv_paths(path, labels):
     return names
 
 
-def _histories(args, reference_defaults):
-    """The input history on one grid, and the settings used."""
+def _histories(args, reference_defaults, models):
+    """The input history on one grid, and the settings used (the amplitude sized when not given)."""
     from latdyn.errors import InputError
     from latdyn.inputs import INPUT_KINDS, read_input_csv, run_inputs, run_settings
+    from latdyn.responses import size_run
 
     kinds = args.inputs or ["rudder-doublet"]
     tables = []
@@ -166,7 +168,10 @@ def _histories(args, reference_defaults):
         amplitude=math.radians(args.amplitude_deg) if args.amplitude_deg is not None else None,
         half_period=args.half_period, start=args.start, duration=args.duration, step=args.dt,
         spiral=args.spiral, source=_COMMAND_LINE, options={"duration": "--duration", "step": "--dt"})
-    return run_inputs(kinds, tables, settings), settings.as_dict()
+    sized = False
+    if args.amplitude_deg is None:
+        settings, sized = size_run(models, kinds, settings)
+    return run_inputs(kinds, tables, settings), dict(settings.as_dict(), amplitude_sized=sized)
 
 
 def _format(value, digits=4):
@@ -230,10 +235,15 @@ def _transfer_lines(model, modes):
 
 def _summary(label, aircraft, response, readout, modes, settings):
     from latdyn.display import SI, SIGNAL_QUANTITIES
+    from latdyn.responses import STANDARD_LIMITS
 
     lines = [f"{label}  ({aircraft.file})"]
     lines.append(f"  input: {response.description or 'none'}; 0 to {settings['duration']:g} s, "
                  f"step {settings['step']:g} s ({response.time.size} samples)")
+    if settings.get("amplitude_sized"):
+        limits = " and ".join(f"|{name}| within {math.degrees(limit):g} deg" for name, limit in STANDARD_LIMITS.items())
+        lines.append(f"  amplitude {math.degrees(settings['amplitude']):g} deg, sized to keep {limits} "
+                     "in every case shown (--amplitude-deg sets it)")
     peaks = []
     for peak in readout.peaks:
         quantity = SIGNAL_QUANTITIES.get(peak.signal)
@@ -340,7 +350,7 @@ def run(args):
     responses, readouts, settings, limited = [], [], {}, [None] * len(cases)
     if simulating:
         limited = []
-        history, settings = _histories(args, default_inputs(modes[0]))
+        history, settings = _histories(args, default_inputs(modes[0]), models)
         initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
                                      r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
         from latdyn.augmentation import actuator_rate_limits, simulate_rate_limited
