@@ -26,6 +26,7 @@ __all__ = [
     "DecrementEstimate",
     "ResponseReadouts",
     "extrema",
+    "rate_at_end",
     "log_decrement",
     "read_response",
     "SMALL_DISTURBANCE_LIMITS",
@@ -265,6 +266,28 @@ def log_decrement(time, values, start=0.0, signal="", floor=1e-4, minimum=4):
     omega_n = 2 * math.pi / period / math.sqrt(max(1 - zeta * zeta, 1e-300))
     return DecrementEstimate(signal, float(zeta), float(period), float(decrement), float(omega_n),
                              tuple(float(v) for v in times), tuple(float(v) for v in peaks))
+
+
+def rate_at_end(response, signal="phi") -> float:
+    """Rate of change of a signal at the end of the run, by the backward difference of the
+    last two samples [unit of the signal per second].
+
+    Tells a value still building (a bank angle after an aileron step) from one
+    that has settled, so that the end value is not read as a residual.
+
+    Examples
+    --------
+    >>> from latdyn.responses import Response
+    >>> r = Response([0.0, 1.0, 2.0], [[0, 0]] * 3, [[0.0], [0.1], [0.3]], [[0.0], [0.1], [0.3]],
+    ...              ("phi",), output_names=("phi",))
+    >>> round(rate_at_end(r), 12)
+    0.2
+    """
+    time = np.asarray(response.time, dtype=float)
+    values = np.asarray(response.signal(signal), dtype=float)
+    if time.size < 2:
+        return 0.0
+    return float((values[-1] - values[-2]) / (time[-1] - time[-2]))
 
 
 def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseReadouts:

@@ -42,7 +42,7 @@ __all__ = [
     "sized_amplitude",
     "size_run",
     "StandardResponse",
-    "standard_response",
+    "standard_response", "replayed_response",
     "display_columns",
     "csv_text",
     "write_csv",
@@ -681,6 +681,34 @@ def standard_response(model, modes, kind, label="", limits=None) -> StandardResp
     history = make_input(kind, time, amplitude, settings.half_period, settings.start)
     response = simulate(model, history, label=label)
     return StandardResponse(kind, response, read_response(response), amplitude, dict(limits))
+
+
+def replayed_response(model, standard, label="") -> StandardResponse:
+    """Another model's response (a variant's) to the very input of a standard response.
+
+    The time grid and the deflections are those of ``standard`` (not sized
+    again), so that the two responses can be laid over each other and
+    compared.
+
+    Parameters
+    ----------
+    model : latdyn.model.LateralModel
+    standard : StandardResponse
+    label : str
+        Name of the case.
+
+    Returns
+    -------
+    StandardResponse
+    """
+    from latdyn.inputs import InputHistory
+    from latdyn.readouts import read_response
+
+    given = standard.response
+    history = InputHistory(given.time, given.signal("aileron"), given.signal("rudder"), given.description)
+    response = simulate(model, history, label=label)
+    return StandardResponse(standard.kind, response, read_response(response), standard.amplitude,
+                            dict(standard.limits))
 
 
 def display_columns(response) -> dict:

@@ -26,13 +26,17 @@ import re
 import numpy as np
 
 from latdyn.plots import save_both
-from latdyn.plots.style import (GRID, LABEL_SIZE, LEVEL_COLOURS, LEVEL_INK, MODE_MARKERS, MUTED, PALETTE, RULE,
-                                TEXT, TITLE_SIZE, UNDECIDED, add_notice, case_colour, figure_for,
-                                style_axis)
+from latdyn.plots.style import (CONFIGURATION_MARKERS, GRID, LABEL_SIZE, LEVEL_COLOURS, LEVEL_INK,
+                                MODE_MARKERS, MUTED, PALETTE, RULE, SYMBOLS, TEXT, TITLE_SIZE, UNDECIDED,
+                                add_notice, axis_label, case_colour, configuration_style, figure_for,
+                                key_axis, level_handles, plain, style_axis)
 
 __all__ = ["LEVEL_COLOURS", "LEVEL_INK", "dutch_roll_chart", "roll_spiral_chart", "s_plane_map",
            "write_assessment_figures"]
 
+
+#: Line styles of the damping limits of a pass/fail set (one per row of the set).
+_LIMIT_STYLES = ("-", (0, (5, 2)), (0, (1, 1.5)), (0, (6, 2, 1, 2)))
 
 
 def _level_words(level):
@@ -105,28 +109,53 @@ def _exact_boundaries(axis, criteria, airplane_class, category, omega_top, zeta_
     return True
 
 
-def _label_regions(axis, level, extent):
-    """Write each region's level in words at its most interior point."""
-    from scipy.ndimage import distance_transform_edt
+def _label_regions(axis, level, extent, size):
+    """Write each region's level in words at its most interior point where the words fit.
+
+    ``size`` (width, height) [in]: the panel's size once laid out; it sets how
+    many grid cells the words cover.  A region too small for its words
+    stays unlabelled (the key names its colour).
+    """
+    from scipy.ndimage import binary_erosion, distance_transform_edt
 
     x0, x1, y0, y1 = extent
     rows, cols = level.shape
+    width, height = size
     for value in (1, 2, 3, 4):
         mask = level == value
         if not mask.any():
             continue
+        words = _level_words(value)
+        half_cols = int(np.ceil(0.5 * len(words) * 0.68 * 9 / 72 / width * cols)) + 1
+        half_rows = int(np.ceil(0.5 * 1.4 * 9 / 72 / height * rows)) + 1
+        fits = binary_erosion(mask, structure=np.ones((2 * half_rows + 1, 2 * half_cols + 1), bool),
+                              border_value=0)
+        if not fits.any():
+            continue
         padded = np.pad(mask, 1, constant_values=False)
         distance = distance_transform_edt(padded)[1:-1, 1:-1]
+        distance[~fits] = 0.0
         i, j = np.unravel_index(np.argmax(distance), mask.shape)
-        if distance[i, j] < 3:
-            continue
         x = x0 + (j + 0.5) / cols * (x1 - x0)
         y = y0 + (i + 0.5) / rows * (y1 - y0)
-        axis.text(x, y, _level_words(value), ha="center", va="center", fontsize=9, weight="bold",
+        axis.text(x, y, words, ha="center", va="center", fontsize=9, weight="bold",
                   color=LEVEL_INK[value], alpha=0.85)
 
 
-def dutch_roll_chart(result, criteria=None, fig=None, resolution=360):
+def _dutch_points(assessment, criteria):
+    """(condition, Dutch roll mode, its assessment entry) of every condition with a Dutch roll pair."""
+    points = []
+    for condition in assessment.conditions:
+        mode = condition.modes.get("dutch_roll") if condition.modes is not None else None
+        if mode is None or mode.natural_frequency is None or mode.damping_ratio is None:
+            continue
+        entry = next((a for a in condition.assessments
+                      if a.criteria == criteria.name and a.mode == "dutch_roll"), None)
+        points.append((condition, mode, entry))
+    return points
+
+
+def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=()):
     """Dutch roll damping ratio against natural frequency, with the level regions.
 
     One panel per flight-phase category among the conditions; each shows
@@ -134,47 +163,54 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360):
     (computed without the omega^2 |phi/beta| rule; points where the rule
     raises the boundary are flagged) and the Dutch roll of each condition
     of that category.  For a pass/fail set the damping limits are drawn as
-    lines.
+    lines.  Variants (other configurations of the aircraft) are drawn on the
+    same panels, each configuration in its own colour and marker, with an
+    arrow from the base to the variant where a condition of the same name
+    exists in both; the legend gives each point's level.  A key of the level
+    colours says the levels are guidance only.
 
     Parameters
     ----------
     result : latdyn.assessment.AircraftAssessment
+        The base configuration.
     criteria : CriteriaSet, optional
         Default: the first levels set of the assessment, else its first set.
     fig : matplotlib.figure.Figure, optional
         Draw into this figure (cleared); default a new one.
     resolution : int
         Grid points per axis of the regions [-].
+    variants : sequence of latdyn.assessment.AircraftAssessment
+        Other configurations, assessed against the same criteria set.
 
     Returns
     -------
     matplotlib.figure.Figure
     """
     from matplotlib.colors import ListedColormap
+    from matplotlib.lines import Line2D
 
     sets = _level_sets(result)
     if criteria is None:
         criteria = sets[0] if sets else next(c for c in result.criteria if c.mode("dutch_roll"))
-    points = []
-    for condition in result.conditions:
-        mode = condition.modes.get("dutch_roll") if condition.modes is not None else None
-        if mode is None or mode.natural_frequency is None or mode.damping_ratio is None:
-            continue
-        entry = next((a for a in condition.assessments
-                      if a.criteria == criteria.name and a.mode == "dutch_roll"), None)
-        points.append((condition, mode, entry))
+    configurations = [result, *variants]
+    points = [(k, *item) for k, assessment in enumerate(configurations)
+              for item in _dutch_points(assessment, criteria)]
+    condition_names = list(dict.fromkeys(c.name for _, c, _, _ in points))
     pass_fail = criteria.assessment != "levels"
-    categories = ["all"] if pass_fail else (list(dict.fromkeys(c.category for c, _, _ in points)) or [None])
-    omega_top = max([3.0] + [1.15 * m.natural_frequency for _, m, _ in points])
-    zeta_top = max([0.6] + [1.15 * m.damping_ratio for _, m, _ in points])
-    zeta_bottom = min([-0.1] + [m.damping_ratio - 0.05 for _, m, _ in points])
-    figure = figure_for(fig, max(4.6 * len(categories) + 0.6, 7.0), 5.4)
-    axes = figure.subplots(1, len(categories), squeeze=False)[0]
+    categories = ["all"] if pass_fail else (list(dict.fromkeys(c.category for _, c, _, _ in points)) or [None])
+    omega_top = max([3.0] + [1.15 * m.natural_frequency for _, _, m, _ in points])
+    zeta_top = max([0.6] + [1.15 * m.damping_ratio for _, _, m, _ in points])
+    zeta_bottom = min([-0.1] + [m.damping_ratio - 0.05 for _, _, m, _ in points])
+    figure = figure_for(fig, max(4.6 * len(categories) + 3.4, 8.4), 5.6)
+    regions = []
+    *axes, key = figure.subplots(1, len(categories) + 1, squeeze=False,
+                                 width_ratios=[1.0] * len(categories) + [0.05])[0]
     omega_axis = np.linspace(0.0, omega_top, resolution)
     zeta_axis = np.linspace(zeta_bottom, zeta_top, resolution)
     omega_grid, zeta_grid = np.meshgrid(omega_axis, zeta_axis)
     extent = (0.0, omega_top, zeta_bottom, zeta_top)
-    flagged = []
+    flagged, shown_levels, undecided = [], set(), False
+    handles = []
     for axis, category in zip(axes, categories):
         style_axis(axis)
         if criteria.assessment == "levels":
@@ -186,54 +222,78 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360):
                                      zeta_top):
                 axis.contour(omega_grid, zeta_grid, level, levels=[0.5, 1.5, 2.5, 3.5], colors=MUTED,
                              linewidths=0.7)
-            _label_regions(axis, level, extent)
-            if (level == 0).any():
-                missing = "class" if not result.airplane_class else "category"
-                axis.text(0.98, 0.02, f"grey: depends on the {missing} (not given)", ha="right",
-                          va="bottom", fontsize=7, color=MUTED, transform=axis.transAxes)
+            regions.append((axis, level))
+            shown_levels |= {int(v) for v in np.unique(level) if v > 0}
+            undecided = undecided or bool((level == 0).any())
         else:
             entry = criteria.mode("dutch_roll")
-            for band, colour in zip(entry.bands, PALETTE):
+            for number, band in enumerate(entry.bands):
                 limit = band.limit("min_damping_ratio")
                 if limit is not None:
-                    axis.axhline(limit, color=colour, linewidth=1.2, linestyle=(0, (5, 2)))
-                    axis.text(omega_top * 0.98, limit, f"{band.row}: zeta_d = {limit:.4g}", ha="right",
-                              va="bottom", fontsize=7, color=colour)
+                    style = _LIMIT_STYLES[number % len(_LIMIT_STYLES)]
+                    line = axis.axhline(limit, color=RULE, linewidth=1.1, linestyle=style)
+                    if axis is axes[0]:
+                        line.set_label(plain(f"{band.row}: ") + f"{SYMBOLS['zeta_d']} = {limit:.4g}")
+                        handles.append(line)
             axis.axhspan(zeta_bottom, 0.0, color=LEVEL_COLOURS[4], alpha=0.5, linewidth=0)
-            axis.text(0.02, 0.5 * zeta_bottom, "fail: not positively damped", fontsize=8, weight="bold",
-                      color=LEVEL_INK[4], va="center")
-            axis.text(0.02, 0.97 * zeta_top, "pass: above the line that holds for the condition", fontsize=8,
-                      weight="bold", color=LEVEL_INK[1], va="top")
+            shown_levels |= {1, 4}
         axis.axhline(0.0, color=RULE, linewidth=0.8)
-        for condition, mode, entry in points:
+        for k, condition, mode, entry in points:
             if not pass_fail and condition.category != category:
                 continue
-            axis.plot(mode.natural_frequency, mode.damping_ratio, marker="o", markersize=7,
-                      markerfacecolor="white", markeredgecolor=PALETTE[0], markeredgewidth=1.6, zorder=5)
-            words = entry.result if entry is not None else ""
-            axis.annotate(f"{condition.name}\n{words}", (mode.natural_frequency, mode.damping_ratio),
-                          xytext=(7, 5), textcoords="offset points", fontsize=7.5, color=TEXT, zorder=6)
+            style = configuration_style(k)
+            marker = style["marker"] if len(configurations) == 1 else \
+                CONFIGURATION_MARKERS[condition_names.index(condition.name) % len(CONFIGURATION_MARKERS)]
+            colour = case_colour(condition_names.index(condition.name)) if len(configurations) == 1 \
+                else style["color"]
+            words = entry.result if entry is not None else "not assessed"
+            label = plain((f"{configurations[k].aircraft}: " if len(configurations) > 1 else "")
+                          + f'"{condition.name}" ({words})')
+            handle, = axis.plot(mode.natural_frequency, mode.damping_ratio, marker=marker, markersize=7.5,
+                                markerfacecolor="white" if k == 0 else colour, markeredgecolor=colour,
+                                markeredgewidth=1.6, linestyle="none", zorder=6)
+            handles.append(Line2D([], [], marker=marker, markersize=7, linestyle="none",
+                                  markerfacecolor="white" if k == 0 else colour, markeredgecolor=colour,
+                                  markeredgewidth=1.6, label=label))
+            if k > 0:
+                base = next(((m.natural_frequency, m.damping_ratio) for j, c, m, _ in points
+                             if j == 0 and c.name == condition.name and c.category == condition.category), None)
+                if base is not None:
+                    axis.annotate("", (mode.natural_frequency, mode.damping_ratio), xytext=base,
+                                  arrowprops=dict(arrowstyle="-|>", color=colour, linewidth=0.9,
+                                                  shrinkA=5, shrinkB=5), zorder=5)
             rule = criteria.mode("dutch_roll").phi_to_beta_rule
             if rule and mode.phi_to_beta is not None and \
                     mode.natural_frequency ** 2 * mode.phi_to_beta > rule.threshold:
-                flagged.append(condition.name)
+                flagged.append(plain(condition.name))
         axis.set_xlim(0.0, omega_top)
         axis.set_ylim(zeta_bottom, zeta_top)
-        axis.set_xlabel("undamped natural frequency omega_nd [rad/s]", fontsize=LABEL_SIZE, color=TEXT)
-        axis.set_ylabel("damping ratio zeta_d [-]", fontsize=LABEL_SIZE, color=TEXT)
+        axis.set_xlabel(axis_label("undamped natural frequency", "omega_nd", "rad/s"), fontsize=LABEL_SIZE,
+                        color=TEXT)
+        axis.set_ylabel(axis_label("damping ratio", "zeta_d", "-"), fontsize=LABEL_SIZE, color=TEXT)
         if pass_fail:
             axis.set_title("every condition", fontsize=9.5, color=TEXT)
         else:
             heading = f"Category {category}" if category else "category not given"
             cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given"
-            axis.set_title(f"{cls}, {heading}", fontsize=9.5, color=TEXT)
-    title = f"Dutch roll: {result.aircraft}\n{criteria.name}: {criteria.edition}"
+            axis.set_title(plain(f"{cls}, {heading}"), fontsize=9.5, color=TEXT)
+    title = plain(f"Dutch roll: {result.aircraft}") + ("" if not variants else " and its variants") + \
+        "\n" + plain(f"{criteria.name}: {criteria.edition}")
     figure.suptitle(title, fontsize=TITLE_SIZE, color=TEXT)
-    extra = "Regions drawn for omega_nd^2 |phi/beta|_d below the rule's threshold."
-    if flagged:
-        extra += (" At " + ", ".join(flagged) + " it is above: the damping boundaries of that point lie "
-                  "higher than drawn (see the table).")
-    add_notice(figure, extra if criteria.mode("dutch_roll").phi_to_beta_rule else None)
+    handles += level_handles(sorted(shown_levels) or (1, 2, 3, 4), undecided=undecided, pass_fail=pass_fail)
+    key_axis(key, handles, "Configuration: condition (result)" if len(configurations) > 1
+             else "Condition (result)")
+    extra = None
+    if criteria.mode("dutch_roll").phi_to_beta_rule:
+        extra = f"Regions drawn for {SYMBOLS['omega2_phi_beta']} below the rule's threshold."
+        if flagged:
+            extra += (" At " + ", ".join(flagged) + " it is above: the damping boundaries of that point lie "
+                      "higher than drawn (see the table).")
+    add_notice(figure, extra)
+    if regions:
+        figure.draw_without_rendering()  # lays the figure out: the panels' sizes are known
+        for axis, level in regions:
+            _label_regions(axis, level, extent, (axis.bbox.width / figure.dpi, axis.bbox.height / figure.dpi))
     return figure
 
 

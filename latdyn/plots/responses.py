@@ -20,15 +20,18 @@ from __future__ import annotations
 import numpy as np
 
 from latdyn.display import SI, SIGNAL_QUANTITIES, format_number
-from latdyn.plots.style import (BAND, GRID, INPUT_COLOURS, INPUT_STYLES, LEVEL_INK, MUTED, TEXT,
-                                case_colour, figure_for, style_axis)
+from latdyn.plots.style import (BAND, GRID, INPUT_COLOURS, INPUT_STYLES, LEVEL_INK, MUTED, SYMBOLS, TEXT,
+                                case_colour, figure_for, plain, style_axis)
 
 __all__ = ["time_history_figure", "bode_figure"]
 
 _LABEL_BOX = dict(boxstyle="round,pad=0.15", facecolor="white", edgecolor="none", alpha=0.85)
 
-#: Symbol of each signal on its panel; the unit is the display unit of its quantity.
-_SYMBOLS = {"beta": "\u03b2", "p": "p", "r": "r", "phi": "\u03c6", "psi": "\u03c8", "ny": "n_y"}
+#: Symbol of each signal on its panel (typeset); the unit is the display unit of its quantity.
+_SYMBOLS = {name: SYMBOLS[name] for name in ("beta", "p", "r", "phi", "psi", "ny")}
+#: Rate of change below which a value at the end of the run is called steady [display unit/s]
+#: (our choice: a tenth of a degree in two seconds).
+_STEADY_RATE = 0.05
 
 
 def _unit(name):
@@ -46,6 +49,22 @@ def _style_axis(axis):
 
 def _fmt(value, digits=3):
     return format_number(value, digits)
+
+
+#: Control names in the input panel's legend.
+_CONTROL_WORDS = {"aileron": f"aileron {SYMBOLS['delta_a']}", "rudder": f"rudder {SYMBOLS['delta_r']}"}
+
+
+def _end_words(response, readout):
+    """The bank angle at the end of the run, worded for what it is: steady or still changing."""
+    from latdyn.readouts import rate_at_end
+
+    final = readout.residual_bank_angle * _factor("phi")
+    rate = rate_at_end(response, "phi") * _factor("phi")
+    words = f"{SYMBOLS['phi']} at end of run {_fmt(final)} {_unit('phi')} (t = {readout.residual_time:g} s), "
+    if abs(rate) < _STEADY_RATE:
+        return words + "steady"
+    return words + f"still {'building' if rate * final > 0 else 'decaying'} at {_fmt(rate)} {_unit('phi')}/s"
 
 
 def _eigen_dutch(modes):
@@ -94,6 +113,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     if modes is None:
         modes = [None] * len(responses)
     labels = list(labels) if labels is not None else [r.label or f"case {i + 1}" for i, r in enumerate(responses)]
+    labels = [plain(label) for label in labels]
     single = len(responses) == 1
 
     rows = 1 + len(signals)
@@ -131,8 +151,8 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
             top.step(response.time, values, where="post", linewidth=1.4,
                      color=INPUT_COLOURS.get(name, colour) if shared else colour,
                      linestyle=INPUT_STYLES.get(name, "-"),
-                     label=name if shared else f"{name}, {labels[index]}")
-    top.set_ylabel(f"\u03b4 [{_unit('rudder')}]", color=TEXT, fontsize=9)
+                     label=_CONTROL_WORDS.get(name, name) if shared else f"{name}, {labels[index]}")
+    top.set_ylabel(f"{SYMBOLS['delta']} [{_unit('rudder')}]", color=TEXT, fontsize=9)
     handles, _ = top.get_legend_handles_labels()
     if handles:
         top.legend(loc="upper right", fontsize=7.5, frameon=False, ncol=2)
@@ -158,49 +178,55 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                 shown = peak.value * _factor(name)
                 axis.plot([peak.time], [shown], marker="v" if shown > 0 else "^", color=colour,
                           markersize=5, zorder=4)
-                if single:
-                    axis.annotate(f"peak {_fmt(shown)} {unit} at {peak.time:.2f} s",
-                                  (peak.time, shown), xytext=(7, -9 if shown > 0 else 3),
-                                  textcoords="offset points", fontsize=7.5, color=TEXT,
+                at_end = peak.time >= float(response.time[-1]) - 1e-9
+                if single and not (at_end and name == "phi"):  # the bank at the end has its own words
+                    words = (f"largest {_fmt(shown)} {unit}, at the end of the run (still changing)" if at_end
+                             else f"peak {_fmt(shown)} {unit} at {peak.time:.2f} s")
+                    right = peak.time > 0.55 * end
+                    axis.annotate(words, (peak.time, shown), xytext=(-7 if right else 7, -5 if shown > 0 else 5),
+                                  textcoords="offset points", ha="right" if right else "left",
+                                  va="top" if shown > 0 else "bottom", fontsize=7.5, color=TEXT,
                                   bbox=_LABEL_BOX, zorder=6)
             dutch = readout.dutch_roll
             if dutch is not None and dutch.signal == name:
                 axis.plot(dutch.extremum_times, np.asarray(dutch.extremum_values) * _factor(name),
-                          linestyle="none", marker="o", markersize=3.5, markerfacecolor="white",
+                          linestyle="none", marker="o", markersize=3.5, markerfacecolor="white", color=colour,
                           markeredgecolor=colour, markeredgewidth=0.9, zorder=5,
-                          label="extrema read for \u03b6, P" if single else None)
+                          label=f"extrema read for {SYMBOLS['zeta']}, {SYMBOLS['P']}" if single else None)
             if name == "phi":
-                residual = readout.residual_bank_angle * _factor(name)
-                axis.axhline(residual, color=colour, linewidth=0.7, linestyle=":", zorder=2)
+                final = readout.residual_bank_angle * _factor(name)
+                axis.plot([readout.residual_time], [final], marker="<", color=colour, markersize=5,
+                          clip_on=False, zorder=5)
                 if single:
-                    axis.annotate(f"residual {_fmt(residual)} {_unit('phi')} at {readout.residual_time:g} s",
-                                  (readout.residual_time, residual), xytext=(-4, 5),
-                                  textcoords="offset points", ha="right", fontsize=7.5, color=TEXT,
+                    axis.annotate(_end_words(response, readout), (readout.residual_time, final),
+                                  xytext=(-8, -5 if final > 0 else 5), textcoords="offset points",
+                                  ha="right", va="top" if final > 0 else "bottom", fontsize=7.5, color=TEXT,
                                   bbox=_LABEL_BOX, zorder=6)
         if single and any(r.dutch_roll is not None and r.dutch_roll.signal == name for r in readouts):
             axis.legend(loc="upper right", fontsize=7.5, frameon=False)
         if not single and k == 0:
-            axis.legend(loc="upper right", fontsize=7.5, frameon=False)
+            axis.legend(loc="best", fontsize=7.5, frameon=False)
         if k < len(signals) - 1:
             axis.tick_params(labelbottom=False)
     top.tick_params(labelbottom=False)
     axes[-1].set_xlabel("time [s]", color=TEXT, fontsize=9)
 
     # Title.
-    heading = title or (labels[0] if single else "Lateral-directional responses compared")
+    heading = plain(title) if title else (labels[0] if single else "Lateral-directional responses compared")
     figure.suptitle(heading, fontsize=11.5, color=TEXT, fontweight="bold", x=0.01, ha="left")
     description = first.description or "free response"
-    top.set_title(f"{description}   |   linear small-disturbance model, exact for held inputs",
+    top.set_title(f"{plain(description)}   |   linear small-disturbance model, exact for held inputs",
                   fontsize=8, color=MUTED, loc="left")
     if any(r.warnings for r in readouts):
-        top.text(0.0, 1.16, "Beyond the small-disturbance range (|\u03b2| > 15 deg or |\u03c6| > 45 deg): "
+        top.text(0.0, 1.16, "Beyond the small-disturbance range "
+                 f"(|{SYMBOLS['beta']}| > 15 deg or |{SYMBOLS['phi']}| > 45 deg): "
                  "the linear model no longer represents the aircraft.", transform=top.transAxes,
                  fontsize=8, color=LEVEL_INK[4], fontweight="bold")
 
     # Read-out table: the trace figures beside the eigenvalue figures.
     header = [f"peak {_SYMBOLS[n]}\n[{_unit(n)}]" for n in ("beta", "p", "r", "phi", "ny")]
-    header += ["Dutch roll \u03b6\ntrace | eigen", "Dutch roll P [s]\ntrace | eigen",
-               f"\u03c6 at end\n[{_unit('phi')}]"]
+    header += [f"Dutch roll {SYMBOLS['zeta_d']}\ntrace | eigen", f"Dutch roll {SYMBOLS['P']} [s]\ntrace | eigen",
+               f"{SYMBOLS['phi']} at end\n[{_unit('phi')}]"]
     widths = [0.09, 0.09, 0.09, 0.09, 0.09, 0.16, 0.16, 0.09]
     if not single:
         header = ["case"] + header
@@ -209,7 +235,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
         widths = [w / sum(widths) for w in widths]
     cells = []
     for response, readout, mode_set, label in zip(responses, readouts, modes, labels):
-        row = [] if single else [label if len(label) <= 34 else label[:33] + "\u2026"]
+        row = [] if single else [label if len(label) <= 28 else label[:27] + "\u2026"]
         for name in ("beta", "p", "r", "phi", "ny"):
             try:
                 row.append(_fmt(readout.peak(name).value * _factor(name)))
@@ -240,7 +266,8 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     how = ("logarithmic decrement on successive extrema of " + " / ".join(names)
            + " after the input (circles)" if read else "too few extrema after the input for a read-out")
     note = (f"Dutch roll trace figures: {how};\neigen: from the model's eigenvalues. "
-            "Shaded: controls moving.")
+            f"Shaded: controls moving. {SYMBOLS['phi']} at end: the bank angle when the run stops "
+            "(still changing where it is building or decaying).")
     table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=MUTED,
                     va="bottom")
     return figure

@@ -13,7 +13,7 @@ import hashlib
 import os
 from dataclasses import dataclass
 
-__all__ = ["ConditionData", "AircraftData", "ReportData", "analyse_report", "sha256_of",
+__all__ = ["ConditionData", "VariantCondition", "AircraftData", "ReportData", "analyse_report", "sha256_of",
            "STANDARD_INPUTS"]
 
 #: The standard responses of every condition, in order.
@@ -30,6 +30,28 @@ def sha256_of(path) -> str:
 
 
 @dataclass(frozen=True)
+class VariantCondition:
+    """A variant's condition of the same name as a base condition, for the figures that lay the
+    configurations over each other.
+
+    Attributes
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+        The variant.
+    assessment : latdyn.assessment.AircraftAssessment
+        The variant's assessment narrowed to this condition.
+    result : latdyn.results.ConditionResult
+    responses : tuple of latdyn.responses.StandardResponse
+        The variant's responses to the base's standard inputs (the same deflections).
+    """
+
+    aircraft: object
+    assessment: object
+    result: object
+    responses: tuple
+
+
+@dataclass(frozen=True)
 class ConditionData:
     """One flight condition: model and modes, assessment, standard responses, transfer functions.
 
@@ -43,6 +65,8 @@ class ConditionData:
         omega_phi/omega_d and zeta_phi/zeta_d of phi/da (an oscillatory Dutch roll only).
     buildup : latdyn.estimation.BuildUp or None
         The component build-up of the derivatives (an aircraft with geometry tables only).
+    variants : tuple of VariantCondition
+        The compared variants' conditions of the same name (the base file of a comparison only).
     """
 
     result: object
@@ -51,6 +75,7 @@ class ConditionData:
     transfers: tuple
     bank_ratios: tuple | None
     buildup: object = None
+    variants: tuple = ()
 
 
 @dataclass(frozen=True)
@@ -184,6 +209,31 @@ def _condition(aircraft, result, assessment, step):
     return ConditionData(result, assessment, responses, transfers, ratios, buildup)
 
 
+def _with_variants(conditions, variants, assessments):
+    """The base's conditions with each variant's condition of the same name (same inputs replayed)."""
+    from dataclasses import replace
+
+    from latdyn.responses import replayed_response
+    from latdyn.results import analyse_aircraft
+
+    analysed = [({r.condition.name: r for r in analyse_aircraft(v)}, v, s)
+                for v, s in zip(variants, assessments)]
+    out = []
+    for data in conditions:
+        name = data.result.condition.name
+        found = []
+        for results, variant, assessment in analysed:
+            graded = next((c for c in assessment.conditions if c.name == name), None)
+            result = results.get(name)
+            if graded is None or result is None:
+                continue
+            label = f"{variant.name} / {name}"
+            responses = tuple(replayed_response(result.model, standard, label) for standard in data.responses)
+            found.append(VariantCondition(variant, replace(assessment, conditions=(graded,)), result, responses))
+        out.append(replace(data, variants=tuple(found)))
+    return tuple(out)
+
+
 def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, step=None,
                    gust=None) -> ReportData:
     """Load and analyse the aircraft files of a report.
@@ -229,9 +279,11 @@ def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, 
     variant_assessments = [assess(v, criteria_objects) for v in variant_list]
     comparisons = compare_many(aircraft_list[0], variant_list, criteria_objects) if variant_list else ()
     aircraft_data = []
-    for aircraft, results, assessment in zip(aircraft_list, analyses, assessments):
+    for number, (aircraft, results, assessment) in enumerate(zip(aircraft_list, analyses, assessments)):
         conditions = tuple(_condition(aircraft, result, condition, step)
                            for result, condition in zip(results, assessment.conditions))
+        if number == 0 and variant_list:
+            conditions = _with_variants(conditions, variant_list, variant_assessments)
         aircraft_data.append(AircraftData(aircraft, results, assessment, conditions))
     inputs = [{"file": path, "sha256": sha256_of(path)}
               for a in [*aircraft_list, *variant_list] for path in a.files]

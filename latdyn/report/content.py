@@ -259,21 +259,31 @@ def condition_section(item, data, units=DEFAULT) -> list:
                assessment_table(item.assessment, result.condition.name, f"{name}-assessment")
                .select(ASSESSMENT_REPORT_VIEW)]
     single = replace(item.assessment, conditions=(data.assessment,))
+    others = list(data.variants)
+    overlaid = (" The compared variants are drawn over the base, each configuration in its own colour "
+                "(" + ", ".join(v.aircraft.name for v in others) + ").") if others else ""
     for criteria in [c for c in item.assessment.criteria if c.mode("dutch_roll")]:
+        variants = [v.assessment for v in others if any(c.name == criteria.name for c in v.assessment.criteria)]
         blocks.append(Figure(f"{name}-dutch-roll-{criteria.name}",
                              f"Dutch roll damping against frequency with the {criteria.name} regions "
-                             f"({criteria.edition}). Guidance only.", "dutch_roll",
-                             {"result": single, "criteria": criteria}))
-    for standard in data.responses:
+                             f"({criteria.edition}).{overlaid if variants else ''} Guidance only.", "dutch_roll",
+                             {"result": single, "criteria": criteria, "variants": variants}))
+    for number, standard in enumerate(data.responses):
         article = "an" if standard.kind.startswith("aileron") else "a"
         limits = " and ".join(f"{format_number(units.convert(standard.limits[s], 'angle'), style='general')} "
                               f"{units.label('angle')} of {word}"
                               for s, word in (("beta", "sideslip"), ("phi", "bank")) if s in standard.limits)
         blocks.append(Figure(f"{name}-{standard.kind}",
                              f"Response to {article} {standard.kind.replace('-', ' ')} "
-                             f"({standard.response.description}), sized to stay within {limits}.",
-                             "time_history", {"responses": [standard.response],
-                                              "readouts": [standard.readouts], "modes": [result.modes]}))
+                             f"({standard.response.description}), sized to stay within {limits}."
+                             + (" The variants fly the same input." + overlaid if others else ""),
+                             "time_history", {"responses": [standard.response] + [v.responses[number].response
+                                                                                 for v in others],
+                                              "readouts": [standard.readouts] + [v.responses[number].readouts
+                                                                                for v in others],
+                                              "modes": [result.modes] + [v.result.modes for v in others],
+                                              "labels": [item.aircraft.name] + [v.aircraft.name for v in others]
+                                              if others else None}))
         blocks += [Paragraph(f"Response note ({standard.kind}): {warning}", "warning")
                    for warning in standard.readouts.warnings]
     blocks += [readout_table([(s.kind, s.readouts) for s in data.responses], result.modes,

@@ -23,16 +23,16 @@ def _roll_spiral(result, criteria):
     return roll_spiral_chart(result, criteria)
 
 
-def _dutch_roll(result, criteria):
+def _dutch_roll(result, criteria, variants=()):
     from latdyn.plots.levels import dutch_roll_chart
 
-    return dutch_roll_chart(result, criteria)
+    return dutch_roll_chart(result, criteria, variants=variants)
 
 
-def _time_history(responses, readouts, modes):
+def _time_history(responses, readouts, modes, labels=None):
     from latdyn.plots.responses import time_history_figure
 
-    return time_history_figure(responses, readouts, modes)
+    return time_history_figure(responses, readouts, modes, labels=labels)
 
 
 def _identification(result):

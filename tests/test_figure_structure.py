@@ -1,0 +1,164 @@
+"""Figure structure (issue 13, items 3 and 4): the configurations of a comparison on the Dutch roll
+chart and in the response figures, each in its own colour with a legend; the trade's symbols
+typeset; a key of the level colours that says the levels are guidance only; read-outs worded for
+what they are; and, measured by the renderer on an Agg canvas attached to each figure (no global
+matplotlib state), every text inside the figure, every note inside its axes and no two texts
+overlapping (tests/figure_layout.py)."""
+
+import pathlib
+from dataclasses import replace
+
+import numpy as np
+import pytest
+from matplotlib.colors import to_hex
+
+from figure_layout import layout_problems, rendered
+from latdyn.aircraft import load_aircraft
+from latdyn.assessment import assess
+from latdyn.plots import levels, responses
+from latdyn.plots.style import SYMBOLS, case_colour, plain
+
+ROOT = pathlib.Path(__file__).resolve().parent.parent
+BASE = ROOT / "aircraft" / "kestrel-k40.toml"
+TIP_TANKS = ROOT / "aircraft" / "kestrel-k40-tip-tanks.toml"
+TALL_FIN = ROOT / "aircraft" / "kestrel-k40-tall-fin.toml"
+
+
+@pytest.fixture(scope="module")
+def report():
+    """The demo comparison as the report analyses it: the base and two variants."""
+    from latdyn.report.analysis import analyse_report
+
+    return analyse_report([str(BASE)], [str(TIP_TANKS), str(TALL_FIN)])
+
+
+@pytest.fixture(scope="module")
+def cruise(report):
+    return next(c for c in report.aircraft[0].conditions if c.result.condition.name == "cruise")
+
+
+def _legend_texts(figure):
+    return [t.get_text() for axis in figure.axes if axis.get_legend() is not None
+            for t in axis.get_legend().get_texts()] + \
+        [t.get_text() for legend in figure.legends for t in legend.get_texts()]
+
+
+def _points(figure):
+    """(x, y, edge colour) of every single-marker line on the chart's panels."""
+    out = []
+    for axis in figure.axes:
+        for line in axis.get_lines():
+            if len(line.get_xdata()) == 1 and line.get_marker() not in ("None", None, ""):
+                out.append((float(line.get_xdata()[0]), float(line.get_ydata()[0]),
+                            to_hex(line.get_markeredgecolor())))
+    return out
+
+
+def test_variants_on_the_dutch_roll_chart_each_in_its_colour_with_their_levels(report, cruise):
+    """The tip-tank variant loses Level 1 in cruise (the demo scenario): its point lies where the
+    assessment puts it, in its own colour, and the legend states its level."""
+    base = replace(report.aircraft[0].assessment, conditions=(cruise.assessment,))
+    variants = [v.assessment for v in cruise.variants]
+    figure = levels.dutch_roll_chart(base, variants=variants)
+    points = _points(figure)
+    for index, assessment in enumerate([base, *variants]):
+        mode = assessment.conditions[0].modes.get("dutch_roll")
+        match = [p for p in points if np.isclose(p[0], mode.natural_frequency, rtol=1e-12)
+                 and np.isclose(p[1], mode.damping_ratio, rtol=1e-12)]
+        assert match and match[0][2] == case_colour(index), assessment.aircraft
+    legend = _legend_texts(figure)
+    words = {assessment.aircraft: assessment.conditions[0].for_criteria("mil-f-8785c") for assessment in
+             [base, *variants]}
+    for name, entries in words.items():
+        result = next(e for e in entries if e.mode == "dutch_roll").result
+        assert f'{name}: "cruise" ({result})' in legend
+    assert any("wing-tip tanks" in text and "(Level 2)" in text for text in legend)
+    assert "Levels (guidance only):" in legend and "Level 1" in legend and "Level 2" in legend
+
+
+def test_dutch_roll_chart_axes_typeset_the_symbols_and_the_notice_is_there():
+    from latdyn.assessment import NOTICE
+
+    figure = levels.dutch_roll_chart(assess(load_aircraft(BASE)))
+    panel = figure.axes[0]
+    assert SYMBOLS["omega_nd"] in panel.get_xlabel() and SYMBOLS["zeta_d"] in panel.get_ylabel()
+    assert "omega_nd" not in panel.get_xlabel().replace(SYMBOLS["omega_nd"], "")
+    assert NOTICE.split(":")[0] in figure.get_supxlabel()
+
+
+def test_response_overlay_flies_the_same_input_in_each_configurations_colour(cruise):
+    """The report's response figure of a comparison: the variants replay the base's input."""
+    doublet = cruise.responses[0]
+    for variant in cruise.variants:
+        np.testing.assert_array_equal(variant.responses[0].response.inputs, doublet.response.inputs)
+        np.testing.assert_array_equal(variant.responses[0].response.time, doublet.response.time)
+    everyone = [doublet] + [v.responses[0] for v in cruise.variants]
+    labels = ["base"] + [v.aircraft.name for v in cruise.variants]
+    figure = responses.time_history_figure([s.response for s in everyone], [s.readouts for s in everyone],
+                                           labels=labels)
+    beta_axis = figure.axes[1]
+    traces = [line for line in beta_axis.get_lines() if len(line.get_xdata()) > 100]
+    assert [to_hex(line.get_color()) for line in traces] == [case_colour(i) for i in range(3)]
+    assert set(labels) <= set(_legend_texts(figure))
+    assert SYMBOLS["beta"] in beta_axis.get_ylabel()
+
+
+def test_report_figures_carry_the_variants(report):
+    from latdyn.report.blocks import Figure
+    from latdyn.report.content import report_content
+
+    specs = [b for b in report_content(report).blocks if isinstance(b, Figure)]
+    charts = [s for s in specs if s.kind == "dutch_roll"]
+    histories = [s for s in specs if s.kind == "time_history"]
+    assert charts and histories
+    assert all(len(s.arguments["variants"]) == 2 for s in charts)
+    assert all(len(s.arguments["responses"]) == 3 and len(s.arguments["labels"]) == 3 for s in histories)
+
+
+def test_a_bank_angle_still_building_is_not_called_a_residual(cruise):
+    """After an aileron step the bank is still rising at the end of the run (demo cruise)."""
+    step = cruise.responses[1]
+    figure = responses.time_history_figure([step.response], [step.readouts], [cruise.result.modes])
+    phi_axis = figure.axes[4]
+    notes = [t.get_text() for t in phi_axis.texts]
+    assert any("at end of run" in n and "still building" in n for n in notes)
+    assert not any("residual" in n for n in notes)
+
+
+def test_names_from_files_are_shown_as_written(cruise):
+    """A name holding mathtext is drawn literally (escaped), and the drawing does not fail."""
+    hostile = "K-40 $\\frac{ and $x$"
+    assessment = replace(assess(load_aircraft(BASE)), aircraft=hostile)
+    figure = levels.dutch_roll_chart(assessment)
+    rendered(figure)
+    assert plain(hostile) in figure._suptitle.get_text()
+
+
+def _figures(report, cruise):
+    base = report.aircraft[0].assessment
+    single = replace(base, conditions=(cruise.assessment,))
+    variants = [v.assessment for v in cruise.variants]
+    doublet, step = cruise.responses
+    every = [doublet] + [v.responses[0] for v in cruise.variants]
+    return {
+        "dutch_roll_chart": lambda: levels.dutch_roll_chart(base),
+        "dutch_roll_chart_variants": lambda: levels.dutch_roll_chart(single, variants=variants),
+        "roll_spiral_chart": lambda: levels.roll_spiral_chart(base),
+        "s_plane_map": lambda: levels.s_plane_map(base),
+        "time_history_doublet": lambda: responses.time_history_figure(
+            [doublet.response], [doublet.readouts], [cruise.result.modes]),
+        "time_history_step": lambda: responses.time_history_figure(
+            [step.response], [step.readouts], [cruise.result.modes]),
+        "time_history_overlay": lambda: responses.time_history_figure(
+            [s.response for s in every], [s.readouts for s in every],
+            labels=[report.aircraft[0].aircraft.name] + [v.aircraft.name for v in cruise.variants]),
+    }
+
+
+FIGURES = ["dutch_roll_chart", "dutch_roll_chart_variants", "roll_spiral_chart", "s_plane_map",
+           "time_history_doublet", "time_history_step", "time_history_overlay"]
+
+
+@pytest.mark.parametrize("name", FIGURES)
+def test_no_text_outside_the_figure_or_its_axes_and_none_overlapping(report, cruise, name):
+    assert layout_problems(_figures(report, cruise)[name]()) == []
