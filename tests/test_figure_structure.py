@@ -142,6 +142,8 @@ def _figures(report, cruise):
     every = [doublet] + [v.responses[0] for v in cruise.variants]
     return {
         "dutch_roll_chart": lambda: levels.dutch_roll_chart(base),
+        "dutch_roll_chart_pass_fail": lambda: levels.dutch_roll_chart(
+            assess(load_aircraft(BASE), ["14cfr25-181"])),
         "dutch_roll_chart_variants": lambda: levels.dutch_roll_chart(single, variants=variants),
         "roll_spiral_chart": lambda: levels.roll_spiral_chart(base),
         "s_plane_map": lambda: levels.s_plane_map(base),
@@ -155,7 +157,7 @@ def _figures(report, cruise):
     }
 
 
-FIGURES = ["dutch_roll_chart", "dutch_roll_chart_variants", "roll_spiral_chart", "s_plane_map",
+FIGURES = ["dutch_roll_chart", "dutch_roll_chart_pass_fail", "dutch_roll_chart_variants", "roll_spiral_chart", "s_plane_map",
            "time_history_doublet", "time_history_step", "time_history_overlay"]
 
 

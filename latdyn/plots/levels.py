@@ -196,6 +196,7 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
     points = [(k, *item) for k, assessment in enumerate(configurations)
               for item in _dutch_points(assessment, criteria)]
     condition_names = list(dict.fromkeys(c.name for _, c, _, _ in points))
+    base_names = [c.name for c in result.conditions]
     pass_fail = criteria.assessment != "levels"
     categories = ["all"] if pass_fail else (list(dict.fromkeys(c.category for _, c, _, _ in points)) or [None])
     omega_top = max([3.0] + [1.15 * m.natural_frequency for _, _, m, _ in points])
@@ -244,7 +245,7 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
             style = configuration_style(k)
             marker = style["marker"] if len(configurations) == 1 else \
                 CONFIGURATION_MARKERS[condition_names.index(condition.name) % len(CONFIGURATION_MARKERS)]
-            colour = case_colour(condition_names.index(condition.name)) if len(configurations) == 1 \
+            colour = case_colour(base_names.index(condition.name)) if len(configurations) == 1 \
                 else style["color"]
             words = entry.result if entry is not None else "not assessed"
             label = plain((f"{configurations[k].aircraft}: " if len(configurations) > 1 else "")

@@ -16,7 +16,7 @@ __all__ = ["TEXT", "MUTED", "GRID", "BAND", "RULE", "UNDECIDED", "LEVEL_COLOURS"
            "PALETTE", "MODE_MARKERS", "MODE_NAMES", "INPUT_COLOURS", "INPUT_STYLES", "TITLE_SIZE",
            "LABEL_SIZE", "TICK_SIZE", "NOTE_SIZE", "new_figure", "figure_for", "style_axis",
            "add_notice", "case_colour", "SYMBOLS", "MODE_COLOURS", "CONFIGURATION_MARKERS", "CURRENT",
-           "plain", "level_handles", "key_axis", "mark_current", "axis_label", "configuration_style"]
+           "plain", "unit_text", "level_handles", "key_axis", "mark_current", "axis_label", "configuration_style"]
 
 #: Ink of titles, labels and tick labels.
 TEXT = "#1f2933"
@@ -88,6 +88,17 @@ def plain(text) -> str:
     'K-40 \\$\\frac{'
     """
     return str(text).replace("$", r"\$")
+
+
+def unit_text(word) -> str:
+    """A unit word with its powers typeset (``m^2`` -> ``m$^{2}$``).
+
+    >>> unit_text("slug ft^2"), unit_text("1/s")
+    ('slug ft$^{2}$', '1/s')
+    """
+    import re
+
+    return re.sub(r"\^(-?\d+)", r"$^{\1}$", word)
 
 
 def axis_label(words, symbol=None, unit=None) -> str:

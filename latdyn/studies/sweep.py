@@ -27,7 +27,8 @@ from latdyn.studies.rules import check_grid
 
 __all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
            "find_crossings", "boundary_name", "MAX_POINTS", "level_text",
-           "sweep_document", "SUMMARY_POINTS", "level_shares", "figure_ranges"]
+           "sweep_document", "SUMMARY_POINTS", "level_shares", "figure_ranges", "CurrentDesign",
+           "current_design"]
 
 #: Largest grid (points per condition) a sweep accepts [-].
 MAX_POINTS = 1_000_000
@@ -416,6 +417,75 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
         items.append(ConditionSweep(item, result, crossings))
         notes += sweep_notes(aircraft, item, [axis.key.name for axis in axes])
     return SweepResult(aircraft, axes, sets, tuple(items), tuple(notes))
+
+
+@dataclass(frozen=True)
+class CurrentDesign:
+    """The aircraft as its file gives it, placed on a sweep's axes.
+
+    Attributes
+    ----------
+    condition : str
+    values : tuple of float
+        The value of each swept parameter [typed units, as the sweep's axes]; NaN where the
+        file gives none.
+    result : latdyn.studies.batch.BatchResult
+        Its mode figures and levels (one case, the same engine as the grid).
+    """
+
+    condition: str
+    values: tuple
+    result: object
+
+
+def _current_value(aircraft, condition, inputs, name):
+    """The file's value of a batch input name [SI, rad]; None where the file gives none."""
+    if name in ("fin.area_ratio", "fin.arm_ratio"):
+        return 1.0
+    if name.startswith("augmentation."):
+        augmentation = getattr(condition, "augmentation", None)
+        return None if augmentation is None else getattr(augmentation, name.split(".", 1)[1], None)
+    if name == "mach":
+        return inputs.get("mach_number")
+    if name in inputs:
+        return inputs[name]
+    from latdyn.estimation.buildup import flat_values
+
+    return flat_values(aircraft, condition.flight).get(name)
+
+
+def current_design(result: SweepResult) -> tuple:
+    """Where the current design (the file's values) lies on a sweep, per condition.
+
+    Parameters
+    ----------
+    result : SweepResult
+
+    Returns
+    -------
+    tuple of CurrentDesign
+        In the order of ``result.conditions``.
+
+    Examples
+    --------
+    >>> from latdyn.aircraft import load_aircraft
+    >>> fin = load_aircraft("aircraft/studies/kestrel-k40-fin.toml")
+    >>> swept = sweep(fin, [parse_range("fin.area_ratio=0.5:1.5:3")], "cruise")
+    >>> current_design(swept)[0].values
+    (1.0,)
+    """
+    from latdyn.studies.batch import case_inputs
+
+    out = []
+    for item in result.conditions:
+        cases = condition_set(result.aircraft, item.condition)
+        inputs = case_inputs(cases)
+        values = []
+        for axis in result.axes:
+            value = _current_value(result.aircraft, item.condition, inputs, axis.key.name)
+            values.append(math.nan if value is None else float(axis.key.from_si(float(np.ravel(value)[0]))))
+        out.append(CurrentDesign(item.condition.name, tuple(values), run_batch(cases, result.criteria)))
+    return tuple(out)
 
 
 #: Grids larger than this (points per condition) print a summary, not every point, as a table.
