@@ -20,7 +20,7 @@ import os
 from dataclasses import dataclass
 
 from latdyn.errors import InputError, describe_value
-from latdyn.input_files import parse_toml, special_file_kind
+from latdyn.input_files import note_input, parse_toml, special_file_kind
 
 __all__ = ["Leaf", "SCHEMA", "PLAUSIBLE_RANGES", "plausible_range", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
            "given_values", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
@@ -332,6 +332,7 @@ def _read_toml(path: str, referrer=None) -> dict:
     try:
         with open(path, "rb") as handle:
             data = handle.read(MAX_FILE_BYTES + 1)
+        note_input(path)
     except OSError as error:
         raise InputError(path, None, "a readable file", error.strerror or str(error)) from None
     if b"\x00" in data:

@@ -115,23 +115,64 @@ def _refuse_empty_values(args):
             raise InputError("command line", option, "a name or path", "an empty value")
 
 
+def _quiet_stdout():
+    """Point standard output at the null device, so the final flush at exit cannot fail again."""
+    import os
+
+    if sys.stdout is not sys.__stdout__:
+        return
+    try:
+        null = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(null, sys.stdout.fileno())
+        os.close(null)
+    except (OSError, ValueError):
+        pass
+
+
 def main(argv=None) -> int:
-    """Run ``latdyn`` with the given arguments; return the exit status."""
+    """Run ``latdyn`` with the given arguments; return the exit status.
+
+    Bad input, an unwritable output (full disk, read-only folder) and a full
+    standard output give one line on stderr and status 2; a closed pipe on
+    standard output ends quietly with status 141 (128 + SIGPIPE, as a
+    program ended by the pipe); SIGINT and SIGTERM clean up (no temporary
+    file or folder is left) and give 130 and 143 (128 + the signal).
+    """
+    from latdyn.input_files import recording_inputs
+    from latdyn.output_files import interruptible, write_error
+
     args = parse_arguments(sys.argv[1:] if argv is None else argv)
     debug = getattr(args, "debug", False)
     try:
-        with warnings.catch_warnings():
+        with warnings.catch_warnings(), interruptible(), recording_inputs():
             # the commands print these texts themselves (from Aircraft.warnings and the read-outs)
             warnings.simplefilter("ignore", LatdynWarning)
             _refuse_empty_values(args)
             status = _command_module(args.command).run(args)
+            sys.stdout.flush()  # a full standard output is found here, not at exit
     except (InputError, UnresolvedRoots) as error:
         if debug:
             raise
         print(f"latdyn: {error}", file=sys.stderr)
         return 2
     except BrokenPipeError:
-        return 0
+        _quiet_stdout()
+        return 141
+    except KeyboardInterrupt as error:
+        if debug:
+            raise
+        import signal
+
+        number = getattr(error, "signal", signal.SIGINT)
+        print(f"latdyn: interrupted ({signal.Signals(number).name})", file=sys.stderr)
+        return 128 + number
+    except OSError as error:  # standard output on a full disk (file outputs say so as InputError)
+        if debug:
+            raise
+        _quiet_stdout()
+        print(f"latdyn: {write_error(error.filename or 'standard output', error, 'an output that can be written')}",
+              file=sys.stderr)
+        return 2
     return int(status or 0)
 
 

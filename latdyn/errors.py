@@ -118,6 +118,9 @@ class InputError(ValueError):
         self.condition = condition
         super().__init__(format_problem(file, key, expected, found, condition))
 
+    def __reduce__(self):  # pickled whole (a worker process's error reaches the parent intact)
+        return type(self), (self.file, self.key, self.expected, self.found, self.condition)
+
 
 class UnresolvedRoots(ValueError):
     """The roots of a model cannot be computed to working accuracy in double precision.

@@ -991,26 +991,17 @@ def write_variant(aircraft, result, base_file, output_file, command="latdyn iden
         derivatives are written in force and moment units, which the
         identified primed values cannot override key by key).
     """
-    import os
-    import tempfile
-
     from latdyn.aircraft import load_aircraft
     from latdyn.errors import InputError
-    from latdyn.output_files import atomic_output
+    from latdyn.output_files import atomic_path
 
     text = variant_text(aircraft, result, base_file, output_file, command)
-    folder = os.path.dirname(os.path.abspath(output_file))
-    handle, trial = tempfile.mkstemp(prefix=".identified.", suffix=".toml", dir=folder)
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8") as stream:
+    with atomic_path(output_file, "-o") as temporary:  # beside the output: the same relative extends
+        with open(temporary, "w", encoding="utf-8", newline="\n") as stream:
             stream.write(text)
         try:
-            load_aircraft(trial)
+            load_aircraft(temporary)
         except InputError as error:
             raise InputError(output_file, "-o", "a variant file that loads (the identified values written "
                              "over the original's keys)", f"{error.key or 'a problem'}: {error.found}"
                              ) from None
-    finally:
-        os.remove(trial)
-    with atomic_output(output_file) as stream:
-        stream.write(text)

@@ -4,20 +4,78 @@ The counterpart of :mod:`latdyn.output_files`.  A missing file, a folder, a
 file too large to be an input, binary data and bytes that are not UTF-8
 each become one :class:`~latdyn.errors.InputError`; a UTF-8 byte-order mark
 (written by some spreadsheet programs) is dropped.
+
+Every file read is noted (:func:`note_input`) while a
+:func:`recording_inputs` block is open (the command line opens one per
+run), so that no output of the run can be written over one of its inputs
+(:func:`latdyn.output_files.check_outputs`).
 """
 
 from __future__ import annotations
 
 import codecs
+import contextlib
 import os
 import tomllib
 
 from latdyn.errors import InputError
 
-__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES", "special_file_kind"]
+__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES", "special_file_kind", "note_input",
+           "recording_inputs", "inputs_read"]
 
 #: Largest input text file read [bytes] (the aircraft loader has its own limit).
 MAX_INPUT_BYTES = 64 * 1024 * 1024
+
+
+_RECORDS = []  # the open recording_inputs blocks, innermost last: dict of real path -> (device, inode)
+
+
+@contextlib.contextmanager
+def recording_inputs():
+    """Note every input file read inside the block (see :func:`note_input`).
+
+    Blocks nest: a file read inside an inner block is noted in the outer
+    ones too.
+
+    Yields
+    ------
+    dict
+        Real path of each file read -> its ``(st_dev, st_ino)``.
+
+    Examples
+    --------
+    >>> with recording_inputs() as read:
+    ...     note_input(__file__)
+    >>> [os.path.basename(path) for path in read]
+    ['input_files.py']
+    """
+    read = {}
+    _RECORDS.append(read)
+    try:
+        yield read
+    finally:
+        _RECORDS.remove(read)
+
+
+def note_input(path) -> None:
+    """Record ``path`` as an input of the run in every open :func:`recording_inputs` block."""
+    if not _RECORDS:
+        return
+    try:
+        status = os.stat(path)
+    except OSError:
+        return
+    real = os.path.realpath(path)
+    for read in _RECORDS:
+        read[real] = (status.st_dev, status.st_ino)
+
+
+def inputs_read() -> dict:
+    """The input files noted in the open :func:`recording_inputs` blocks (real path -> (device, inode))."""
+    found = {}
+    for read in _RECORDS:
+        found.update(read)
+    return found
 
 
 def special_file_kind(path):
@@ -96,6 +154,7 @@ def read_input_text(path, kind, max_bytes=MAX_INPUT_BYTES, missing=None) -> str:
                              f"{size / 1048576:.1f} MB")
         with open(file, "rb") as handle:
             data = handle.read(max_bytes + 1)
+        note_input(file)
     except FileNotFoundError:
         raise InputError(file, None, missing or f"an existing {kind}", "no such file") from None
     except OSError as error:

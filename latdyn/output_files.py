@@ -1,57 +1,132 @@
 """Writing output files atomically: no half-written file on any error.
 
-Everything is written to a temporary file in the destination folder and
-renamed over the destination (``os.replace``) only when complete.
+Every file latdyn writes goes through :func:`atomic_path`: it is written to a
+temporary file in the destination folder and renamed over the destination
+(``os.replace``) only when complete.  A full disk, a read-only or missing
+folder become one :class:`~latdyn.errors.InputError` naming the
+destination, and nothing is left behind.  No output may be one of the run's
+input files (:func:`check_outputs`, against the files noted by
+:func:`latdyn.input_files.recording_inputs`).
+
+SIGINT and SIGTERM inside :func:`interruptible` raise :class:`Interrupted`,
+so the same clean-up runs as on an error (the command line exits with
+status 128 + the signal's number); :func:`deferred_interrupts` holds them
+over the few steps that must finish together.
 """
 
 from __future__ import annotations
 
 import contextlib
+import errno
 import os
+import signal
 import tempfile
+import threading
 
 from latdyn.errors import InputError
 
-__all__ = ["atomic_output", "atomic_path", "check_output_file", "check_output_folder"]
+__all__ = ["atomic_output", "atomic_path", "check_output_file", "check_output_folder", "check_outputs",
+           "write_error", "Interrupted", "interruptible", "deferred_interrupts"]
+
+
+def write_error(path, error, expected="an output file that can be written") -> InputError:
+    """The one-line :class:`InputError` for an ``OSError`` met while writing ``path``.
+
+    Examples
+    --------
+    >>> print(write_error("out.csv", OSError(28, "No space left on device")))
+    out.csv: expected an output file that can be written, found no space left on device (ENOSPC)
+    """
+    words = (error.strerror or str(error) or type(error).__name__).rstrip(".")
+    words = words[:1].lower() + words[1:]
+    code = errno.errorcode.get(error.errno) if error.errno else None
+    return InputError(path, None, expected, f"{words} ({code})" if code else words)
+
+
+def check_outputs(outputs, inputs=None) -> None:
+    """Refuse an output path that is one of the run's input files, before anything is written.
+
+    Parameters
+    ----------
+    outputs : iterable of (path, option)
+        Each output file with the command-line option that named it.
+    inputs : iterable of str, optional
+        Input files; default those noted in the open
+        :func:`latdyn.input_files.recording_inputs` blocks.
+
+    Raises
+    ------
+    InputError
+        An output that is an existing input file (the same file by
+        ``os.path.samefile``: through a symbolic or hard link too).
+    """
+    from latdyn.input_files import inputs_read
+
+    known = inputs_read()
+    identities = set(known.values())
+    for path in inputs or ():
+        with contextlib.suppress(OSError):
+            status = os.stat(path)
+            identities.add((status.st_dev, status.st_ino))
+    if not identities:
+        return
+    for path, option in outputs:
+        if not path:
+            continue
+        try:
+            status = os.stat(path)
+        except OSError:
+            continue  # not there yet: it cannot be an input
+        if (status.st_dev, status.st_ino) in identities:
+            raise InputError(path, option, "an output path that is not one of the inputs",
+                             "the path of an input file")
 
 
 @contextlib.contextmanager
-def atomic_path(path):
+def atomic_path(path, option=None):
     """Yield a temporary path beside ``path``; rename it to ``path`` on success.
 
     The temporary name keeps the suffix of ``path`` (matplotlib picks the
-    format from it).  On an exception the temporary file is removed and the
-    destination is left as it was.
+    format from it).  On an exception (an interruption included) the
+    temporary file is removed and the destination is left as it was; an
+    ``OSError`` while writing (a full disk) becomes one :class:`InputError`
+    naming ``path``.
 
     Parameters
     ----------
     path : str or os.PathLike
         Destination file.
+    option : str, optional
+        The command-line option that named it, for the message.
 
     Raises
     ------
     InputError
-        When the destination folder does not exist or is not writable.
+        The destination is an input file of the run, its folder does not
+        exist or is not writable, or writing fails (full disk, read-only
+        file system).
     """
     path = os.fspath(path)
+    check_outputs([(path, option)])
     folder = os.path.dirname(os.path.abspath(path))
     base, suffix = os.path.splitext(os.path.basename(path))
     try:
-        handle, temporary = tempfile.mkstemp(prefix=f".{base}.", suffix=suffix, dir=folder)
+        handle, temporary = tempfile.mkstemp(prefix=f".{base[:100]}.", suffix=suffix[:20], dir=folder)
     except OSError as error:
-        raise InputError(path, None, "an output file in an existing, writable folder",
-                         error.strerror or str(error)) from None
+        raise write_error(path, error, "an output file in an existing, writable folder") from None
     os.close(handle)
     mask = os.umask(0o022)
     os.umask(mask)
-    os.chmod(temporary, 0o666 & ~mask)
     try:
-        yield temporary
+        os.chmod(temporary, 0o666 & ~mask)
+        try:
+            yield temporary
+        except OSError as error:  # a full disk, a read-only file system, an I/O error
+            raise write_error(path, error) from None
         try:
             os.replace(temporary, path)
         except OSError as error:  # the destination is a folder, or became unwritable
-            raise InputError(path, None, "an output file that can be replaced",
-                             error.strerror or str(error)) from None
+            raise write_error(path, error, "an output file that can be replaced") from None
     except BaseException:
         with contextlib.suppress(OSError):
             os.remove(temporary)
@@ -126,7 +201,7 @@ def check_output_file(path, option, figure=False):
 
 
 @contextlib.contextmanager
-def atomic_output(path, text=True):
+def atomic_output(path, text=True, option=None):
     """Open a temporary file beside ``path`` for writing; rename on success.
 
     Parameters
@@ -135,6 +210,8 @@ def atomic_output(path, text=True):
         Destination file.
     text : bool
         Text mode (UTF-8, ``\\n`` line ends) or binary.
+    option : str, optional
+        The command-line option that named it, for the message.
 
     Examples
     --------
@@ -145,8 +222,76 @@ def atomic_output(path, text=True):
     >>> (folder / "a.txt").read_text()
     'x'
     """
-    with atomic_path(path) as temporary:
+    with atomic_path(path, option) as temporary:
         mode = "w" if text else "wb"
         options = {"encoding": "utf-8", "newline": "\n"} if text else {}
         with open(temporary, mode, **options) as handle:
             yield handle
+
+
+class Interrupted(KeyboardInterrupt):
+    """SIGINT or SIGTERM received inside :func:`interruptible`.
+
+    A :class:`KeyboardInterrupt`, so every clean-up that runs on Ctrl-C runs
+    on SIGTERM too.
+
+    Attributes
+    ----------
+    signal : int
+        The signal's number (the command line exits with 128 + it).
+    """
+
+    def __init__(self, signal_number):
+        super().__init__(signal_number)
+        self.signal = signal_number
+
+
+_DEFERRAL = {"depth": 0, "pending": None}
+_SIGNALS = tuple(getattr(signal, name) for name in ("SIGINT", "SIGTERM") if hasattr(signal, name))
+
+
+def _raise_interrupted(signal_number, frame):
+    if _DEFERRAL["depth"]:
+        _DEFERRAL["pending"] = signal_number
+        return
+    raise Interrupted(signal_number)
+
+
+@contextlib.contextmanager
+def interruptible():
+    """Inside the block, SIGINT and SIGTERM raise :class:`Interrupted` (clean-up runs).
+
+    The previous handlers are put back at the end.  Outside the main thread
+    (where Python cannot set handlers) or inside another such block, nothing
+    changes.
+    """
+    if threading.current_thread() is not threading.main_thread() or \
+            signal.getsignal(signal.SIGINT) is _raise_interrupted:
+        yield
+        return
+    previous = {number: signal.getsignal(number) for number in _SIGNALS}
+    for number in _SIGNALS:
+        signal.signal(number, _raise_interrupted)
+    try:
+        yield
+    finally:
+        for number, handler in previous.items():
+            signal.signal(number, handler if handler is not None else signal.SIG_DFL)
+
+
+@contextlib.contextmanager
+def deferred_interrupts():
+    """Hold SIGINT and SIGTERM (inside :func:`interruptible`) until the block ends, then raise.
+
+    For the steps that must finish together (the renames that put a report
+    folder in place, the clean-up after an error).
+    """
+    _DEFERRAL["depth"] += 1
+    try:
+        yield
+    finally:
+        _DEFERRAL["depth"] -= 1
+        pending = _DEFERRAL["pending"]
+        if not _DEFERRAL["depth"] and pending is not None:
+            _DEFERRAL["pending"] = None
+            raise Interrupted(pending)

@@ -83,7 +83,8 @@ def report_below(found, threshold, verb="is"):
 
 
 def load_study_inputs(args):
-    """Check ``--plot``, load the aircraft and ``--criteria``, check ``--condition``.
+    """Check ``--plot``, load the aircraft and ``--criteria``, check ``--condition``; refuse a
+    ``--plot`` that is one of the files read.
 
     Returns
     -------
@@ -106,6 +107,10 @@ def load_study_inputs(args):
     criteria = [load_criteria(name) for name in names] if names else None
     if args.condition:
         aircraft.condition(args.condition)
+    if getattr(args, "plot", None):
+        from latdyn.output_files import check_outputs
+
+        check_outputs([(args.plot, "--plot")])
     return aircraft, criteria
 
 

@@ -95,8 +95,9 @@ def run(args):
     else:
         text = _text(aircraft_list, builds, args.format == "markdown")
     if args.output:
-        from latdyn.output_files import atomic_output
+        from latdyn.output_files import atomic_output, check_outputs
 
+        check_outputs([(args.output, "-o")])
         extension = extension_text(aircraft_list[0], builds[0], args.output)
         with atomic_output(args.output) as handle:
             handle.write(extension)

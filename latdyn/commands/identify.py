@@ -85,7 +85,7 @@ def run(args):
     from latdyn.identification import identified_model, identify, write_variant
     from latdyn.model import lateral_model
     from latdyn.modes import find_modes
-    from latdyn.output_files import check_output_file
+    from latdyn.output_files import check_output_file, check_outputs
     from latdyn.report.render import render, render_csv
     from latdyn.report.tables import (identification_fit_table, identified_derivative_table,
                                       identified_mode_table)
@@ -98,20 +98,12 @@ def run(args):
     columns = _columns(args.column)
     aircraft = load_aircraft(args.file)
     condition = aircraft.condition(args.condition) if args.condition else aircraft.conditions[0]
-    inputs = {os.path.realpath(p) for p in (*aircraft.files, *args.data)}
-    for option, path in (("-o", args.output), ("--plot", args.plot)):
-        if path and os.path.realpath(path) in inputs:
-            raise InputError(path, option, "an output path that is not one of the inputs",
-                             "the path of an input file")
     if args.report:
-        folder = os.path.realpath(args.report)
-        if os.path.exists(folder) and not args.force:
-            raise InputError(args.report, "--report", "a report folder that does not exist yet (or --force "
-                             "to replace it)", "an existing " + ("folder" if os.path.isdir(folder) else "file"))
-        if any(os.path.commonpath([folder, path]) == folder for path in inputs):
-            raise InputError(args.report, "--report", "a report folder that holds none of the inputs",
-                             "a folder holding an input file")
+        from latdyn.output_folders import check_folder_target
+
+        check_folder_target(args.report, args.force, "--report", args.data)
     records = [read_flight_csv(path, columns) for path in args.data]
+    check_outputs([(args.output, "-o"), (args.plot, "--plot")])
     method = args.method.replace("-", "_")
     result = identify(aircraft, condition, records, fix=args.fix, method=method)
     model = lateral_model(aircraft, condition)
@@ -128,7 +120,8 @@ def run(args):
         from latdyn.report.flight_test import write_identification_report
 
         write_identification_report(args.report, aircraft, result, predicted_modes, identified_modes,
-                                    force=args.force, command="latdyn identify " + " ".join(sys.argv[2:]))
+                                    force=args.force, command="latdyn identify " + " ".join(sys.argv[2:]),
+                                    inputs=args.data)
     primary = result.nondimensional if result.nondimensional is not None else result.derivatives
     dimensional = result.nondimensional is None
     derivatives = identified_derivative_table(primary, dimensional=dimensional)

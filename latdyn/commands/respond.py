@@ -427,9 +427,13 @@ def run(args):
             lines = [("## " + line) if line and not line.startswith(" ") else
                      ("- " + line.strip() if line.strip() else "") for line in lines]
         text = "\n".join(lines) + "\n"
+    from latdyn.output_files import check_outputs
+
+    csv_paths = case_csv_paths(args.csv, labels) if args.csv else []
+    check_outputs([*((path, "--csv") for path in csv_paths), (args.plot, "--plot"), (args.bode, "--bode")])
     written = []
     if args.csv:
-        for path, response in zip(case_csv_paths(args.csv, labels), responses):
+        for path, response in zip(csv_paths, responses):
             write_csv(path, response)
             written.append(path)
     if args.plot:

@@ -75,6 +75,10 @@ def run(args):
     if args.condition:
         for aircraft in aircraft_list:
             aircraft.condition(args.condition)
+    if args.plot:
+        from latdyn.output_files import check_outputs
+
+        check_outputs([(args.plot, "--plot")])
     computed = [(aircraft, steady(aircraft, args.condition, sideslips, banks, args.roll_fraction))
                 for aircraft in aircraft_list]
     if args.format == "json":

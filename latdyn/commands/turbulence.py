@@ -94,11 +94,13 @@ def run(args):
         else:
             entries.append((condition.name, "bare airframe", result))
         documents.append(document)
+    from latdyn.commands.respond import case_csv_paths
+    from latdyn.output_files import check_outputs
+
+    paths = case_csv_paths(args.csv, [c.name for c in chosen]) if args.csv else []
+    check_outputs([*((path, "--csv") for path in paths), (args.plot, "--plot")])
     written = []
     if args.csv:
-        from latdyn.commands.respond import case_csv_paths
-
-        paths = case_csv_paths(args.csv, [c.name for c in chosen])
         for path, result in zip(paths, primary):
             _write_history(path, result, args)
             written.append(path)

@@ -6,6 +6,7 @@ which import matplotlib inside their functions).
 
 from __future__ import annotations
 
+import functools
 import os
 
 __all__ = ["PLOTS", "draw", "draw_all"]
@@ -70,7 +71,9 @@ def draw_all(specs, folder, step=None, workers=None):
 
     With several cores and at least :data:`PARALLEL_FIGURES` figures the
     figures are drawn in worker processes (forked, so the specifications are
-    inherited, not pickled; where fork is not available, one after another).
+    inherited, not pickled; where fork is not available, one after another);
+    an error or an interruption in the parent ends the workers before it
+    passes on.
     The files are the same either way.
 
     Parameters
@@ -99,16 +102,21 @@ def draw_all(specs, folder, step=None, workers=None):
                 step()
         _PENDING = ()
         return
-    from concurrent.futures import ProcessPoolExecutor, as_completed
-
     _PENDING = specs
     try:
-        context = multiprocessing.get_context("fork")
-        with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
-            futures = [pool.submit(_draw_one, index, folder) for index in range(len(specs))]
-            for future in as_completed(futures):
-                future.result()
+        # a pool that is terminated (workers killed, joined) when anything interrupts the parent,
+        # so no worker writes into a folder being removed; workers leave SIGINT to the parent
+        with multiprocessing.get_context("fork").Pool(workers, initializer=_worker_signals) as pool:
+            for _ in pool.imap_unordered(functools.partial(_draw_one, folder=folder), range(len(specs))):
                 if step is not None:
                     step()
     finally:
         _PENDING = ()
+
+
+def _worker_signals():
+    """In a worker: SIGINT ignored (the parent handles it), SIGTERM ends the worker at once."""
+    import signal
+
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)

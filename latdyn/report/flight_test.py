@@ -106,7 +106,7 @@ def identification_content(aircraft, result, predicted_modes, identified_modes, 
 
 
 def write_identification_report(output, aircraft, result, predicted_modes, identified_modes, force=False,
-                                units=None, command="latdyn identify") -> str:
+                                units=None, command="latdyn identify", inputs=()) -> str:
     """Write the flight-test report folder atomically, with the identified variant aircraft file.
 
     The folder holds ``index.html``, ``report.md``, ``tables/*.csv``,
@@ -117,6 +117,13 @@ def write_identification_report(output, aircraft, result, predicted_modes, ident
     -------
     str
         The folder written.
+
+    Raises
+    ------
+    latdyn.errors.InputError
+        See :func:`latdyn.report.write.write_folder` (``inputs``: the
+        measured records and any other input file of the run besides the
+        aircraft's files).
     """
     from dataclasses import replace
 
@@ -139,4 +146,4 @@ def write_identification_report(output, aircraft, result, predicted_modes, ident
                                         variant_name, units, command)
         write_files(report, temporary)
 
-    return write_folder(final, fill, force)
+    return write_folder(final, fill, force, "--report", (*aircraft.files, *inputs))

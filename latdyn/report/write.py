@@ -1,22 +1,20 @@
 """Writing a report folder: analysis, content, figures and files, atomically.
 
 The folder is built under a temporary name beside the destination and
-renamed into place at the end, so a failure part-way leaves nothing
-half-written.  Figures are drawn on their own ``matplotlib.figure.Figure``
+renamed into place at the end, so a failure or an interruption part-way
+leaves nothing half-written (:mod:`latdyn.output_folders`: the manifest
+that marks a report folder, exclusive renames, ``--force`` for report
+folders only).  Figures are drawn on their own ``matplotlib.figure.Figure``
 objects and saved through their canvas: matplotlib's global state (the
 pyplot backend, open figures) is left as it was.
 """
 
 from __future__ import annotations
 
-import contextlib
 import json
 import os
-import shutil
 import sys
-import tempfile
 
-from latdyn.errors import InputError
 from latdyn.report.analysis import analyse_report
 from latdyn.report.content import report_content
 from latdyn.report.render import render_csv, render_html, render_markdown
@@ -32,7 +30,9 @@ def _progress(total, enabled):
 
 
 def _write_text(path, text):
-    with open(path, "w", encoding="utf-8", newline="\n") as handle:
+    from latdyn.output_files import atomic_output
+
+    with atomic_output(path) as handle:
         handle.write(text)
 
 
@@ -107,8 +107,10 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
     Raises
     ------
     InputError
-        Bad input, or ``output`` exists and ``force`` is not set.
+        Bad input, or ``output`` exists and ``force`` is not set (or is not
+        a report folder, or holds an input file).
     """
+    inputs = [*files, *variants, *(name for name in criteria_sets or () if os.path.isfile(name))]
     if progress is None:
         progress = sys.stderr.isatty()
     bar = _progress(None, progress)
@@ -121,14 +123,19 @@ def write_report(files, output, variants=(), criteria_sets=None, force=False, pr
         write_files(report, temporary, step=lambda: bar.update(1))
 
     try:
-        return write_folder(output, fill, force)
+        return write_folder(output, fill, force, inputs=inputs)
     finally:
         bar.close()
 
 
-def write_folder(output, fill, force=False) -> str:
+def write_folder(output, fill, force=False, option="-o", inputs=()) -> str:
     """Write a report folder atomically: ``fill(temporary)`` writes into a temporary folder
-    beside ``output``, which is renamed into place only when ``fill`` returns.
+    beside ``output``, which is put in place only when ``fill`` returns.
+
+    The folder gets its manifest (:data:`latdyn.output_folders.MARKER`);
+    ``force`` replaces only a latdyn report folder, never one holding an
+    input of the run, and never a folder that appeared during the run unless
+    it is a report (:func:`latdyn.output_folders.atomic_folder`).
 
     Parameters
     ----------
@@ -137,7 +144,11 @@ def write_folder(output, fill, force=False) -> str:
     fill : callable
         Writes every file into the (existing, empty) folder it is given.
     force : bool
-        Replace an existing folder.
+        Replace an existing report folder.
+    option : str
+        The command-line option that named the folder, for the messages.
+    inputs : iterable of str
+        Input files known before the run (those read by ``fill`` are added).
 
     Returns
     -------
@@ -147,44 +158,13 @@ def write_folder(output, fill, force=False) -> str:
     Raises
     ------
     InputError
-        ``output`` exists and ``force`` is not set, or cannot be created; and
+        ``output`` exists and ``force`` is not set (or it is not a report
+        folder, or holds an input), cannot be created or written; and
         whatever ``fill`` raises (nothing is left behind then).
     """
+    from latdyn.output_folders import atomic_folder
+
     output = os.path.normpath(os.fspath(output))
-    if os.path.exists(output) and not force:
-        raise InputError(output, "-o", "a report folder that does not exist yet (or --force to replace it)",
-                         "an existing " + ("folder" if os.path.isdir(output) else "file"))
-    parent = os.path.dirname(os.path.abspath(output))
-    created = []  # parent folders made here, deepest first: removed again if the report fails
-    folder = parent
-    while not os.path.exists(folder):
-        created.append(folder)
-        folder = os.path.dirname(folder)
-
-    def remove_created():
-        for made in created:
-            with contextlib.suppress(OSError):
-                os.rmdir(made)
-
-    try:
-        os.makedirs(parent, exist_ok=True)
-        temporary = tempfile.mkdtemp(prefix="." + os.path.basename(output) + ".", dir=parent)
-    except OSError as error:
-        remove_created()
-        raise InputError(output, "-o", "a report folder in a writable place",
-                         error.strerror or str(error)) from None
-    try:
+    with atomic_folder(output, force, option, inputs) as temporary:
         fill(temporary)
-        os.chmod(temporary, 0o755)
-        if os.path.exists(output):
-            old = tempfile.mkdtemp(prefix="." + os.path.basename(output) + ".old.", dir=parent)
-            os.replace(output, os.path.join(old, "previous"))
-            os.replace(temporary, output)
-            shutil.rmtree(old, ignore_errors=True)
-        else:
-            os.replace(temporary, output)
-    except BaseException:
-        shutil.rmtree(temporary, ignore_errors=True)
-        remove_created()
-        raise
     return output

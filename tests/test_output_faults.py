@@ -1,0 +1,526 @@
+"""Outputs under faults and races (issue 17, items 1-3 and the outputs of item 7), through the
+real command line in temporary folders.
+
+* A report folder carries its manifest (``.latdyn-report.json``); ``--force`` replaces only such a
+  folder, never one holding an input of the run, the current folder (``-o .``, ``-o ..``), the home
+  folder or a mount point.
+* The folder is put in place by one exclusive rename: a folder that appeared during the run is not
+  replaced (unless ``--force`` and it is a report); of two writers to one new path one wins and the
+  other exits 2 with one line.  The Linux call (renameat2 with RENAME_NOREPLACE / RENAME_EXCHANGE,
+  renameat2(2) manual page) and the portable way are both run.
+* SIGINT and SIGTERM at several moments: no temporary left; the old report intact or the new one
+  complete; exit status 128 + the signal (the shell's convention, common practice).
+* A full disk: a real one (a small tmpfs in a private mount namespace, where ``unshare`` allows it)
+  and a simulated ENOSPC from every writer; a full standard output (``/dev/full``) and a closed pipe.
+* No output may be an input file of the run: each writing command refuses before writing anything.
+"""
+
+import errno
+import json
+import os
+import pathlib
+import shutil
+import signal
+import subprocess
+import sys
+import time
+
+import pytest
+
+from latdyn.cli import main
+from latdyn.output_folders import MARKER, STALE_SECONDS, is_report_folder, remove_stale_temporaries
+
+ROOT = pathlib.Path(__file__).resolve().parent.parent
+DEMO = ROOT / "aircraft" / "kestrel-k40.toml"
+RECORD = ROOT / "aircraft" / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv"
+
+# invented demo data: a small airplane with one condition (a quick report)
+SMALL = """\
+name = "Fault test airplane"
+airplane_class = "II-L"
+[geometry]
+wing_area = 30.0
+span = 17.0
+[mass]
+mass = 6500.0
+Ixx = 31000.0
+Izz = 60000.0
+Ixz = 1400.0
+[[condition]]
+name = "approach"
+category = "C"
+altitude = 300.0
+speed = 55.0
+alpha_deg = 6.0
+[condition.derivatives]
+axes = "stability"
+Cy_beta = -0.65
+Cy_r = 0.35
+Cl_beta = -0.10
+Cl_p = -0.45
+Cl_r = 0.26
+Cn_beta = 0.095
+Cn_p = -0.08
+Cn_r = -0.14
+Cl_da = 0.16
+Cy_dr = 0.21
+Cn_dr = -0.085
+"""
+
+
+PNG_MAGIC = b"\x89PNG\r\n\x1a\n"
+
+
+@pytest.fixture(autouse=True)
+def quick_figures(request, monkeypatch):
+    """Figures as tiny placeholder files (through the same atomic writer), unless a test asks for
+    ``real_figures``: these tests are about the folder, not the drawings, and drawing takes seconds."""
+    if "real_figures" in request.fixturenames:
+        return
+    import latdyn.report.figures as figures
+    from latdyn.output_files import atomic_output
+
+    def draw_all(specs, folder, step=None, workers=None):
+        for spec in specs:
+            for suffix in (".png", ".svg"):
+                with atomic_output(os.path.join(folder, spec.name + suffix), text=False) as handle:
+                    handle.write(PNG_MAGIC)
+            if step is not None:
+                step()
+
+    monkeypatch.setattr(figures, "draw_all", draw_all)
+
+
+@pytest.fixture
+def real_figures():
+    """The report's real figures, drawn by the worker processes."""
+
+
+@pytest.fixture
+def small(tmp_path):
+    path = tmp_path / "small.toml"
+    path.write_text(SMALL)
+    return path
+
+
+@pytest.fixture(params=["renameat2", "portable"])
+def renames(request, monkeypatch):
+    """Run with Linux renameat2 and again with the portable renames (as where renameat2 is missing)."""
+    import latdyn.output_folders as folders
+
+    if request.param == "portable":
+        monkeypatch.setattr(folders, "_RENAMEAT2", [None])
+    return request.param
+
+
+def run(argv, capsys):
+    """The command line in this process: (status, stdout, stderr)."""
+    status = main([str(a) for a in argv])
+    captured = capsys.readouterr()
+    return status, captured.out, captured.err
+
+
+def one_line(err, message):
+    assert err.count("\n") == 1 and "Traceback" not in err, err
+    assert message in err, err
+
+
+def temporaries(folder):
+    """latdyn's temporary entries left in a folder."""
+    return [p.name for p in pathlib.Path(folder).iterdir() if ".latdyn-" in p.name or p.name.startswith(".")]
+
+
+def assert_complete(folder):
+    """A complete report folder: its manifest lists exactly the files on disk."""
+    folder = pathlib.Path(folder)
+    manifest = json.loads((folder / MARKER).read_text())
+    on_disk = sorted(str(p.relative_to(folder)) for p in folder.rglob("*") if p.is_file() and p.name != MARKER)
+    assert manifest["files"] == on_disk
+    assert {"index.html", "report.md", "results.json"} <= set(manifest["files"])
+    return manifest
+
+
+def snapshot(folder):
+    """Every file of a folder with its bytes."""
+    folder = pathlib.Path(folder)
+    return {str(p.relative_to(folder)): p.read_bytes() for p in sorted(folder.rglob("*")) if p.is_file()}
+
+
+@pytest.fixture
+def old_report(small, tmp_path, capsys):
+    """A report folder written by an earlier run, and its files."""
+    out = tmp_path / "out"
+    status, _, err = run(["report", small, "-o", out], capsys)
+    assert status == 0, err
+    return out, snapshot(out)
+
+
+# ------------------------------------------------------------------ 1. the marker
+def test_a_report_folder_carries_its_manifest(real_figures, old_report):
+    from latdyn import __version__
+
+    out, _ = old_report
+    manifest = assert_complete(out)
+    assert manifest["format"] == "latdyn report folder" and manifest["format_version"] == 1
+    assert manifest["latdyn_version"] == __version__
+    assert any(name.startswith("figures/") for name in manifest["files"])
+    assert temporaries(out.parent) == []
+
+
+def test_force_replaces_a_report_folder(old_report, small, capsys, renames):
+    out, before = old_report
+    (out / "stale-extra.txt").write_text("written by hand after the run")  # still a marked folder
+    status, _, err = run(["report", small, "-o", out, "--force", "--title", "Second issue"], capsys)
+    assert status == 0, err
+    assert_complete(out)
+    assert "Second issue" in (out / "index.html").read_text(encoding="utf-8")
+    assert not (out / "stale-extra.txt").exists()
+    assert temporaries(out.parent) == []
+
+
+NOT_REPORTS = {
+    "thesis-folder": lambda p: (p.mkdir(), (p / "thesis.tex").write_text("years of work")),
+    "empty-folder": lambda p: p.mkdir(),
+    "a-file": lambda p: p.write_text("a file"),
+    "marker-of-another-program": lambda p: (p.mkdir(), (p / MARKER).write_text('{"format": "other"}')),
+    "results-without-latdyn": lambda p: (p.mkdir(), (p / "index.html").write_text("<html>"),
+                                         (p / "results.json").write_text('{"mine": 1}')),
+}
+
+
+@pytest.mark.parametrize("make", NOT_REPORTS.values(), ids=list(NOT_REPORTS))
+def test_force_refuses_a_folder_that_is_not_a_report(make, small, tmp_path, capsys):
+    target = tmp_path / "target"
+    make(target)
+    before = snapshot(target) if target.is_dir() else target.read_bytes()
+    status, out, err = run(["report", small, "-o", target, "--force"], capsys)
+    assert status == 2 and out == ""
+    one_line(err, "exists and is not a latdyn report folder")
+    assert (snapshot(target) if target.is_dir() else target.read_bytes()) == before
+    assert temporaries(tmp_path) == []
+
+
+def test_force_refuses_a_symbolic_link_to_a_report(old_report, small, tmp_path, capsys):
+    out, before = old_report
+    link = tmp_path / "link"
+    link.symlink_to(out, target_is_directory=True)
+    status, _, err = run(["report", small, "-o", link, "--force"], capsys)
+    assert status == 2
+    one_line(err, "a symbolic link that exists and is not a latdyn report folder")
+    assert link.is_symlink() and snapshot(out) == before
+
+
+def test_a_report_written_before_the_manifest_is_recognised(tmp_path):
+    legacy = tmp_path / "legacy"
+    (legacy / "figures").mkdir(parents=True)
+    (legacy / "index.html").write_text("<html></html>")
+    (legacy / "results.json").write_text('{"latdyn_version": "0.0.9"}')
+    assert is_report_folder(legacy)
+    (legacy / "notes.docx").write_text("someone's notes")  # anything else: not recognised
+    assert not is_report_folder(legacy)
+
+
+def _inputs_inside(folder, small):
+    """Each kind of input file of a report placed inside the report folder ``folder``."""
+    aircraft = folder / "aircraft.toml"
+    aircraft.write_text(SMALL)
+    base = folder / "base.toml"
+    base.write_text(SMALL)
+    variant = small.parent / "variant.toml"
+    variant.write_text(f'extends = "{os.path.relpath(base, variant.parent)}"\nname = "Variant"\n')
+    criteria = folder / "rules.toml"
+    shutil.copy(ROOT / "latdyn" / "criteria" / "mil-f-8785c.toml", criteria)
+    return {"aircraft-file": [aircraft], "extends-target": [small, "--compare", variant],
+            "criteria-file": [small, "--criteria", criteria]}
+
+
+@pytest.mark.parametrize("kind", ["aircraft-file", "extends-target", "criteria-file"])
+def test_force_never_replaces_the_folder_of_the_inputs(kind, old_report, small, capsys):
+    out, _ = old_report
+    arguments = _inputs_inside(out, small)[kind]
+    before = snapshot(out)
+    status, _, err = run(["report", *arguments, "-o", out, "--force"], capsys)
+    assert status == 2
+    one_line(err, "expected a report folder that holds none of the inputs, found a folder holding the input file")
+    assert snapshot(out) == before
+    assert temporaries(out.parent) == []
+
+
+def test_identify_report_never_replaces_the_folder_of_its_records(tmp_path, capsys):
+    folder = tmp_path / "flight-test"
+    folder.mkdir()
+    (folder / MARKER).write_text(json.dumps({"format": "latdyn report folder", "format_version": 1, "files": []}))
+    record = folder / "record.csv"
+    record.write_bytes(RECORD.read_bytes())
+    status, _, err = run(["identify", DEMO, "--data", record, "--report", folder, "--force"], capsys)
+    assert status == 2
+    one_line(err, "--report: expected a report folder that holds none of the inputs")
+    assert record.read_bytes() == RECORD.read_bytes()
+
+
+@pytest.mark.parametrize("name", [".", ".."])
+@pytest.mark.parametrize("force", [True, False], ids=["force", "no-force"])
+def test_the_current_folder_and_its_parent_are_never_replaced(name, force, old_report, small, capsys,
+                                                              monkeypatch):
+    out, before = old_report
+    inner = out / "figures"
+    monkeypatch.chdir(inner if name == ".." else out)  # a report folder: only the rule protects it
+    status, _, err = run(["report", small, "-o", name, *(["--force"] if force else [])], capsys)
+    assert status == 2
+    one_line(err, "found the current folder or a folder holding it" if force else
+             "expected a report folder that does not exist yet (or --force to replace it)")
+    assert snapshot(out) == before
+
+
+def test_the_home_folder_and_mount_points_are_never_replaced(old_report, small, capsys, monkeypatch):
+    out, before = old_report
+    monkeypatch.setenv("HOME", str(out))
+    status, _, err = run(["report", small, "-o", out, "--force"], capsys)
+    assert status == 2
+    one_line(err, "found the home folder or a folder holding it")
+    assert snapshot(out) == before
+    mount = next((m for m in ("/proc", "/sys", "/dev") if os.path.ismount(m)), None)
+    if mount:
+        status, _, err = run(["report", small, "-o", mount, "--force"], capsys)
+        assert status == 2
+        one_line(err, "found a mount point")
+
+
+# ------------------------------------------------------------------ 2. atomic and exclusive
+def _during_the_run(monkeypatch, action):
+    """Call ``action()`` while the report is being computed (after the start-up checks)."""
+    import latdyn.report.write as write
+
+    original = getattr(write.report_content, "__wrapped__", write.report_content)
+
+    def content(*args, **kwargs):
+        action()
+        return original(*args, **kwargs)
+
+    content.__wrapped__ = original
+    monkeypatch.setattr(write, "report_content", content)
+
+
+def _another_writer_during_the_run(monkeypatch, small, out, title):
+    """Another report run into ``out`` that starts and finishes while this one runs; its status in the list."""
+    results = []
+
+    def writer():
+        if not results:  # the other run's own content step comes here too
+            results.append("started")
+            results[0] = main(["report", str(small), "-o", str(out), "--title", title])
+
+    _during_the_run(monkeypatch, writer)
+    return results
+
+
+def test_a_folder_created_during_the_run_is_not_replaced(small, tmp_path, capsys, monkeypatch, renames):
+    out = tmp_path / "out"
+
+    def someone_else():
+        out.mkdir()
+        (out / "mine.txt").write_text("made while the report ran")
+
+    _during_the_run(monkeypatch, someone_else)
+    status, _, err = run(["report", small, "-o", out], capsys)
+    assert status == 2
+    one_line(err, "found a folder that appeared while the report was written")
+    assert snapshot(out) == {"mine.txt": b"made while the report ran"}
+    assert temporaries(tmp_path) == []
+
+
+def test_an_empty_folder_created_during_the_run_is_not_replaced(small, tmp_path, capsys, monkeypatch, renames):
+    """Even an empty one (a plain rename would replace an empty folder)."""
+    out = tmp_path / "out"
+    _during_the_run(monkeypatch, out.mkdir)
+    status, _, err = run(["report", small, "-o", out], capsys)
+    assert status == 2
+    one_line(err, "appeared while the report was written")
+    assert list(out.iterdir()) == [] and temporaries(tmp_path) == []
+
+
+def test_with_force_a_folder_created_during_the_run_is_replaced_only_if_a_report(small, tmp_path, capsys,
+                                                                                  monkeypatch, renames):
+    out = tmp_path / "out"
+    thesis = lambda: (out.mkdir(), (out / "thesis.tex").write_text("mine"))  # noqa: E731
+    _during_the_run(monkeypatch, thesis)
+    status, _, err = run(["report", small, "-o", out, "--force"], capsys)
+    assert status == 2
+    one_line(err, "exists and is not a latdyn report folder")
+    assert snapshot(out) == {"thesis.tex": b"mine"}
+    shutil.rmtree(out)
+    # a report written by another run while this one ran: --force replaces it
+    runs = _another_writer_during_the_run(monkeypatch, small, out, "Other run")
+    status, _, err = run(["report", small, "-o", out, "--force", "--title", "This run"], capsys)
+    assert status == 0 and runs == [0], err
+    assert "This run" in (out / "index.html").read_text(encoding="utf-8")
+    assert_complete(out)
+    assert temporaries(tmp_path) == []
+
+
+def test_of_two_writers_to_one_new_folder_one_wins(small, tmp_path, capsys, monkeypatch, renames):
+    """The second writer starts and finishes while the first runs: the first exits 2 with one line."""
+    out = tmp_path / "out"
+    results = _another_writer_during_the_run(monkeypatch, small, out, "Second writer")
+    status, _, err = run(["report", small, "-o", out, "--title", "First writer"], capsys)
+    assert results == [0]
+    assert status == 2
+    one_line(err, "appeared while the report was written")
+    assert "Second writer" in (out / "index.html").read_text(encoding="utf-8")
+    assert_complete(out)
+    assert temporaries(tmp_path) == []
+
+
+def _latdyn(*arguments, **options):
+    return subprocess.Popen([sys.executable, "-m", "latdyn", *map(str, arguments)], cwd=options.pop("cwd", None),
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                            env={**os.environ, "PYTHONPATH": str(ROOT)}, **options)
+
+
+@pytest.mark.slow
+def test_two_concurrent_processes_write_one_new_folder(small, tmp_path):
+    out = tmp_path / "out"
+    runs = [_latdyn("report", small, "-o", out, "--title", f"Writer {n}") for n in (1, 2)]
+    finished = [(p.wait(timeout=600), p.stdout.read(), p.stderr.read()) for p in runs]
+    statuses = sorted(status for status, _, _ in finished)
+    assert statuses == [0, 2], finished
+    loser = next(err for status, _, err in finished if status == 2)
+    assert loser.count("\n") == 1 and "Traceback" not in loser
+    assert "exist yet (or --force to replace it)" in loser  # at start-up, or when putting it in place
+    assert_complete(out)
+    assert temporaries(tmp_path) == []
+
+
+# ------------------------------------------------------------------ 2. interrupted
+def _kill_self(number):
+    os.kill(os.getpid(), number)
+
+
+def _interrupt_at(moment, number, monkeypatch):
+    """Send ``number`` to this process at ``moment`` of the report's run."""
+    import latdyn.output_folders as folders
+    import latdyn.report.write as write
+
+    if moment == "analysis":
+        _during_the_run(monkeypatch, lambda: _kill_self(number))
+    elif moment == "figures":  # after the first figure, while the worker processes draw the others
+        original = write.write_files
+
+        def write_files(report, folder, step=None):
+            calls = []
+
+            def stepping():
+                calls.append(1)
+                if len(calls) == 1:
+                    _kill_self(number)
+            return original(report, folder, stepping)
+
+        monkeypatch.setattr(write, "write_files", write_files)
+    elif moment == "manifest":
+        original_manifest = folders._manifest
+        monkeypatch.setattr(folders, "_manifest", lambda folder: (_kill_self(number), original_manifest(folder))[1])
+    elif moment == "rename":  # inside the final renames: held until they are done
+        for name in ("rename_exclusive", "exchange"):
+            original_rename = getattr(folders, name)
+            monkeypatch.setattr(folders, name, lambda a, b, _f=original_rename: (_kill_self(number), _f(a, b))[1])
+
+
+@pytest.mark.parametrize("moment", ["analysis", "figures", "manifest", "rename"])
+@pytest.mark.parametrize("number", [signal.SIGINT, signal.SIGTERM], ids=["SIGINT", "SIGTERM"])
+@pytest.mark.parametrize("replacing", [False, True], ids=["new", "force"])
+def test_an_interrupted_report_leaves_the_old_one_or_the_new_one_complete(moment, number, replacing, small,
+                                                                         tmp_path, capsys, monkeypatch):
+    interrupted_report(moment, number, replacing, small, tmp_path, capsys, monkeypatch)
+
+
+@pytest.mark.parametrize("number", [signal.SIGINT], ids=["SIGINT"])
+def test_an_interrupt_while_the_worker_processes_draw(number, real_figures, small, tmp_path, capsys, monkeypatch):
+    """The real figures, drawn by worker processes: they are ended before the folder is removed."""
+    import latdyn.report.figures as figures
+
+    monkeypatch.setattr(figures, "PARALLEL_FIGURES", 2)  # the pool even on one core's worth of figures
+    monkeypatch.setattr(os, "sched_getaffinity", lambda pid: {0, 1}, raising=False)
+    interrupted_report("figures", number, True, small, tmp_path, capsys, monkeypatch)
+
+
+def interrupted_report(moment, number, replacing, small, tmp_path, capsys, monkeypatch):
+    """Interrupt a report at ``moment``; check the exit, the folder and that nothing is left."""
+    out = tmp_path / "out"
+    before = None
+    if replacing:
+        assert main(["report", str(small), "-o", str(out), "--title", "Old issue"]) == 0
+        before = snapshot(out)
+    capsys.readouterr()
+    handlers = [signal.getsignal(n) for n in (signal.SIGINT, signal.SIGTERM)]
+    _interrupt_at(moment, number, monkeypatch)
+    status, _, err = run(["report", small, "-o", out, "--force", "--title", "New issue"], capsys)
+    assert status == 128 + number, err
+    one_line(err, f"interrupted ({signal.Signals(number).name})")
+    if moment == "rename":  # the signal came while the folder was being put in place: that finished
+        assert_complete(out)
+        assert "New issue" in (out / "index.html").read_text(encoding="utf-8")
+    elif replacing:
+        assert snapshot(out) == before
+    else:
+        assert not out.exists()
+    assert temporaries(tmp_path) == [] and sorted(p.name for p in tmp_path.iterdir()) == \
+        sorted(["small.toml", *(["out"] if replacing or moment == "rename" else [])])
+    assert [signal.getsignal(n) for n in (signal.SIGINT, signal.SIGTERM)] == handlers  # put back
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("number", [signal.SIGINT, signal.SIGTERM], ids=["SIGINT", "SIGTERM"])
+def test_a_signal_from_outside_during_a_report(number, old_report, small, tmp_path):
+    """A real signal from another process once the temporary folder exists."""
+    out, before = old_report
+    process = _latdyn("report", small, "-o", out, "--force", "--title", "New issue")
+    deadline = time.monotonic() + 300
+    while time.monotonic() < deadline and process.poll() is None and \
+            not any(".latdyn-partial." in p.name for p in tmp_path.iterdir()):
+        time.sleep(0.01)
+    process.send_signal(number)
+    status = process.wait(timeout=600)
+    err = process.stderr.read()
+    assert status in (0, 128 + number), err
+    assert "Traceback" not in err
+    if status == 0:
+        assert_complete(out)
+    else:
+        assert snapshot(out) == before
+    assert temporaries(tmp_path) == []
+
+
+def test_stale_temporaries_of_killed_runs_are_removed_at_start_up(small, tmp_path, capsys):
+    marker = json.dumps({"format": "latdyn report folder", "format_version": 1, "complete": False})
+    old = time.time() - STALE_SECONDS - 60
+
+    def temporary(name, marked=True, age=old):
+        folder = tmp_path / name
+        folder.mkdir()
+        if marked:
+            (folder / MARKER).write_text(marker)
+            os.utime(folder / MARKER, (age, age))
+        os.utime(folder, (age, age))
+        return folder
+
+    stale = temporary(".out.latdyn-partial.abc123")
+    other_name = temporary(".elsewhere.latdyn-partial.def456")
+    fresh = temporary(".out.latdyn-partial.xyz789", age=time.time())  # a run still going
+    unmarked = temporary(".out.latdyn-partial.notours", marked=False)  # not latdyn's
+    status, _, err = run(["report", small, "-o", tmp_path / "out"], capsys)
+    assert status == 0, err
+    assert not stale.exists() and not other_name.exists()
+    assert fresh.exists() and unmarked.exists()
+
+
+def test_an_old_report_moved_aside_by_a_killed_run_is_put_back(tmp_path):
+    aside = tmp_path / ".out.latdyn-old.abc123"
+    (aside / "previous").mkdir(parents=True)
+    (aside / "previous" / MARKER).write_text(json.dumps({"format": "latdyn report folder", "format_version": 1}))
+    (aside / "previous" / "index.html").write_text("the old report")
+    old = time.time() - STALE_SECONDS - 60
+    for path in (aside, aside / "previous" / MARKER):
+        os.utime(path, (old, old))
+    assert remove_stale_temporaries(tmp_path) == [str(aside)]
+    assert (tmp_path / "out" / "index.html").read_text() == "the old report"
+    assert not aside.exists()
