@@ -524,3 +524,230 @@ def test_an_old_report_moved_aside_by_a_killed_run_is_put_back(tmp_path):
     assert remove_stale_temporaries(tmp_path) == [str(aside)]
     assert (tmp_path / "out" / "index.html").read_text() == "the old report"
     assert not aside.exists()
+
+
+# ------------------------------------------------------------------ 3. every output, every fault
+class FailingFile:
+    """A file that takes a few bytes, then calls ``fail`` (raise ENOSPC as a full disk does, or a signal)."""
+
+    def __init__(self, handle, fail):
+        self.handle, self.fail = handle, fail
+
+    def write(self, data):
+        self.handle.write(data[:3])
+        self.fail()
+        return len(data)
+
+    def __getattr__(self, name):
+        return getattr(self.handle, name)
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        self.handle.close()
+
+
+def _no_space():
+    raise OSError(errno.ENOSPC, os.strerror(errno.ENOSPC))
+
+
+def _failing_writes(monkeypatch, fail):
+    """Every file opened for writing under the returned folders fails with ``fail()`` (matplotlib and PIL
+    open their files with the built-in ``open`` too; forked figure workers inherit the patch)."""
+    import builtins
+
+    real_open = builtins.open
+    folders = []
+
+    def failing_open(file, mode="r", *args, **kwargs):
+        handle = real_open(file, mode, *args, **kwargs)
+        if isinstance(file, (str, os.PathLike)) and any(c in mode for c in "wax+") and \
+                any(os.path.abspath(file).startswith(str(f)) for f in folders):
+            return FailingFile(handle, fail)
+        return handle
+
+    monkeypatch.setattr(builtins, "open", failing_open)
+    return folders
+
+
+@pytest.fixture
+def disk_full(monkeypatch):
+    """Writes under the folders put in the returned list fail with ENOSPC."""
+    return _failing_writes(monkeypatch, _no_space)
+
+
+def _writing_commands(out):
+    """Every command that writes files, writing into the folder ``out`` (quick options)."""
+    return {
+        "respond-csv": ["respond", DEMO, "--duration", "5", "--csv", out / "run.csv"],
+        "respond-plot": ["respond", DEMO, "--duration", "5", "--plot", out / "run.png"],
+        "respond-bode": ["respond", DEMO, "--bode", out / "bode.svg"],
+        "turbulence-csv": ["turbulence", DEMO, "--condition", "cruise", "--sigma-v", "1.5", "--scale-length", "500",
+                           "--duration", "2", "--dt", "0.05", "--csv", out / "gust.csv"],
+        "turbulence-plot": ["turbulence", DEMO, "--condition", "cruise", "--sigma-v", "1.5", "--scale-length",
+                            "500", "-o", out / "spectra.png"],
+        "sweep-plot": ["sweep", DEMO, "--condition", "cruise", "--vary", "Cn_beta=0.05:0.2:3", "--plot",
+                       out / "study.png"],
+        "uncertainty-plot": ["uncertainty", DEMO, "--condition", "cruise", "--samples", "100", "--vary",
+                             "Cn_r=±20%", "--plot", out / "spread.png"],
+        "steady-plot": ["steady", DEMO, "--condition", "cruise", "--plot", out / "steady.png"],
+        "assess-plots": ["assess", DEMO, "--condition", "cruise", "--plots", out],
+        "estimate-o": ["estimate", ROOT / "tests" / "data" / "navion-cr96008.toml", "-o", out / "estimated.toml"],
+        "identify-o": ["identify", DEMO, "--condition", "cruise", "--data", RECORD, "--method", "equation-error",
+                       "-o", out / "identified.toml"],
+        "identify-plot": ["identify", DEMO, "--condition", "cruise", "--data", RECORD, "--method",
+                          "equation-error", "--plot", out / "fit.png"],
+        "identify-report": ["identify", DEMO, "--condition", "cruise", "--data", RECORD, "--method",
+                            "equation-error", "--report", out / "flight-test"],
+    }
+
+
+WRITING = list(_writing_commands(pathlib.Path("out")))
+
+
+@pytest.mark.parametrize("name", WRITING + ["report"])
+def test_a_full_disk_gives_one_line_and_leaves_nothing(name, disk_full, small, tmp_path, capsys):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "keep.txt").write_text("already here")
+    disk_full.append(out)
+    argv = ["report", small, "-o", out / "report"] if name == "report" else _writing_commands(out)[name]
+    status, _, err = run(argv, capsys)
+    assert status == 2, err
+    one_line(err, "no space left on device (ENOSPC)")
+    assert str(out) in err and ".latdyn-partial" not in err  # names the output, not a temporary
+    assert snapshot(out) == {"keep.txt": b"already here"}  # nothing half-written, no temporary
+
+
+def _unshare_works():
+    if not shutil.which("unshare"):
+        return False
+    try:
+        return subprocess.run(["unshare", "-rm", "true"], capture_output=True, timeout=30).returncode == 0
+    except (OSError, subprocess.SubprocessError):
+        return False
+
+
+@pytest.mark.skipif(sys.platform != "linux" or not _unshare_works(),
+                    reason="needs a private mount namespace (unshare -rm) for a small tmpfs")
+@pytest.mark.parametrize("argv", [["report", "{small}", "-o", "{disk}/report"],
+                                  ["respond", str(DEMO), "--duration", "60", "--csv", "{disk}/run.csv"]],
+                         ids=["report", "respond-csv"])
+def test_a_real_full_disk(argv, small, tmp_path):
+    """A 64 kB tmpfs mounted in a private mount namespace (gone with the process): a real ENOSPC."""
+    disk = tmp_path / "disk"
+    disk.mkdir()
+    words = " ".join(f"'{a.format(small=small, disk=disk)}'" for a in argv)
+    script = (f"mount -t tmpfs -o size=64k tmpfs '{disk}' && cd '{tmp_path}' && "
+              f"'{sys.executable}' -m latdyn {words}; echo status=$?; ls -A '{disk}'")
+    result = subprocess.run(["unshare", "-rm", "sh", "-c", script], capture_output=True, text=True, timeout=900,
+                            env={**os.environ, "PYTHONPATH": str(ROOT)})
+    assert "status=2" in result.stdout, result.stdout + result.stderr
+    assert result.stdout.strip().endswith("status=2")  # the disk is empty afterwards: no file, no temporary
+    one_line(result.stderr, "no space left on device (ENOSPC)")
+    assert str(disk) in result.stderr
+
+
+def test_a_full_standard_output_gives_one_line(tmp_path):
+    with open("/dev/full", "w") as full:
+        process = subprocess.run([sys.executable, "-m", "latdyn", "modes", str(DEMO), "--format", "json"],
+                                 stdout=full, stderr=subprocess.PIPE, text=True, env={**os.environ, "PYTHONPATH": str(ROOT)})
+    assert process.returncode == 2
+    one_line(process.stderr, "latdyn: standard output: expected an output that can be written, "
+                             "found no space left on device (ENOSPC)")
+
+
+def test_a_closed_pipe_ends_quietly():
+    """As ``latdyn modes FILE --format json | head -c1`` when head has gone: no message, status 141."""
+    reader, writer = os.pipe()
+    os.close(reader)
+    try:
+        process = subprocess.run([sys.executable, "-m", "latdyn", "modes", str(DEMO), "--format", "json"],
+                                 stdout=writer, stderr=subprocess.PIPE, text=True,
+                                 env={**os.environ, "PYTHONPATH": str(ROOT)})
+    finally:
+        os.close(writer)
+    assert process.returncode == 141 and process.stderr == ""
+
+
+def test_a_write_that_fails_names_the_path_for_every_errno(tmp_path, monkeypatch):
+    """Read-only file system, quota, I/O error: one InputError naming the file, nothing left."""
+    from latdyn.errors import InputError
+    from latdyn.output_files import atomic_output
+
+    for number, code in ((errno.EROFS, "EROFS"), (errno.EDQUOT, "EDQUOT"), (errno.EIO, "EIO")):
+        with pytest.raises(InputError, match=rf"out\.csv: expected an output file that can be written, found .*\({code}\)"):
+            with atomic_output(tmp_path / "out.csv") as handle:
+                handle.write("time\n")
+                raise OSError(number, os.strerror(number))
+        assert list(tmp_path.iterdir()) == []
+
+
+# ------------------------------------------------------------------ 7. no output is an input
+@pytest.mark.parametrize("name", [n for n in WRITING if n not in ("assess-plots", "identify-report")])
+def test_no_output_may_be_an_input_file(name, tmp_path, capsys):
+    """Each writing command given the path of its own aircraft file (or record) as its output.
+
+    The input is named with the output's suffix (an aircraft file may be called ``A.png``), so the
+    refusal is the input rule's and not the suffix check's.  (``assess --plots`` names a folder and
+    ``identify --report`` a folder: the folder rules are tested above.)
+    """
+    argv = _writing_commands(tmp_path / "out")[name]
+    index = max(i for i, a in enumerate(argv) if str(a).startswith(str(tmp_path / "out")))
+    suffix = pathlib.Path(argv[index]).suffix
+    source = ROOT / "tests" / "data" / "navion-cr96008.toml" if name == "estimate-o" else DEMO
+    if name == "identify-plot":
+        victim = tmp_path / f"record{suffix}"  # the measured record as the figure
+        source = RECORD
+    else:
+        victim = tmp_path / f"A{suffix}"
+    victim.write_bytes(source.read_bytes())
+    argv = [victim if a == source else a for a in argv]
+    argv[index] = victim
+    before = {p.name: p.read_bytes() for p in tmp_path.iterdir()}
+    status, _, err = run(argv, capsys)
+    assert status == 2, err
+    one_line(err, "expected an output path that is not one of the inputs, found the path of an input file")
+    assert {p.name: p.read_bytes() for p in tmp_path.iterdir()} == before
+
+
+def test_an_output_that_is_an_input_through_a_link_is_refused(tmp_path, capsys):
+    aircraft = tmp_path / "A.toml"
+    aircraft.write_bytes(DEMO.read_bytes())
+    (tmp_path / "link.csv").symlink_to(aircraft)
+    os.link(aircraft, tmp_path / "hard.csv")
+    for path in ("link.csv", "hard.csv"):
+        status, _, err = run(["respond", aircraft, "--duration", "5", "--csv", tmp_path / path], capsys)
+        assert status == 2
+        one_line(err, "found the path of an input file")
+    assert aircraft.read_bytes() == DEMO.read_bytes()
+
+
+def test_an_output_that_is_an_extends_target_or_input_csv_is_refused(tmp_path, capsys):
+    base = tmp_path / "base.toml"
+    base.write_bytes(DEMO.read_bytes())
+    variant = tmp_path / "variant.toml"
+    variant.write_text('extends = "base.toml"\nname = "Variant"\n')
+    inputs = tmp_path / "doublet.csv"
+    inputs.write_text("time,aileron,rudder\n0,0,0\n1,0,5\n2,0,-5\n3,0,0\n")
+    for argv in (["respond", variant, "--duration", "5", "--csv", base],
+                 ["respond", DEMO, "--input", inputs, "--csv", inputs]):
+        before = {p.name: p.read_bytes() for p in tmp_path.iterdir()}
+        status, _, err = run(argv, capsys)
+        assert status == 2, err
+        one_line(err, "found the path of an input file")
+        assert {p.name: p.read_bytes() for p in tmp_path.iterdir()} == before
+
+
+@pytest.mark.parametrize("name", ["respond-csv", "sweep-plot", "identify-o"])
+@pytest.mark.parametrize("number", [signal.SIGINT, signal.SIGTERM], ids=["SIGINT", "SIGTERM"])
+def test_a_signal_while_a_file_is_written_leaves_no_temporary(name, number, tmp_path, capsys, monkeypatch):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "keep.txt").write_text("already here")
+    _failing_writes(monkeypatch, lambda: _kill_self(number)).append(out)
+    status, _, err = run(_writing_commands(out)[name], capsys)
+    assert status == 128 + number, err
+    one_line(err, f"interrupted ({signal.Signals(number).name})")
+    assert snapshot(out) == {"keep.txt": b"already here"}
