@@ -33,7 +33,8 @@ from latdyn.criteria_sets import CATEGORIES, CLASSES, CriteriaSet, load_criteria
 from latdyn.levels import (PARAMETERS, SYMBOLS, UNITS, BandSelection, DutchRollLimits,
                            Grades, RollLimits, RollSpiralLimits, SpiralLimits, dutch_roll_grades,
                            grade, grade_mode, mode_levels, phi_to_beta_excess, roll_grades,
-                           roll_spiral_grades, select_bands, spiral_grades, stack_levels)
+                           roll_spiral_grades, select_bands, spiral_grades, stack_levels,
+                           select_roll_bands, grade_roll_performance)
 
 __all__ = [
     "NOTICE", "PARAMETERS", "UNITS", "SYMBOLS", "DEFAULT_MILITARY", "DEFAULT_CIVIL",
@@ -696,26 +697,16 @@ def assess_roll_performance(model, controls, criteria_sets, airplane_class=None,
     out = []
     for criteria in sets:
         entry = criteria.roll_performance
-        bands = [b for b in entry.bands
-                 if b.applies(airplane_class, category, flight_phase, mass, speed, None)]
-        grades_wanted = range(1, criteria.grades + 1) if criteria.assessment == "levels" else [None]
-        chosen = []
-        for level in grades_wanted:
-            candidates = [b for b in bands if b.level == level]
-            chosen.append(min(candidates, key=lambda b: b.time_limit(mass) / b.bank_change)
-                          if candidates else None)
-        if any(b is None for b in chosen):
+        selection = select_roll_bands(criteria, airplane_class, category, flight_phase, mass)
+        if (selection.row[0] < 0).any():
             out.append(_roll_entry(criteria, notes=_roll_gap_notes(criteria, entry, airplane_class, category,
                                                                    flight_phase, mass),
                                    missing=_roll_missing(entry, airplane_class, category, flight_phase, mass,
                                                          condition_name)))
             continue
-        changes = np.array([b.bank_change for b in chosen])
-        times = rp.time_to_bank(np.repeat(A, len(chosen), 0), np.repeat(B, len(chosen), 0),
-                                np.full(len(chosen), aileron), np.full(len(chosen), rate_value), changes,
-                                bank_row, column)
-        limits = np.array([b.time_limit(mass) for b in chosen])
-        grades = grade(times[None, :, None], limits[:, None], PARAMETERS.index("time_to_bank"), -1.0)
+        chosen = [entry.bands[i] for i in selection.row[0]]
+        times = rp.time_to_bank(A, B, [aileron], [rate_value], selection.bank_change, bank_row, column)
+        grades = grade_roll_performance(selection, times)
         level = int(grades.level[0])
         target = min(max(level - 2, 0), len(chosen) - 1)
         band = chosen[target]

@@ -98,6 +98,8 @@ import math
 import os
 from dataclasses import dataclass
 
+import numpy as np
+
 from latdyn.aircraft_file import MAX_FILE_BYTES
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import parse_toml, read_input_text
@@ -473,13 +475,24 @@ class RollBand:
 
     def applies(self, airplane_class, category, flight_phase=None, mass=None, speed=None,
                 speeds=None) -> bool:
-        """Whether the row holds (False where it needs a mass or reference speeds not given)."""
+        """Whether the row holds (False where it needs a mass or reference speeds not given).
+
+        ``mass`` [kg] may be an array: the answer is then an array of bool
+        (or False where the row holds for none of the masses).
+        """
         if not _holds_for(self, airplane_class, category, flight_phase):
             return False
-        if self.min_weight is not None and (mass is None or not mass > self.min_weight):
-            return False
-        if self.max_weight is not None and (mass is None or not mass <= self.max_weight):
-            return False
+        weight = True  # an array of masses gives an array: whether the row holds at each
+        if self.min_weight is not None or self.max_weight is not None:
+            if mass is None:
+                return False
+            with np.errstate(invalid="ignore"):
+                if self.min_weight is not None:
+                    weight = weight & (np.asarray(mass, dtype=float) > self.min_weight)
+                if self.max_weight is not None:
+                    weight = weight & (np.asarray(mass, dtype=float) <= self.max_weight)
+            if not np.any(weight):
+                return False
         for bound, sense in ((self.speed_low, 1), (self.speed_high, -1)):
             if bound is None:
                 continue
@@ -488,10 +501,10 @@ class RollBand:
                 return False
             if (sense > 0 and speed < value) or (sense < 0 and speed >= value):
                 return False
-        return True
+        return weight if np.ndim(weight) else True
 
     def time_limit(self, mass=None) -> float:
-        """Time allowed [s]: ``max_time``, or the weight formula capped by it (mass in kg).
+        """Time allowed [s]: ``max_time``, or the weight formula capped by it (mass in kg, or an array).
 
         Examples
         --------
@@ -506,8 +519,10 @@ class RollBand:
             return self.max_time
         if mass is None:
             return math.nan
-        pounds = mass / POUND
-        return min((pounds + (self.time_weight_offset or 0.0)) / self.time_weight_divisor, self.max_time)
+        pounds = np.asarray(mass, dtype=float) / POUND
+        limit = np.minimum((pounds + (self.time_weight_offset or 0.0)) / self.time_weight_divisor,
+                           self.max_time)
+        return limit if np.ndim(limit) else float(limit)
 
 
 @dataclass(frozen=True)

@@ -27,7 +27,7 @@ __all__ = [
     "PARAMETERS", "UNITS", "SYMBOLS", "Grades", "DutchRollLimits", "RollLimits", "SpiralLimits",
     "RollSpiralLimits", "BandSelection", "grade", "dutch_roll_grades", "roll_grades",
     "spiral_grades", "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
-    "phi_to_beta_excess", "stack_levels",
+    "phi_to_beta_excess", "stack_levels", "RollSelection", "select_roll_bands", "grade_roll_performance",
 ]
 
 #: Parameters a band can limit; ``Grades.governing`` indexes this tuple.
@@ -771,3 +771,97 @@ def stack_levels(criteria, arrays, airplane_class, category, flight_phase=None, 
             grades = grade_mode(selection, root=arrays.roll if mode == "roll_subsidence" else arrays.spiral)
         out[mode] = grades
     return out
+
+
+class RollSelection(NamedTuple):
+    """The roll-performance rows of one criteria set that hold for each case, per grade.
+
+    Attributes
+    ----------
+    bank_change : ndarray, shape (N, G)
+        Bank-angle change the row asks for [rad]; NaN where no row holds.
+    limit : ndarray, shape (N, G)
+        Time allowed [s] (a weight formula at the case's mass); NaN where no row holds.
+    row : ndarray of int, shape (N, G)
+        Index of the row in ``criteria.roll_performance.bands``; -1 where none holds.
+    """
+
+    bank_change: np.ndarray
+    limit: np.ndarray
+    row: np.ndarray
+
+
+def select_roll_bands(criteria: CriteriaSet, airplane_class, category, flight_phase=None, mass=None,
+                      size=1) -> RollSelection:
+    """The roll-performance row of each grade for N cases (the strictest where several hold).
+
+    For each grade (Levels 1, 2, 3, or pass) the rows that hold for the
+    class, category, flight phase and mass; of several, the one asking the
+    highest mean roll rate (least time allowed per degree of bank) governs,
+    as the stricter reading of the table.
+
+    Parameters
+    ----------
+    criteria : CriteriaSet
+        A set with roll-performance rows.
+    airplane_class, category, flight_phase : str or None
+    mass : float or array_like of shape (N,) or None
+        [kg], for rows split by weight or timed by a weight formula.
+    size : int
+        N.
+
+    Returns
+    -------
+    RollSelection
+    """
+    entry = criteria.roll_performance
+    wanted = range(1, criteria.grades + 1) if criteria.assessment == "levels" else [None]
+    masses = None if mass is None else np.broadcast_to(np.asarray(mass, dtype=float), (size,))
+    count = len(wanted)
+    change = np.full((size, count), np.nan)
+    limit = np.full((size, count), np.nan)
+    row = np.full((size, count), -1)
+    for g, level in enumerate(wanted):
+        best = np.full(size, np.inf)
+        for index, band in enumerate(entry.bands if entry is not None else ()):
+            if band.level != level:
+                continue
+            holds = np.broadcast_to(band.applies(airplane_class, category, flight_phase, masses), (size,))
+            if not holds.any():
+                continue
+            allowed = np.broadcast_to(np.asarray(band.time_limit(masses), dtype=float), (size,))
+            with np.errstate(invalid="ignore"):
+                take = holds & (allowed / band.bank_change < best)
+            best = np.where(take, allowed / band.bank_change, best)
+            change[take, g] = band.bank_change
+            limit[take, g] = allowed[take]
+            row[take, g] = index
+    return RollSelection(change, limit, row)
+
+
+def grade_roll_performance(selection: RollSelection, times, levels_only=False) -> Grades:
+    """Grade the times to reach each grade's bank-angle change (batch of N cases).
+
+    The constraint of each grade is ``time <= limit`` (a maximum, met at the
+    limit: "within"); a case without a row for some grade is not assessable
+    (level 0).
+
+    Parameters
+    ----------
+    selection : RollSelection
+    times : array_like, shape (N, G)
+        Time to reach each grade's bank-angle change [s] (inf: never).
+    levels_only : bool
+
+    Returns
+    -------
+    Grades
+        Batch shape (N,); the governing parameter is ``time_to_bank``.
+    """
+    times = np.asarray(times, dtype=float)
+    grades = grade(times[:, :, None], selection.limit[:, :, None], _INDEX["time_to_bank"], -1.0,
+                   levels_only=levels_only)
+    missing = (selection.row < 0).any(axis=1)
+    if missing.any():
+        grades = grades._replace(level=np.where(missing, 0, grades.level))
+    return grades

@@ -42,6 +42,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from latdyn.roots import illinois
+
 __all__ = [
     "response_to_ramp", "impulse_history", "bank_history", "time_to_bank", "bank_at_time", "coordinated_model",
     "RollResult", "roll_performance", "single_degree_of_freedom_bank", "HORIZON", "ROLL_DIRECTION_NOTE",
@@ -50,8 +52,8 @@ __all__ = [
 
 #: Longest time searched for a bank-angle change [s].
 HORIZON = 30.0
-_GRID = 1501          # samples on [0, HORIZON]
-_BISECTIONS = 48
+_GRID = 301           # samples on [0, HORIZON] (every 0.1 s)
+_TIME_TOLERANCE = 1e-12  # [s], the crossing's bracket at the end of the root search
 _SMALL = 1e-4         # |lambda t| below which the series are used
 _CONDITION_LIMIT = 1e8
 
@@ -69,17 +71,25 @@ REVERSAL_NOTE = ("a reversal from a steady 30 deg bank through 60 deg is taken a
 def _phi1(z):
     """(e^z - 1) / z, with its series near 0."""
     z = np.asarray(z, dtype=complex)
+    with np.errstate(all="ignore"):
+        out = np.expm1(z) / z
     small = np.abs(z) < _SMALL
-    safe = np.where(small, 1.0, z)
-    return np.where(small, 1.0 + z / 2.0 + z * z / 6.0, np.expm1(safe) / safe)
+    if small.any():
+        zs = z[small]
+        out[small] = 1.0 + zs / 2.0 + zs * zs / 6.0
+    return out
 
 
 def _phi2(z):
     """(e^z - 1 - z) / z^2, with its series near 0."""
     z = np.asarray(z, dtype=complex)
+    with np.errstate(all="ignore"):
+        out = (np.expm1(z) - z) / (z * z)
     small = np.abs(z) < _SMALL
-    safe = np.where(small, 1.0, z)
-    return np.where(small, 0.5 + z / 6.0 + z * z / 24.0, (np.expm1(safe) - safe) / (safe * safe))
+    if small.any():
+        zs = z[small]
+        out[small] = 0.5 + zs / 6.0 + zs * zs / 24.0
+    return out
 
 
 def _ramp_integral(lam, tau):
@@ -127,6 +137,24 @@ def _expm_response(A, b, c, d, times, ramp_time):
     return out
 
 
+def _modal_response(lam, residues, t, ramp):
+    """sum_k r_k g_k(t) of the closed forms above: (N, m, T) from lam (N, n), residues (N, m, n),
+    times t (N, T) and ramp times (N,) (0: a step); no feedthrough."""
+    L = lam[:, :, None]                                                # (N, n, 1)
+    tt = t[:, None, :]                                                 # (N, 1, T)
+    step = ramp <= 0.0
+    safe_ramp = np.where(step, 1.0, ramp)[:, None, None]
+    with np.errstate(all="ignore"):
+        if step.all():
+            g = tt * _phi1(L * tt)                                     # (N, n, T)
+        elif not step.any():
+            g = (_ramp_integral(L, tt) - _ramp_integral(L, tt - safe_ramp)) / safe_ramp
+        else:
+            g_ramp = (_ramp_integral(L, tt) - _ramp_integral(L, tt - safe_ramp)) / safe_ramp
+            g = np.where(step[:, None, None], tt * _phi1(L * tt), g_ramp)
+        return np.einsum("nmk,nkt->nmt", residues, g).real
+
+
 def response_to_ramp(A, b, c, d, times, ramp_time=0.0):
     """Outputs of a batch of linear models after a unit step or a rate-limited ramp input.
 
@@ -168,15 +196,8 @@ def response_to_ramp(A, b, c, d, times, ramp_time=0.0):
     t = np.broadcast_to(times, (N,) + times.shape[-1:])                # (N, T)
     ramp = np.broadcast_to(np.asarray(ramp_time, dtype=float), (N,))
     lam, residues, bad = _modal(A, b, c)
-    L = lam[:, :, None]                                                # (N, n, 1)
-    tt = t[:, None, :]                                                 # (N, 1, T)
+    y = _modal_response(lam, residues, t, ramp)
     step = ramp <= 0.0
-    safe_ramp = np.where(step, 1.0, ramp)[:, None, None]
-    with np.errstate(all="ignore"):
-        g_step = tt * _phi1(L * tt)                                    # (N, n, T)
-        g_ramp = (_ramp_integral(L, tt) - _ramp_integral(L, tt - safe_ramp)) / safe_ramp
-        g = np.where(step[:, None, None], g_step, g_ramp)
-        y = np.einsum("nmk,nkt->nmt", residues, g).real
     u = np.where(step[:, None], 1.0, np.minimum(t / np.where(step, 1.0, ramp)[:, None], 1.0))
     y = y + d[:, :, None] * u[:, None, :]
     for i in np.flatnonzero(bad):
@@ -254,16 +275,7 @@ def bank_history(A, B, aileron, aileron_rate, times, bank_row, input_column=0, o
     N, n = A.shape[0], A.shape[-1]
     b = B[:, :, input_column]
     row = np.broadcast_to(np.asarray(bank_row, dtype=float), (N, n))
-    # initial roll acceleration of the bank angle per unit command: C_phi A b; through an
-    # augmentation's actuator and delay the first non-zero C_phi A^k b (its relative degree)
-    sign = np.zeros(N)
-    vector = b
-    scale = np.abs(A).max(axis=(1, 2)) + 1.0
-    size = np.abs(row).max(axis=1) * np.abs(b).max(axis=1)
-    for k in range(n):
-        value = np.einsum("nk,nk->n", row, vector)
-        sign = np.where((sign == 0) & (np.abs(value) > 1e-12 * size * scale**k), np.sign(value), sign)
-        vector = np.einsum("nkj,nj->nk", A, vector)
+    sign = _roll_sign(A, b, row)
     amplitude = sign * np.asarray(aileron, dtype=float)
     rate = np.broadcast_to(np.asarray(aileron_rate, dtype=float), (N,))
     with np.errstate(all="ignore"):
@@ -278,22 +290,127 @@ def bank_history(A, B, aileron, aileron_rate, times, bank_row, input_column=0, o
     return y[:, 0, :], (y[:, 1:, :] if output_rows is not None else None), sign
 
 
+#: Grid samples scanned at a time, and cases at a time, when searching for a first crossing: a
+#: case leaves the scan once it has reached every target, so the cost follows the crossing time.
+_BLOCK = 10
+_CASES = 2048
+
+
+class _Bank:
+    """The bank-angle response of a batch to its full roll command, prepared once for many times."""
+
+    def __init__(self, A, B, aileron, rate, row, input_column):
+        self.A = np.asarray(A, dtype=float)
+        N, n = self.A.shape[0], self.A.shape[-1]
+        self.b = np.asarray(B, dtype=float)[:, :, input_column]
+        self.row = np.broadcast_to(np.asarray(row, dtype=float), (N, n))
+        sign = _roll_sign(self.A, self.b, self.row)
+        self.amplitude = sign * np.broadcast_to(np.asarray(aileron, dtype=float), (N,))
+        rate = np.broadcast_to(np.asarray(rate, dtype=float), (N,))
+        with np.errstate(all="ignore"):
+            self.ramp = np.where(np.isfinite(rate) & (rate > 0.0), np.abs(self.amplitude) / rate, 0.0)
+        self.lam, residues, self.bad = _modal(self.A, self.b, self.row[:, None, :])
+        self.residues = residues[:, 0, :]
+
+    def take(self, index) -> "_Bank":
+        out = object.__new__(_Bank)
+        for name in ("A", "b", "row", "amplitude", "ramp", "lam", "residues", "bad"):
+            setattr(out, name, getattr(self, name)[index])
+        return out
+
+    def at(self, times):
+        """Bank angle [rad] at times (T,) or (N, T)."""
+        N = self.A.shape[0]
+        times = np.asarray(times, dtype=float)
+        t = np.broadcast_to(times, (N,) + times.shape[-1:])
+        y = _modal_response(self.lam, self.residues[:, None, :], t, self.ramp)[:, 0, :]
+        for i in np.flatnonzero(self.bad):
+            y[i] = _expm_response(self.A[i], self.b[i], self.row[i][None], np.zeros(1), t[i],
+                                  float(self.ramp[i]))[0]
+        return y * self.amplitude[:, None]
+
+
+def _roll_sign(A, b, row):
+    """+1 or -1: the sign of the command that rolls right; 0 where it does not roll the aircraft.
+
+    The sign of the bank response's initial curvature C_phi A b (of L_da' for the bare
+    airframe); through an augmentation's actuator and delay the first non-zero C_phi A^k b.
+    """
+    N, n = A.shape[0], A.shape[-1]
+    sign = np.zeros(N)
+    vector = b
+    scale = np.abs(A).max(axis=(1, 2)) + 1.0
+    size = np.abs(row).max(axis=1) * np.abs(b).max(axis=1)
+    for k in range(n):
+        value = np.einsum("nk,nk->n", row, vector)
+        sign = np.where((sign == 0) & (np.abs(value) > 1e-12 * size * scale**k), np.sign(value), sign)
+        vector = np.einsum("nkj,nj->nk", A, vector)
+    return sign
+
+
 def _first_crossing(A, B, aileron, rate, row, target, input_column):
-    """Earliest time the bank angle reaches ``target`` (N,), by a grid and bisection; inf if never."""
+    """Earliest times the bank angle reaches each target (N, K), by a grid and bisection; inf if never.
+
+    The grid is that of :data:`HORIZON` in :data:`_GRID` samples, scanned
+    :data:`_BLOCK` samples at a time (a case stops once it has reached every
+    target); the crossing is then found between the grid samples around it by
+    :func:`latdyn.roots.illinois` to :data:`_TIME_TOLERANCE`.
+    """
+    A = np.asarray(A, dtype=float)
+    N = A.shape[0]
+    out = np.empty(target.shape)
+    for start in range(0, N, _CASES):
+        part = slice(start, min(start + _CASES, N))
+        prepared = _Bank(A[part], np.asarray(B, float)[part],
+                         np.broadcast_to(np.asarray(aileron, float), (N,))[part],
+                         np.broadcast_to(np.asarray(rate, float), (N,))[part],
+                         np.broadcast_to(np.asarray(row, float), (N, A.shape[-1]))[part], input_column)
+        out[part] = _crossing_of(prepared, target[part])
+    return out
+
+
+def _crossing_of(prepared, target):
     grid = np.linspace(0.0, HORIZON, _GRID)
-    bank, _, _ = bank_history(A, B, aileron, rate, grid, row, input_column)
-    reached = bank >= target[:, None]
-    found = reached.any(axis=1)
-    index = np.where(found, reached.argmax(axis=1), 1)
-    low = grid[np.maximum(index - 1, 0)]
-    high = grid[index]
-    for _ in range(_BISECTIONS):
-        middle = 0.5 * (low + high)
-        values = _bank_at(A, B, aileron, rate, row, middle, input_column)
-        above = values >= target
-        high = np.where(above, middle, high)
-        low = np.where(above, low, middle)
-    return np.where(found & (index > 0), high, np.where(found, 0.0, np.inf))
+    n, K = target.shape
+    index = np.full((n, K), -1)
+    pending = np.arange(n)
+    for first in range(0, _GRID, _BLOCK):
+        if not pending.size:
+            break
+        bank = prepared.take(pending).at(grid[first:first + _BLOCK])        # (p, T)
+        reached = bank[:, None, :] >= target[pending][:, :, None]           # (p, K, T)
+        known = index[pending]
+        new = reached.any(axis=2) & (known < 0)
+        known[new] = first + reached.argmax(axis=2)[new]
+        index[pending] = known
+        pending = pending[(known < 0).any(axis=1)]
+    found = index >= 0
+    index = np.where(found, index, 1)
+    # the crossing between the grid samples around it: the same target asked for twice
+    # (several grades with one bank change) is refined once
+    columns, inverse = np.unique(target, axis=1, return_inverse=True)
+    first = np.array([np.flatnonzero(inverse.ravel() == j)[0] for j in range(columns.shape[1])])
+    refine = found[:, first] & (index[:, first] > 0)
+    cases, which = np.nonzero(refine)
+    times = np.where(found & (index > 0), np.nan, np.where(found, 0.0, np.inf))
+    if cases.size:
+        picked = index[cases, first[which]]
+        low, high = grid[picked - 1], grid[picked]
+        flat = prepared.take(cases)
+        wanted = columns[cases, which]
+        f_low = flat.at(low[:, None])[:, 0] - wanted
+        f_high = flat.at(high[:, None])[:, 0] - wanted
+
+        def excess(active, points):
+            return flat.take(active).at(points[:, None])[:, 0] - wanted[active]
+
+        root = illinois(excess, low, high, f_low, f_high, np.full(cases.size, _TIME_TOLERANCE))
+        root = np.where(f_high == 0.0, high, root)
+        root = np.where(f_low >= 0.0, low, root)  # reached on the earlier sample after all (round-off)
+        solved = np.full(columns.shape, np.nan)
+        solved[cases, which] = root
+        times = np.where(np.isnan(times), solved[:, inverse.ravel()], times)
+    return times
 
 
 def _bank_at(A, B, aileron, rate, row, times, input_column):
@@ -310,18 +427,22 @@ def time_to_bank(A, B, aileron, aileron_rate, bank_change, bank_row, input_colum
     ----------
     A, B, aileron, aileron_rate, bank_row, input_column
         As :func:`bank_history`.
-    bank_change : array_like, shape (N,)
-        The bank-angle change to reach [rad], > 0.
+    bank_change : array_like, shape (N,) or (N, K)
+        The bank-angle change(s) to reach [rad], > 0 (K changes per case:
+        one response, every change found in it).
 
     Returns
     -------
-    numpy.ndarray, shape (N,)
+    numpy.ndarray, shape of ``bank_change``
         The first time the bank angle reaches the change [s]; inf when it is
         not reached within :data:`HORIZON`.
     """
     A = np.asarray(A, dtype=float)
-    target = np.broadcast_to(np.asarray(bank_change, dtype=float), (A.shape[0],))
-    return _first_crossing(A, B, aileron, aileron_rate, bank_row, target, input_column)
+    change = np.asarray(bank_change, dtype=float)
+    target = np.broadcast_to(change if change.ndim == 2 else change.reshape(-1, 1) if change.ndim
+                             else change, (A.shape[0], change.shape[-1] if change.ndim == 2 else 1))
+    times = _first_crossing(A, B, aileron, aileron_rate, bank_row, np.array(target), input_column)
+    return times if change.ndim == 2 else times[:, 0]
 
 
 def bank_at_time(A, B, aileron, aileron_rate, time, bank_row, input_column=0):

@@ -59,6 +59,7 @@ UNIT_WORDS = {
     "none": ("", ""), "length": ("m", "ft"), "area": ("m^2", "ft^2"), "mass": ("kg", "slug"),
     "inertia": ("kg m^2", "slug ft^2"), "density": ("kg/m^3", "slug/ft^3"),
     "speed": ("m/s", "ft/s"), "acceleration": ("m/s^2", "ft/s^2"), "degree": ("deg", "deg"),
+    "degree_rate": ("deg/s", "deg/s"),
     "knots": ("kt", "kt"), "per_length": ("1/(m s)", "1/(ft s)"), "force": ("N", "lbf"),
     "force_per_speed": ("N s/m", "lbf s/ft"), "impulse": ("N s", "lbf s"),
     "moment": ("N m", "ft lbf"), "moment_time": ("N m s", "ft lbf s"),

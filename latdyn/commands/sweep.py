@@ -22,7 +22,9 @@ def add_arguments(parser):
                         help="parameter range, once or twice: a derivative (Cn_beta, "
                              "condition.derivatives.Cn_beta, N_r), mass, Ixx, Izz, Ixz, speed, "
                              "altitude, density, alpha_deg, gamma_deg, fin.area_ratio, "
-                             "fin.arm_ratio; values in the file's units and degrees")
+                             "fin.arm_ratio, controls.aileron_deg, controls.rudder_deg, "
+                             "controls.aileron_rate_deg_s, controls.rudder_rate_deg_s; values in the "
+                             "file's units and degrees")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     add_criteria(parser)
     add_format(parser)

@@ -24,7 +24,8 @@ __all__ = ["sweep_figure", "root_locus_figure", "level_map_figure", "uncertainty
 
 _BOUNDARY = dict(color=MUTED, linewidth=0.6, linestyle=":")
 #: Line style of each mode's level boundaries on a level map.
-_MODE_LINES = {"dutch_roll": "-", "roll_subsidence": "--", "spiral": ":", "roll_spiral": "-."}
+_MODE_LINES = {"dutch_roll": "-", "roll_subsidence": "--", "spiral": ":", "roll_spiral": "-.",
+               "roll_performance": (0, (5, 1, 1, 1, 1, 1))}
 
 
 def companion_path(path, tag) -> str:

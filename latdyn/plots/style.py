@@ -40,10 +40,10 @@ PALETTE = ("#1d3557", "#b5532b", "#2a7f72", "#7b4f9d", "#a8842a", "#4f5d6b", "#c
 MODE_MARKERS = {"dutch_roll": "o", "roll_subsidence": "s", "spiral": "^", "roll_spiral": "D"}
 #: Mode names in running text (legends).
 MODE_NAMES = {"dutch_roll": "Dutch roll", "roll_subsidence": "roll subsidence", "spiral": "spiral",
-              "roll_spiral": "roll-spiral"}
+              "roll_spiral": "roll-spiral", "roll_performance": "roll performance"}
 #: Colour of each mode's figures in study figures (one meaning per colour in a figure).
 MODE_COLOURS = {"dutch_roll": PALETTE[0], "roll_subsidence": PALETTE[2], "spiral": PALETTE[4],
-                "roll_spiral": PALETTE[3]}
+                "roll_spiral": PALETTE[3], "roll_performance": PALETTE[1]}
 #: Control traces: greys told apart by line style, so that no case colour means a control.
 INPUT_COLOURS = {"aileron": "#5c6670", "rudder": "#20262d"}
 INPUT_STYLES = {"aileron": (0, (5, 2)), "rudder": "-"}

@@ -645,8 +645,10 @@ def provenance_tables(inputs, criteria_sets) -> tuple:
 _SWEEP_FIGURES = (("dutch_roll_frequency", "DR omega_n", "rad/s"), ("dutch_roll_damping", "DR zeta", "-"),
                   ("roll_time_constant", "T_R", "s"), ("spiral_time_to_double", "spiral T_2", "s"),
                   ("spiral_time_to_half", "spiral T_half", "s"),
-                  ("roll_spiral_frequency", "RS omega_n", "rad/s"), ("roll_spiral_damping", "RS zeta", "-"))
-_MODE_SHORT = {"dutch_roll": "DR", "roll_subsidence": "roll", "spiral": "spiral", "roll_spiral": "RS"}
+                  ("roll_spiral_frequency", "RS omega_n", "rad/s"), ("roll_spiral_damping", "RS zeta", "-"),
+                  ("time_to_bank", "t to bank", "s"))
+_MODE_SHORT = {"dutch_roll": "DR", "roll_subsidence": "roll", "spiral": "spiral", "roll_spiral": "RS",
+               "roll_performance": "roll perf."}
 
 
 def sweep_table(result, name="sweep") -> Table:
@@ -736,6 +738,7 @@ FIGURE_LABELS = {
     "spiral_time_to_half": "Spiral time to half T_1/2 [s]",
     "roll_spiral_frequency": "Roll-spiral omega_n [rad/s]",
     "roll_spiral_damping": "Roll-spiral zeta [-]",
+    "time_to_bank": "Roll performance: time to the Level 1 (or pass) bank change, pedals free [s]",
 }
 
 

@@ -19,8 +19,15 @@ gives them), ``mass``, ``Ixx``, ``Izz``, ``Ixz`` (in the file's inertia
 axes), ``speed`` (true airspeed), ``density``, ``altitude`` (sets the
 density from the 1976 standard atmosphere, true airspeed held), ``alpha``,
 ``gamma``, ``wing_area``, ``span``, ``fin.area_ratio``,
-``fin.arm_ratio`` (see :mod:`latdyn.studies.fin`), and the augmentation's
-gains and time constants :data:`AUGMENTATION_PARAMETERS` [s, rad/rad].
+``fin.arm_ratio`` (see :mod:`latdyn.studies.fin`), the augmentation's
+gains and time constants :data:`AUGMENTATION_PARAMETERS` [s, rad/rad], and
+the control travel and rate limits :data:`CONTROL_PARAMETERS` [rad, rad/s].
+
+Roll performance (:mod:`latdyn.roll_performance`) is graded for every case
+against the roll-performance rows of the criteria sets where the aileron
+travel is known (the condition's ``[controls]`` or a varied
+``controls.aileron``): the time to reach each grade's bank-angle change after
+the full roll command, pedals free, as ``latdyn assess`` grades it.
 
 A condition with an engaged ``[augmentation]`` (or a case set that varies
 an augmentation key) takes the augmented path: the closed loop of each case
@@ -31,7 +38,7 @@ time with ``numpy.linalg.eig`` -- slower than the 4x4 path, which is untouched.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields
+from dataclasses import dataclass, fields, replace
 
 import numpy as np
 
@@ -44,7 +51,8 @@ __all__ = [
     "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "case_inputs",
     "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
     "condition_set", "geometry_names", "sweep_notes", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
-    "takes_augmented_path", "closed_loop_matrices", "mode_arrays",
+    "takes_augmented_path", "closed_loop_matrices", "mode_arrays", "CONTROL_PARAMETERS", "roll_models",
+    "roll_levels",
 ]
 
 #: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
@@ -55,7 +63,7 @@ FIGURES = {
     "dutch_roll_frequency": "rad/s", "dutch_roll_damping": "-", "phi_to_beta": "-",
     "roll_root": "1/s", "roll_time_constant": "s", "spiral_root": "1/s",
     "spiral_time_to_double": "s", "spiral_time_to_half": "s",
-    "roll_spiral_frequency": "rad/s", "roll_spiral_damping": "-",
+    "roll_spiral_frequency": "rad/s", "roll_spiral_damping": "-", "time_to_bank": "s",
 }
 
 _MASS_KEYS = ("mass", "Ixx", "Izz", "Ixz")
@@ -66,6 +74,10 @@ AUGMENTATION_PARAMETERS = tuple(f"augmentation.{name}" for name in (
     "yaw_damper_gain", "washout_time_constant", "roll_damper_gain", "interconnect_gain",
     "interconnect_time_constant", "actuator_time_constant", "sensor_time_constant", "time_delay"))
 RUDDER = ("Cy_dr", "Cn_dr", "Cl_dr")
+#: Control travel each way [rad] and rate limits [rad/s] a case set can vary (fields of
+#: latdyn.aircraft.Controls; typed as ``controls.aileron_deg``, ``controls.aileron_rate_deg_s``).
+CONTROL_PARAMETERS = ("controls.aileron", "controls.rudder", "controls.aileron_rate",
+                      "controls.rudder_rate")
 
 
 @dataclass(frozen=True)
@@ -134,6 +146,7 @@ def parameter_names(aircraft, condition) -> tuple:
     if getattr(condition, "estimated", ()):
         names += geometry_names(aircraft)
     names += list(AUGMENTATION_PARAMETERS)
+    names += list(CONTROL_PARAMETERS)
     return tuple(names)
 
 
@@ -210,6 +223,9 @@ def case_inputs(cases: CaseSet) -> dict:
         Ixz=m.Ixz if m else None, speed=flight.speed, density=flight.density,
         altitude=flight.altitude, alpha=flight.alpha, gamma=flight.gamma,
         wing_area=g.wing_area if g else None, span=g.span if g else None)
+    controls = getattr(condition, "controls", None)
+    values.update({key: getattr(controls, key.split(".", 1)[1], None) if controls is not None else None
+                   for key in CONTROL_PARAMETERS})
     values.update(cases.overrides)
     overrides = cases.overrides
     if "altitude" in overrides and "density" not in overrides:
@@ -227,7 +243,7 @@ def case_inputs(cases: CaseSet) -> dict:
             if name not in overrides:
                 values[name] = values[name] * (pressure if name in _PRESSURE_SCALED else velocity)
     estimated = [n for n in getattr(condition, "estimated", ()) if n not in overrides]
-    if estimated and any(k not in names for k in overrides):
+    if estimated and any(k not in names and k not in CONTROL_PARAMETERS for k in overrides):
         totals = _estimated_again(cases, values)
         for name in estimated:
             values[name] = totals[name]
@@ -252,11 +268,14 @@ def case_matrices(cases: CaseSet) -> np.ndarray:
     return case_models(cases, outputs=False)[0]
 
 
-def case_models(cases: CaseSet, outputs=True):
-    """A, B (, C, D) of the bare airframe of every case: (N, 4, 4), (N, 4, 2), (N, 5, 4), (N, 5, 2)."""
+def case_models(cases: CaseSet, outputs=True, inputs=None):
+    """A, B (, C, D) of the bare airframe of every case: (N, 4, 4), (N, 4, 2), (N, 5, 4), (N, 5, 2).
+
+    ``inputs``: :func:`case_inputs` of the cases where already computed.
+    """
     from latdyn.model import output_matrices
 
-    v = case_inputs(cases)
+    v = case_inputs(cases) if inputs is None else inputs
     condition = cases.condition
     derivatives = condition.derivatives
     mass = cases.aircraft.mass
@@ -389,6 +408,13 @@ class Figures:
     roll_root [1/s], roll_time_constant [s], spiral_root [1/s],
     spiral_time_to_double [s], spiral_time_to_half [s],
     roll_spiral_frequency [rad/s], roll_spiral_damping [-] : ndarray
+    time_to_bank : ndarray
+        Roll performance: time to reach ``bank_change`` after the full roll
+        command, pedals free [s] (inf: not within
+        :data:`latdyn.roll_performance.HORIZON`; NaN: not assessed).
+    bank_change : ndarray
+        The bank-angle change of the Level 1 (or pass) roll-performance row of
+        the first criteria set that has one for the case [rad].
     """
 
     pattern: np.ndarray
@@ -406,6 +432,8 @@ class Figures:
     spiral_time_to_half: np.ndarray
     roll_spiral_frequency: np.ndarray
     roll_spiral_damping: np.ndarray
+    time_to_bank: np.ndarray = None
+    bank_change: np.ndarray = None
 
     def __iter__(self):
         return iter((self.dutch_roll_frequency, self.dutch_roll_damping, self.roll_time_constant,
@@ -421,9 +449,10 @@ def mode_figures(modes: ModeArrays) -> Figures:
     rs_frequency, rs_damping = pair_figures(modes.roll_spiral[:, 0], modes.roll_spiral[:, 1])
     roll_tc, _, _ = root_figures(modes.roll)
     _, spiral_half, spiral_double = root_figures(modes.spiral)
+    missing = np.full(len(modes.pattern), np.nan)
     return Figures(modes.pattern, modes.dutch_roll, modes.roll, modes.spiral, modes.roll_spiral,
                    dr_frequency, dr_damping, modes.phi_to_beta, modes.roll, roll_tc, modes.spiral,
-                   spiral_double, spiral_half, rs_frequency, rs_damping)
+                   spiral_double, spiral_half, rs_frequency, rs_damping, missing, missing.copy())
 
 
 def _grade_subset(selection, mode, figures, index, levels_only=False):
@@ -607,7 +636,119 @@ def _chunk_result(cases, criteria_sets, phase, path=False, levels_only=False):
     altitude = cases.overrides.get("altitude", flight.altitude)
     levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,
                             phase, altitude, levels_only) if criteria_sets else {}
+    rolls, time, change = roll_levels(cases, criteria_sets, phase, levels_only)
+    if rolls:
+        levels.update(rolls)
+        figures = replace(figures, time_to_bank=time, bank_change=change)
     return BatchResult(figures, levels)
+
+
+def roll_models(cases: CaseSet, inputs=None):
+    """The models a roll command drives: A (N, n, n), B (N, n, k), the aileron column and the bank row.
+
+    The bare airframe (4 states, column 0, bank the fourth state), or on the
+    augmented path the closed loop of each case (its ``aileron`` input is the
+    pilot's roll command); every case of an augmented set has the same
+    structure, else a case with another is NaN.
+
+    Returns
+    -------
+    A, B : numpy.ndarray
+    column : int
+    bank_row : numpy.ndarray, shape (N, n)
+    """
+    if not takes_augmented_path(cases):
+        A, B = case_models(cases, outputs=False, inputs=inputs)
+        row = np.zeros((cases.size, 4))
+        row[:, 3] = 1.0
+        return A, B, 0, row
+    from latdyn.augmentation import augmented_model
+
+    models = case_models(cases, inputs=inputs)
+    built = []
+    for i in range(cases.size):
+        augmentation = case_augmentation(cases, i)
+        built.append(None if augmentation is None
+                     else augmented_model(_case_model(models, cases, i), augmentation))
+    first = next((m for m in built if m is not None), None)
+    if first is None:
+        n = cases.size
+        return np.full((n, 4, 4), np.nan), np.full((n, 4, 2), np.nan), 0, np.zeros((n, 4))
+    shape_A, shape_B = np.shape(first.A), np.shape(first.B)
+    same = [m is not None and np.shape(m.A) == shape_A and np.shape(m.B) == shape_B for m in built]
+    A = np.stack([np.asarray(m.A, float) if ok else np.full(shape_A, np.nan) for m, ok in zip(built, same)])
+    B = np.stack([np.asarray(m.B, float) if ok else np.full(shape_B, np.nan) for m, ok in zip(built, same)])
+    column = list(first.input_names).index("aileron")
+    row = np.asarray(first.C, float)[list(first.output_names).index("phi")]
+    return A, B, column, np.broadcast_to(row, (cases.size, row.size)).copy()
+
+
+def roll_levels(cases: CaseSet, criteria_sets, flight_phase=None, levels_only=False):
+    """Roll-performance grades of every case against the sets with roll-performance rows.
+
+    As :func:`latdyn.assessment.assess_roll_performance` grades one case: the
+    time to reach each grade's bank-angle change after the full, possibly
+    rate-limited, roll command, pedals free, from wings level
+    (:func:`latdyn.roll_performance.time_to_bank`;
+    :func:`latdyn.levels.select_roll_bands`, :func:`latdyn.levels.grade_roll_performance`).
+
+    Returns
+    -------
+    levels : dict
+        (criteria name, "roll_performance") -> Grades; empty where no set has
+        roll-performance rows or the aileron travel is not known.
+    time_to_bank, bank_change : numpy.ndarray or None
+        (N,) figures of :class:`Figures` [s, rad].
+    """
+    from latdyn.levels import grade_roll_performance, select_roll_bands
+    from latdyn.roll_performance import time_to_bank
+
+    sets = [c for c in criteria_sets if getattr(c, "roll_performance", None) is not None]
+    if not sets:
+        return {}, None, None
+    controls = getattr(cases.condition, "controls", None)
+    if "controls.aileron" not in cases.overrides and getattr(controls, "aileron", None) is None:
+        return {}, None, None
+    inputs = case_inputs(cases)
+    aileron = inputs["controls.aileron"]
+    n = cases.size
+    aileron = np.broadcast_to(np.asarray(aileron, dtype=float), (n,))
+    rate = inputs["controls.aileron_rate"]
+    rate = np.broadcast_to(np.asarray(np.inf if rate is None else rate, dtype=float), (n,))
+    mass = inputs["mass"]
+    aircraft, flight = cases.aircraft, cases.condition.flight
+    selections = [select_roll_bands(c, aircraft.airplane_class, flight.category, flight_phase, mass, n)
+                  for c in sets]
+    if all((s.row < 0).all() for s in selections):
+        return {}, None, None
+    A, B, column, row = roll_models(cases, inputs)
+    usable = np.isfinite(aileron) & (aileron > 0) & ~np.isnan(rate) & np.isfinite(A).all(axis=(1, 2))
+    # every bank change asked for, found in one response per case
+    changes = np.concatenate([s.bank_change for s in selections], axis=1)
+    times = np.full(changes.shape, np.nan)
+    wanted = usable[:, None] & np.isfinite(changes)
+    cases_wanted = np.flatnonzero(wanted.any(axis=1))
+    if cases_wanted.size:
+        targets = np.where(wanted[cases_wanted], changes[cases_wanted], np.inf)
+        found = time_to_bank(A[cases_wanted], B[cases_wanted], aileron[cases_wanted], rate[cases_wanted],
+                             targets, row[cases_wanted], column)
+        times[cases_wanted] = np.where(wanted[cases_wanted], found, np.nan)
+    levels, start = {}, 0
+    time_figure = change_figure = None
+    for criteria, selection in zip(sets, selections):
+        width = selection.bank_change.shape[1]
+        part = times[:, start:start + width]
+        start += width
+        if (selection.row < 0).all():
+            continue
+        levels[(criteria.name, "roll_performance")] = grade_roll_performance(selection, part, levels_only)
+        first = np.where(selection.row[:, 0] >= 0)[0]
+        if time_figure is None:
+            time_figure, change_figure = np.full(n, np.nan), np.full(n, np.nan)
+        fill = first[np.isnan(change_figure[first])]
+        time_figure[fill] = part[fill, 0]
+        change_figure[fill] = selection.bank_change[fill, 0]
+    return levels, time_figure, change_figure
 
 
 def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,

@@ -8,7 +8,10 @@ A key is a derivative (``Cn_beta`` or ``condition.derivatives.Cn_beta``;
 ``fin.area_ratio`` / ``fin.arm_ratio``, ``mach``, a geometry key of a
 file whose derivatives are estimated (``wing.dihedral_deg``, ``fin.area``,
 ``fuselage.volume``, ...; see :mod:`latdyn.estimation`), or an augmentation gain or time
-constant (``augmentation.yaw_damper_gain`` ..., always SI: s and rad/rad).  Values are in the units of the
+constant (``augmentation.yaw_damper_gain`` ..., always SI: s and rad/rad), or a control
+travel or rate limit (``controls.aileron_deg``, ``controls.rudder_deg`` in degrees each way,
+``controls.aileron_rate_deg_s``, ``controls.rudder_rate_deg_s`` in degrees per second;
+optionally with ``condition.``).  Values are in the units of the
 aircraft file (its ``units`` word) and degrees for the angles; they are
 converted to SI and radians here, at the edge.
 """
@@ -54,7 +57,7 @@ class StudyKey:
 
     def to_si(self, value):
         """A typed value (file units, degrees) in SI units and radians."""
-        if self.dimension == "degree":
+        if self.dimension in ("degree", "degree_rate"):
             return units.rad(value)
         if self.dimension in ("second", "ratio"):
             return value
@@ -62,7 +65,7 @@ class StudyKey:
 
     def from_si(self, value):
         """An SI value in the typed units."""
-        if self.dimension == "degree":
+        if self.dimension in ("degree", "degree_rate"):
             return units.deg(value)
         if self.dimension in ("second", "ratio"):
             return value
@@ -98,6 +101,8 @@ def parameter_dimension(name) -> str:
 def _dimension(name):
     if name in _ANGLES.values():
         return "degree"
+    if name.startswith("controls."):
+        return "degree_rate" if name.endswith("_rate") else "degree"
     table, _, field = name.partition(".")
     if field and table in GEOMETRY_TABLES:
         keys = SCHEMA[table]
@@ -141,6 +146,9 @@ def resolve_key(text, allowed, file, option="--vary", units_word="SI", condition
     >>> key = resolve_key("alpha_deg", ["alpha"], "a.toml")
     >>> key.name, round(key.to_si(90.0), 6)
     ('alpha', 1.570796)
+    >>> key = resolve_key("controls.aileron_rate_deg_s", ["controls.aileron_rate"], "a.toml")
+    >>> key.name, key.unit, round(float(key.to_si(180.0)), 6)
+    ('controls.aileron_rate', 'deg/s', 3.141593)
     """
     name = text.strip()
     for prefix in _PREFIXES:
@@ -151,13 +159,16 @@ def resolve_key(text, allowed, file, option="--vary", units_word="SI", condition
     if name in ("alpha", "gamma") and not text.strip().endswith("_deg"):
         name = "?"  # angles are typed in degrees only
     allowed = tuple(allowed)
-    if "." in name and name.endswith("_deg") and name[:-4] in allowed:
-        name = name[:-4]  # a geometry angle, typed in degrees
-    elif "." in name and _dimension(name) == "degree":
+    if "." in name and name.endswith("_deg_s") and name[:-6] in allowed:
+        name = name[:-6]  # a control rate limit, typed in degrees per second
+    elif "." in name and name.endswith("_deg") and name[:-4] in allowed:
+        name = name[:-4]  # a geometry angle or a control travel, typed in degrees
+    elif "." in name and _dimension(name) in ("degree", "degree_rate"):
         name = "?"
     if name not in allowed:
-        shown = [next((k for k, v in _ANGLES.items() if v == a), a + "_deg" if "." in a
-                      and _dimension(a) == "degree" else a) for a in allowed]
+        suffix = {"degree": "_deg", "degree_rate": "_deg_s"}
+        shown = [next((k for k, v in _ANGLES.items() if v == a), a + suffix[_dimension(a)] if "." in a
+                      and _dimension(a) in suffix else a) for a in allowed]
         raise InputError(file, option, "a key this condition can vary (" + ", ".join(shown) + ")",
                          f'"{text}"', condition)
     return StudyKey(text.strip(), name, _dimension(name), units_word)

@@ -4,7 +4,8 @@ A value a sweep or an uncertainty sample puts into a case must pass the
 rules its key obeys in the aircraft file (:mod:`latdyn.aircraft`): positive
 mass, inertias, speed, density, area and span; Ixz^2 < Ixx Izz; |alpha|,
 |gamma| and |alpha + gamma| below 90 degrees; the altitude inside the
-standard atmosphere; every number inside the plausible range of its
+standard atmosphere; control travel above 0 and below 90 degrees each way and
+rate limits above 0; every number inside the plausible range of its
 dimension (:data:`latdyn.aircraft_file.PLAUSIBLE_RANGES`); and the fin ratios
 of :mod:`latdyn.studies.fin` (area ratio >= 0, arm ratio > 0).
 
@@ -41,6 +42,10 @@ _TREE_PATHS = {
     "speed": ("condition", "speed"), "altitude": ("condition", "altitude"),
     "density": ("condition", "density"), "alpha": ("condition", "alpha_deg"),
     "gamma": ("condition", "gamma_deg"),
+    "controls.aileron": ("condition.controls", "aileron_deg"),
+    "controls.rudder": ("condition.controls", "rudder_deg"),
+    "controls.aileron_rate": ("condition.controls", "aileron_rate_deg_s"),
+    "controls.rudder_rate": ("condition.controls", "rudder_rate_deg_s"),
 }
 #: Rules of the fin ratios (latdyn.studies.fin): (least value, whether the least is excluded).
 RATIO_RULES = {"fin.area_ratio": (0.0, False), "fin.arm_ratio": (0.0, True)}
@@ -111,7 +116,10 @@ def check_grid(aircraft, condition, axes):
         entry = _condition_entry(trial, condition.name)
         for key, value in through_file:
             table, name = _TREE_PATHS[key.name]
-            target = entry if table == "condition" else trial.setdefault(table, {})
+            if table == "condition.controls":
+                target = entry.setdefault("controls", {})
+            else:
+                target = entry if table == "condition" else trial.setdefault(table, {})
             if key.name == "speed":
                 target.pop("mach", None)
             target[name] = Leaf(value, aircraft.file, key.units)

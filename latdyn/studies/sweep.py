@@ -21,6 +21,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from latdyn.errors import InputError
+from latdyn.roots import illinois
 from latdyn.studies.batch import condition_set, parameter_names, run_batch, sweep_notes
 from latdyn.studies.keys import StudyKey, file_units, resolve_key
 from latdyn.studies.rules import check_grid
@@ -221,52 +222,6 @@ def _margins_at(aircraft, condition, axes, moving, fixed, criteria_sets, wanted)
     return out
 
 
-def _illinois(function, a, b, fa, fb, tolerance, iterations=200):
-    """Roots of ``function`` in the brackets [a, b] (arrays), all refined together.
-
-    The Illinois variant of regula falsi (M. Dowell and P. Jarratt, "A
-    modified regula falsi method for computing the root of an equation",
-    BIT 11, 1971): the new point replaces b; when its sign equals b's the
-    retained end's value is halved, which keeps convergence superlinear.  A
-    point that falls outside its bracket is replaced by the midpoint
-    (safeguard).  Stops per bracket when the bracket is shorter than
-    ``tolerance`` or the margin is exactly zero; ``function`` is called with
-    the indices of the brackets still running and their points.
-
-    Returns
-    -------
-    root : ndarray
-        NaN where the function became non-finite.
-    """
-    a, b, fa, fb = (np.array(v, dtype=float) for v in (a, b, fa, fb))
-    root = np.full(a.shape, np.nan)
-    active = np.ones(a.shape, bool)
-    for _ in range(iterations):
-        index = np.flatnonzero(active)
-        if not index.size:
-            break
-        ai, bi, fai, fbi = a[index], b[index], fa[index], fb[index]
-        with np.errstate(invalid="ignore", divide="ignore"):
-            c = bi - fbi * (bi - ai) / (fbi - fai)
-        low, high = np.minimum(ai, bi), np.maximum(ai, bi)
-        outside = ~np.isfinite(c) | (c <= low) | (c >= high)
-        c = np.where(outside, 0.5 * (ai + bi), c)
-        fc = function(index, c)
-        failed = ~np.isfinite(fc)
-        exact = fc == 0.0
-        flip = fc * fbi < 0.0
-        # the bracket becomes [b, c] where the sign changed, [a, c] (a's value halved) where not
-        new_a = np.where(flip, bi, ai)
-        new_fa = np.where(flip, fbi, 0.5 * fai)
-        a[index], fa[index], b[index], fb[index] = new_a, new_fa, c, fc
-        done = exact | (np.abs(c - new_a) <= tolerance[index])
-        root[index[done & ~failed]] = c[done & ~failed]
-        active[index[done | failed]] = False
-    # brackets still running after every iteration: their last point
-    root[active] = b[active]
-    return root
-
-
 def _grid_brackets(values, margins):
     """Sign changes of the grid margins: (crossings at grid points, brackets between them).
 
@@ -301,7 +256,7 @@ def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
     For two parameters, along the first one on each grid line of the second.
     Sign changes of the grid's margins bracket the crossings; all brackets
     (every criteria set, mode, boundary and grid line) are then refined
-    together by :func:`_illinois` on the margin of the full pipeline,
+    together by :func:`latdyn.roots.illinois` on the margin of the full pipeline,
     evaluated for every bracket at once through the batched engine, to the
     tolerance of Brent's method used before (1e-12 of the parameter).
 
@@ -315,7 +270,8 @@ def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
     pending = []  # (order, criteria, mode, grade index, line, x0, x1, above)
     order = 0
     for criteria in criteria_sets:
-        for mode in criteria.mode_names:
+        graded = criteria.mode_names + (("roll_performance",) if criteria.roll_performance else ())
+        for mode in graded:
             grades = result.levels.get((criteria.name, mode))
             if grades is None:
                 continue
@@ -349,7 +305,7 @@ def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
             return _margins_at(aircraft, condition, axes, points, fixed[chosen], names,
                                [wanted[k] for k in chosen])
 
-        roots = _illinois(margin, x0[keep], x1[keep], f0[keep], f1[keep], tolerance[keep])
+        roots = illinois(margin, x0[keep], x1[keep], f0[keep], f1[keep], tolerance[keep])
         for k, root in zip(keep, roots):
             if np.isfinite(root):
                 item = pending[k]
@@ -581,6 +537,8 @@ def sweep_document(result: SweepResult) -> dict:
                 "phi_to_beta": _json_number(figures.phi_to_beta[i]),
                 "roll_root": _json_number(figures.roll_root[i]),
                 "spiral_root": _json_number(figures.spiral_root[i]),
+                "time_to_bank": _json_number(figures.time_to_bank[i]),
+                "bank_change": _json_number(figures.bank_change[i]),
                 "levels": levels,
             })
         conditions.append({"name": item.condition.name, "category": item.condition.flight.category,

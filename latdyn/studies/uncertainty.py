@@ -6,7 +6,8 @@ error: normal with standard deviation ``amount`` or uniform on
 Samples come from a numpy ``Generator`` (PCG64) seeded from the user's seed
 and the condition name, so a run is reproducible and a condition's samples
 do not depend on which other conditions run.  The samples go through the
-batched engine (:mod:`latdyn.studies.batch`); the result per condition and
+batched engine (:mod:`latdyn.studies.batch`), roll performance included where
+the aileron travel is known; the result per condition and
 mode is the fraction of samples at each level (the level probability, with
 binomial standard error sqrt(p (1 - p) / n)) and percentiles of the mode
 figures.
@@ -234,7 +235,7 @@ def figure_percentiles(values) -> dict:
 class SampleFigures:
     """The mode figures of every sample, kept as float32 (:data:`FIGURES`, NaN where absent).
 
-    What a streamed Monte Carlo run keeps of each sample: 40 bytes a sample
+    What a streamed Monte Carlo run keeps of each sample: 44 bytes a sample
     instead of the batch engine's full :class:`~latdyn.studies.batch.Figures`.
     """
 
@@ -248,6 +249,7 @@ class SampleFigures:
     spiral_time_to_half: np.ndarray
     roll_spiral_frequency: np.ndarray
     roll_spiral_damping: np.ndarray
+    time_to_bank: np.ndarray
 
     def __len__(self):
         return len(self.dutch_roll_frequency)
