@@ -42,7 +42,7 @@ __all__ = [
     "BandSelection", "grade", "dutch_roll_grades", "roll_grades", "spiral_grades",
     "roll_spiral_grades", "select_bands", "grade_mode", "mode_levels",
     "phi_to_beta_excess", "stack_levels", "Assessment", "ConditionAssessment", "AircraftAssessment",
-    "assess_modes", "assess", "default_criteria", "level_words", "assess_roll_performance",
+    "assess_modes", "assess", "default_criteria", "level_words", "assess_roll_performance", "assess_readings",
     "below_level", "checks_below",
 ]
 
@@ -238,6 +238,10 @@ class ConditionAssessment:
         Roll-rate and bank oscillations, psi_beta, sideslip excursion, k (indicators).
     departure : latdyn.departure.Departure or None
         Cn_beta,dyn and LCDP (indicators).
+    ambiguous_naming : dict or None
+        Where the eigenvectors do not confirm two modes' names
+        (:func:`latdyn.modes.naming_ambiguity`): the ambiguity, both readings'
+        results per criteria set and the reading graded (the more conservative).
     """
 
     name: str
@@ -252,6 +256,7 @@ class ConditionAssessment:
     equivalent_assessments: tuple = ()
     roll_response: object = None
     departure: object = None
+    ambiguous_naming: dict | None = None
 
     def __iter__(self):
         return iter(self.assessments)
@@ -291,7 +296,8 @@ class ConditionAssessment:
             "cn_beta_dynamic": None, "lcdp": None}
         document = {"name": self.name, "category": self.category, "airplane_class": self.airplane_class,
                     "assessments": [a.as_dict() for a in self.assessments], "flight_phase": self.flight_phase,
-                    "worst": worst, "roll_response": response, "departure": departure}
+                    "worst": worst, "roll_response": response, "departure": departure,
+                    "ambiguous_naming": self.ambiguous_naming}
         if self.equivalent is not None:
             document["equivalent_system"] = {**self.equivalent.as_dict(), "assessments": [
                 a.as_dict() for a in self.equivalent_assessments]}
@@ -641,6 +647,65 @@ def assess_modes(modes, criteria_sets, airplane_class=None, category=None, fligh
     return tuple(out)
 
 
+def assess_readings(modes, assessments, criteria_sets, airplane_class=None, category=None,
+                    flight_phase=None, altitude=None, condition_name="") -> tuple:
+    """Both readings of an ambiguous mode naming graded; the more conservative kept, saying so.
+
+    Where the eigenvectors do not confirm the names of two modes
+    (:func:`latdyn.modes.naming_ambiguity`: roll and spiral roots, or the
+    Dutch roll and a roll-spiral oscillation), the other reading (the names
+    swapped) is graded too.  For each criteria set, the reading whose worse
+    entry of the two modes is worse (higher level, or fail) is the one graded;
+    on a tie the named reading.  Each entry of the two modes notes the
+    ambiguity, the reading graded and the other reading's results.
+
+    Parameters
+    ----------
+    modes : latdyn.modes.ModeSet
+    assessments : tuple of Assessment
+        :func:`assess_modes` of ``modes`` (the named reading).
+    criteria_sets, airplane_class, category, flight_phase, altitude, condition_name
+        As :func:`assess_modes`.
+
+    Returns
+    -------
+    assessments : tuple of Assessment
+        With the entries of the two modes from the reading graded.
+    ambiguous_naming : dict or None
+        ``NamingAmbiguity.as_dict()`` with ``"readings"`` (``{"named", "other"}``,
+        each criteria set -> mode -> result in words) and ``"graded"``
+        (criteria set -> "named" or "other"); None where the names are confirmed.
+    """
+    ambiguity = getattr(modes, "ambiguity", None)
+    if ambiguity is None:
+        return tuple(assessments), None
+    other = assess_modes(ambiguity.other, criteria_sets, airplane_class, category, flight_phase, altitude,
+                         condition_name)
+    names = set(ambiguity.names)
+    readings = {"named": {}, "other": {}}
+    graded = {}
+    replacement = {}
+    for criteria in dict.fromkeys(a.criteria for a in assessments):
+        mine = [a for a in assessments if a.criteria == criteria and a.mode in names]
+        theirs = [a for a in other if a.criteria == criteria and a.mode in names]
+        readings["named"][criteria] = {a.mode: a.result for a in mine}
+        readings["other"][criteria] = {a.mode: a.result for a in theirs}
+        worse = max((a.severity for a in theirs), default=0) > max((a.severity for a in mine), default=0)
+        graded[criteria] = "other" if worse else "named"
+        kept, shown = (theirs, mine) if worse else (mine, theirs)
+        words = "; ".join(f"{a.mode.replace('_', ' ')} {a.result}" for a in shown)
+        note = ("mode naming ambiguous: " + ambiguity.reason + "; graded on the "
+                + ("other reading (names swapped), the more conservative" if worse
+                   else "named reading" + (", the more conservative" if any(
+                       a.severity != b.severity for a, b in zip(mine, theirs)) else
+                       " (both readings give the same results)"))
+                + f"; the {'named' if worse else 'other'} reading gives {words}")
+        for entry in kept:
+            replacement[(criteria, entry.mode)] = replace(entry, notes=entry.notes + (note,))
+    out = tuple(replacement.get((a.criteria, a.mode), a) for a in assessments)
+    return out, {**ambiguity.as_dict(), "readings": readings, "graded": graded}
+
+
 def _roll_entry(criteria, **values):
     fields_ = dict(level=None, passed=None, governing="time_to_bank", value=None, limit=None,
                    margin=None, margin_fraction=None, unit="s")
@@ -842,6 +907,8 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
         modes = condition_modes(aircraft, condition, model)
         assessments = assess_modes(modes, sets, airplane_class, flight.category, phase, flight.altitude,
                                    condition.name)
+        assessments, naming = assess_readings(modes, assessments, sets, airplane_class, flight.category,
+                                              phase, flight.altitude, condition.name)
         mass = aircraft.mass.mass if aircraft.mass is not None else None
         controls = getattr(condition, "controls", None)
         rolls, roll = assess_roll_performance(model, controls, sets, airplane_class, flight.category,
@@ -859,7 +926,8 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
         conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
                                               flight.altitude, assessments + rolls, modes, roll, fitted, graded,
                                               roll_response=response,
-                                              departure=departure_indicators(aircraft, condition)))
+                                              departure=departure_indicators(aircraft, condition),
+                                              ambiguous_naming=naming))
     notes = []
     if airplane_class is None and any(s.assessment == "levels" for s in sets):
         notes.append("the aircraft file gives no airplane_class: military levels are given only where "

@@ -80,6 +80,7 @@ def analyse_aircraft(aircraft: Aircraft, condition: str | None = None) -> tuple:
 def condition_document(result: ConditionResult) -> dict:
     """The JSON entry of one condition (SI units, radians)."""
     flight = result.condition.flight
+    ambiguity = result.modes.ambiguity
     augmentation = getattr(result.condition, "augmentation", None)
     extra = {}
     if augmentation is not None:
@@ -104,6 +105,7 @@ def condition_document(result: ConditionResult) -> dict:
         "axes": result.model.axes,
         "pattern": result.modes.pattern,
         "modes": [mode.as_dict() for mode in result.modes],
+        "ambiguous_naming": ambiguity.as_dict() if ambiguity is not None else None,
         "derivative_sources": derivative_sources(result.condition),
         **extra,
     }
@@ -139,7 +141,10 @@ def modes_document(aircraft: Aircraft, results=None, condition: str | None = Non
     [...]}]}`` plus the extra keys ``airplane_class``, ``warnings`` and, per
     condition, ``altitude``, ``mach``, ``equivalent_airspeed``, ``calibrated_airspeed``,
     ``alpha``, ``gamma``, ``axes``,
-    ``pattern``, ``departure`` (``{"cn_beta_dynamic", "lcdp", "notes"}``, indicators); with an engaged ``[augmentation]`` also ``augmentation`` (its
+    ``pattern``, ``ambiguous_naming`` (null, or where the eigenvectors do not confirm two
+    modes' names :meth:`latdyn.modes.NamingAmbiguity.as_dict`: ``{"kind", "reason", "named",
+    "other_reading", "rolling_fraction" or "sideslip_fraction", "separation"}``),
+    ``departure`` (``{"cn_beta_dynamic", "lcdp", "notes"}``, indicators); with an engaged ``[augmentation]`` also ``augmentation`` (its
     values, SI) and ``added_roots`` (the roots of the washout, sensors,
     actuators and delay, each entry laid out as a mode with ``mode`` naming
     the block).  A field that does not apply is None (JSON null).

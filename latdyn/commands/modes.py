@@ -122,8 +122,12 @@ def run(args):
             heading = condition_heading(result, unit_system(args.units, aircraft))
             lines += ["", f"### {escape_markdown(heading)}" if markdown else heading]
             provenance = provenance_line(result.condition)
+            ambiguity = result.modes.ambiguity
             notes = [*([f"  {provenance}"] if provenance else []),
-                     f"  roots: {result.modes.pattern}", *augmentation_lines(result.condition)]
+                     f"  roots: {result.modes.pattern}",
+                     *([f"  NAMING AMBIGUOUS: {ambiguity.reason}; assess grades both readings"]
+                       if ambiguity is not None else []),
+                     *augmentation_lines(result.condition)]
             if markdown:
                 lines += ["", *(escape_markdown(n.strip()) for n in notes), ""]
             else:

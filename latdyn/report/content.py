@@ -255,6 +255,9 @@ def condition_section(item, data, units=DEFAULT) -> list:
                given_table(item.aircraft, result, f"{name}-as-given"),
                *buildup_blocks(data.buildup, name),
                Paragraph(f"Roots: {result.modes.pattern}."),
+               *([Paragraph(f"Mode naming ambiguous: {result.modes.ambiguity.reason}. Both readings are "
+                            "graded; the assessment below keeps the more conservative and its notes "
+                            "give the other.")] if result.modes.ambiguity is not None else []),
                mode_table(result.modes, f"{name}-modes").select(MODE_REPORT_VIEW),
                assessment_table(item.assessment, result.condition.name, f"{name}-assessment")
                .select(ASSESSMENT_REPORT_VIEW)]
