@@ -1,7 +1,10 @@
 """Configuration comparison: what changed between a base aircraft and its variants.
 
 Per flight condition (matched by name): each mode's figures side by side
-with the change (absolute and per cent), the handling-quality level changes
+with the change (absolute and per cent) -- and the roll performance (time to
+each criteria set's bank-angle change), the response to roll control and the
+departure indicators as figures of ``mode`` "roll_performance",
+"roll_response" and "departure" --, the handling-quality level changes
 (improved / degraded), and the input differences that caused them — the
 derivatives as written in the files, the primed dimensional derivatives
 actually used, mass, inertia and flight condition.
@@ -23,6 +26,7 @@ from latdyn.results import analyse_aircraft
 __all__ = [
     "FigureChange", "LevelChange", "InputChange", "ConditionComparison", "Comparison",
     "compare", "compare_many", "comparison_document", "MODE_FIGURES", "drops_below", "relative_change",
+    "RESPONSE_FIGURES", "DEPARTURE_FIGURES",
 ]
 
 #: (mode figure attribute, label, unit) compared for each mode.
@@ -37,6 +41,50 @@ MODE_FIGURES = (
     ("phi_to_beta", "|phi/beta|", "-"),
     ("real_part", "Re(root)", "1/s"),
 )
+
+
+#: (field, label, unit) of the response to roll control compared (latdyn.roll_response, SI).
+RESPONSE_FIGURES = (
+    ("p_osc_over_p_av", "p_osc/p_av", "-"),
+    ("first_minimum_ratio", "p_min/p_peak", "-"),
+    ("phi_osc_over_phi_av", "phi_osc/phi_av", "-"),
+    ("psi_beta", "psi_beta", "rad"),
+    ("delta_beta_max", "Delta beta_max", "rad"),
+    ("k", "k", "-"),
+    ("delta_beta_over_k", "Delta beta_max/k", "rad"),
+)
+#: (field, label, unit) of the departure indicators compared (latdyn.departure).
+DEPARTURE_FIGURES = (("cn_beta_dynamic", "Cn_beta,dyn", "1/rad"), ("lcdp", "LCDP", "1/rad"))
+
+
+def _roll_figures(condition_a, condition_b) -> list:
+    """Figure changes of roll performance (each criteria set's graded time to its bank change,
+    where base and variant are graded on the same change), the response to roll control and the
+    departure indicators of two ConditionAssessments."""
+    out = []
+    rolls_b = {a.criteria: a for a in condition_b.assessments if a.mode == "roll_performance"}
+    for entry_a in condition_a.assessments:
+        entry_b = rolls_b.get(entry_a.criteria)
+        if entry_a.mode != "roll_performance" or entry_b is None or entry_a.bank_change is None \
+                or entry_a.bank_change != entry_b.bank_change:
+            continue
+        if entry_a.value is None and entry_b.value is None:
+            continue
+        change, percent = relative_change(entry_a.value, entry_b.value)
+        out.append(FigureChange("roll_performance",
+                                f"time to {math.degrees(entry_a.bank_change):.3g} deg ({entry_a.criteria})",
+                                "s", entry_a.value, entry_b.value, change, percent))
+    for group, attribute, table in (("roll_response", "roll_response", RESPONSE_FIGURES),
+                                    ("departure", "departure", DEPARTURE_FIGURES)):
+        a, b = getattr(condition_a, attribute, None), getattr(condition_b, attribute, None)
+        for name, label, unit in table:
+            value_a = getattr(a, name, None) if a is not None else None
+            value_b = getattr(b, name, None) if b is not None else None
+            if value_a is None and value_b is None:
+                continue
+            change, percent = relative_change(value_a, value_b)
+            out.append(FigureChange(group, label, unit, value_a, value_b, change, percent))
+    return out
 
 
 def relative_change(base, variant):
@@ -270,6 +318,7 @@ def compare(base: Aircraft, variant: Aircraft, criteria_sets=None) -> Comparison
                     continue
                 change, percent = relative_change(value_a, value_b)
                 figures.append(FigureChange(mode_name, label, unit, value_a, value_b, change, percent))
+        figures += _roll_figures(levels_a[name], levels_b[name])
         level_changes = []
         entries_b = {(x.criteria, x.mode): x for x in levels_b[name].assessments}
         for entry_a in levels_a[name].assessments:

@@ -233,3 +233,28 @@ def test_sweep_command_prints_the_roll_performance_crossing(capsys):
     point = document["conditions"][0]["points"][0]
     assert point["levels"]["mil-f-8785c"]["roll_performance"] == 4     # 5 deg: beyond Level 3
     assert point["time_to_bank"] > 3.6 and point["bank_change"] == pytest.approx(math.radians(30.0))
+
+
+def test_compare_shows_roll_performance_and_response_changes():
+    """Each compared figure is the value of each file's own assessment (base and variant)."""
+    from latdyn.compare import compare
+
+    base = load_aircraft(DEMO)
+    variant = load_aircraft(ROOT / "aircraft" / "kestrel-k40-tip-tanks.toml")
+    comparison = compare(base, variant, ["mil-f-8785c"])
+    own = {a.aircraft: a for a in (assess(base, ["mil-f-8785c"]), assess(variant, ["mil-f-8785c"]))}
+    for condition in comparison.conditions:
+        figures = {(f.mode, f.figure): f for f in condition.figures}
+        a = next(c for c in own[base.name].conditions if c.name == condition.name)
+        b = next(c for c in own[variant.name].conditions if c.name == condition.name)
+        roll_a, roll_b = _roll_entry(own[base.name], condition.name), _roll_entry(own[variant.name], condition.name)
+        label = f"time to {math.degrees(roll_a.bank_change):.3g} deg (mil-f-8785c)"
+        roll = figures[("roll_performance", label)]
+        assert (roll.base, roll.variant) == (roll_a.value, roll_b.value)
+        assert roll.change == pytest.approx(roll_b.value - roll_a.value)
+        k = figures[("roll_response", "k")]
+        assert (k.base, k.variant) == (a.roll_response.k, b.roll_response.k)
+        lcdp = figures[("departure", "LCDP")]
+        assert (lcdp.base, lcdp.variant) == (a.departure.lcdp, b.departure.lcdp)
+        verdicts = {c.mode: c for c in condition.levels}
+        assert verdicts["roll_performance"].base_level == roll_a.level

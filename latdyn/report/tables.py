@@ -530,6 +530,10 @@ def summary_table(assessments, name="summary", caption="Worst result per conditi
 
 # ------------------------------------------------------------------ comparison
 
+#: Row labels of the comparison's figures that are not modes.
+_FIGURE_GROUPS = {"roll_response": "Response to roll control", "departure": "Departure indicators"}
+
+
 def comparison_tables(comparison, prefix="comparison") -> tuple:
     """(levels, inputs, figures) tables of a :class:`~latdyn.compare.Comparison`.
 
@@ -540,7 +544,8 @@ def comparison_tables(comparison, prefix="comparison") -> tuple:
     figures, levels, inputs, moved = [], [], [], []
     for condition in comparison.conditions:
         for item in condition.figures:
-            figures.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
+            figures.append({"condition": condition.name,
+                            "mode": MODE_LABELS.get(item.mode) or _FIGURE_GROUPS[item.mode],
                             "figure": item.figure, "unit": item.unit, "base": item.base,
                             "variant": item.variant, "change": item.change,
                             "change_percent": item.change_percent})
