@@ -47,7 +47,7 @@ from latdyn.roots import illinois
 __all__ = [
     "response_to_ramp", "impulse_history", "bank_history", "time_to_bank", "bank_at_time", "coordinated_model",
     "RollResult", "roll_performance", "single_degree_of_freedom_bank", "HORIZON", "ROLL_DIRECTION_NOTE",
-    "PEDALS_FREE_NOTE", "COORDINATED_NOTE", "REVERSAL_NOTE",
+    "PEDALS_FREE_NOTE", "COORDINATED_NOTE", "REVERSAL_NOTE", "roll_requirements",
 ]
 
 #: Longest time searched for a bank-angle change [s].
@@ -672,3 +672,19 @@ def roll_performance(model, aileron, aileron_rate=None, duration=None, samples=8
         notes.append("the aileron has no rolling moment: no roll")
     return RollResult(float(aileron), None if aileron_rate is None else float(aileron_rate), times,
                       bank[0], bank_c, rudder_c, extra[0, 0], extra[0, 1], tuple(notes))
+
+
+def roll_requirements(assessments) -> list:
+    """(label, bank change [rad], time allowed [s], result in words) of the roll-performance rows graded.
+
+    From the ``roll_performance`` entries of a condition's assessment
+    (:class:`latdyn.assessment.Assessment`) that have a limit.
+    """
+    out = []
+    for entry in assessments:
+        if entry.mode != "roll_performance" or entry.limit is None or entry.bank_change is None:
+            continue
+        label = (f"{entry.criteria}, {entry.row}" if entry.row else
+                 f"{entry.criteria}: {math.degrees(entry.bank_change):.3g} deg in {entry.limit:.3g} s")
+        out.append((label, entry.bank_change, entry.limit, entry.result))
+    return out

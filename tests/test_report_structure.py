@@ -50,7 +50,7 @@ def test_report_content_is_built_without_matplotlib():
     assert "roll-response" in found["tables"]
     assert len(found["tables"]) == 30                    # the demo report's CSV files (roll-response indicators and the mass and geometry as given included)
     assert ["kestrel-k40-s-plane", "s_plane"] in found["figures"]
-    assert len(found["figures"]) == 11                    # 22 files: PNG and SVG
+    assert len(found["figures"]) == 14                    # 28 files: PNG and SVG (a roll-performance figure per condition)
     # the demo's spiral diverges slowly: the one row marked, in the report's words
     assert found["status"] == ["stable", "stable", "DIVERGENT"] and found["emphasis"] == [2]
 

@@ -271,6 +271,20 @@ def condition_section(item, data, units=DEFAULT) -> list:
                              f"Dutch roll damping against frequency with the {criteria.name} regions "
                              f"({criteria.edition}).{overlaid if variants else ''} Guidance only.", "dutch_roll",
                              {"result": single, "criteria": criteria, "variants": variants}))
+    roll = getattr(data.assessment, "roll", None)
+    if roll is not None:
+        from latdyn.assessment import NOTICE
+        from latdyn.roll_performance import roll_requirements
+
+        requirements = roll_requirements(data.assessment.assessments)
+        marked = "; ".join(f"{label}: {result}" for label, _, _, result in requirements) or "no requirement"
+        blocks.append(Figure(f"{name}-roll-performance",
+                             f"Roll performance: bank angle after the full roll command "
+                             f"(aileron {format_number(units.convert(roll.aileron, 'angle'), style='general')} "
+                             f"{units.label('angle')}), pedals free (graded) and rudder-coordinated (zero "
+                             f"sideslip, for comparison), from wings level in the linear model; marked: "
+                             f"{marked}. {NOTICE}", "roll_performance",
+                             {"roll": roll, "requirements": requirements}))
     for number, standard in enumerate(data.responses):
         article = "an" if standard.kind.startswith("aileron") else "a"
         limits = " and ".join(f"{format_number(units.convert(standard.limits[s], 'angle'), style='general')} "

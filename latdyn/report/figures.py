@@ -36,6 +36,12 @@ def _time_history(responses, readouts, modes, labels=None):
     return time_history_figure(responses, readouts, modes, labels=labels)
 
 
+def _roll_performance(roll, requirements, title=None):
+    from latdyn.plots.roll import roll_performance_figure
+
+    return roll_performance_figure(roll, requirements, title)
+
+
 def _identification(result):
     from latdyn.plots.identification import identification_figure
 
@@ -44,7 +50,7 @@ def _identification(result):
 
 #: ``Figure.kind`` -> function of the figure's arguments returning a matplotlib Figure.
 PLOTS = {"identification": _identification, "s_plane": _s_plane, "roll_spiral": _roll_spiral, "dutch_roll": _dutch_roll,
-         "time_history": _time_history}
+         "time_history": _time_history, "roll_performance": _roll_performance}
 
 
 def draw(spec):
