@@ -26,6 +26,7 @@ DEMO_FLIGHT_TEST := --data aircraft/flight-test/kestrel-k40-cruise-rudder-double
 demo: $(STAMP)
 	$(BIN)/latdyn modes aircraft/skylark-sv2.toml
 	$(BIN)/latdyn assess $(DEMO_BASE) $(DEMO_VARIANTS)
+	$(BIN)/latdyn sweep $(DEMO_BASE) --vary controls.aileron_deg=5:25:9 --condition approach
 	$(BIN)/latdyn sweep $(DEMO_YAW_DAMPER) --vary augmentation.yaw_damper_gain=0:0.2:11 --condition cruise
 	$(BIN)/latdyn turbulence $(DEMO_YAW_DAMPER) $(DEMO_GUST) --condition cruise
 	$(BIN)/latdyn report $(DEMO_BASE) $(addprefix --compare ,$(DEMO_VARIANTS)) -o reports/demo --force --progress $(DEMO_GUST)
