@@ -65,7 +65,7 @@ def test_batched_roll_grades_equal_the_assessment(name):
     aircraft = load_aircraft(ROOT / "aircraft" / name)
     result = assess(aircraft, ["mil-f-8785c"], equivalent=False)
     for condition in aircraft.conditions:
-        batch = run_batch(condition_set(aircraft, condition), ["mil-f-8785c"])
+        batch = run_batch(condition_set(aircraft, condition), ["mil-f-8785c"], roll=True)
         grades = batch.levels[("mil-f-8785c", "roll_performance")]
         expected = _roll_entry(result, condition.name)
         assert int(grades.level[0]) == expected.level
@@ -85,7 +85,7 @@ def test_batched_civil_rows_across_the_weight_split(pounds):
     condition = aircraft.condition("approach")
     mass = pounds * POUND
     batch = run_batch(condition_set(aircraft, condition, {"mass": [mass]}), ["14cfr23-157"],
-                      flight_phase="approach")
+                      flight_phase="approach", roll=True)
     grades = batch.levels[("14cfr23-157", "roll_performance")]
     heavier = dataclasses.replace(aircraft, mass=dataclasses.replace(aircraft.mass, mass=mass))
     entries, _ = assess_roll_performance(lateral_model(heavier, condition), condition.controls, ["14cfr23-157"],
@@ -101,10 +101,10 @@ def test_batch_over_masses_at_once_equals_each_mass_alone():
     aircraft = load_aircraft(DEMO)
     masses = np.array([4000.0, 6000.0, 6000.5, 9000.0]) * POUND
     together = run_batch(condition_set(aircraft, "approach", {"mass": masses}), ["14cfr23-157"],
-                         flight_phase="approach").levels[("14cfr23-157", "roll_performance")]
+                         flight_phase="approach", roll=True).levels[("14cfr23-157", "roll_performance")]
     for i, mass in enumerate(masses):
         alone = run_batch(condition_set(aircraft, "approach", {"mass": [mass]}), ["14cfr23-157"],
-                          flight_phase="approach").levels[("14cfr23-157", "roll_performance")]
+                          flight_phase="approach", roll=True).levels[("14cfr23-157", "roll_performance")]
         assert together.level[i] == alone.level[0]
         assert together.limit[i] == alone.limit[0]
         assert together.value[i] == pytest.approx(alone.value[0], rel=1e-12)
@@ -187,7 +187,7 @@ def test_rate_limit_sweep_slows_the_roll():
     abrupt = dataclasses.replace(aircraft.condition("approach").controls, aileron_rate=None)
     alone = condition_set(aircraft, dataclasses.replace(aircraft.condition("approach"), controls=abrupt))
     # a ramp of t_r = 18 deg / 1e4 deg/s lags the step by about t_r / 2 once the ramp is over
-    abrupt_time = run_batch(alone, ["mil-f-8785c"]).figures.time_to_bank[0]
+    abrupt_time = run_batch(alone, ["mil-f-8785c"], roll=True).figures.time_to_bank[0]
     assert times[2] - abrupt_time == pytest.approx(0.5 * 18.0 / 1e4, rel=0.05)
 
 
@@ -201,7 +201,7 @@ def test_no_aileron_travel_no_roll_grades():
 def test_uncertainty_includes_roll_performance():
     aircraft = load_aircraft(DEMO)
     result = uncertainty(aircraft, [("Cl_da", "relative", 0.15, "normal")], samples=400, seed=3,
-                         condition="approach", criteria_sets=["mil-f-8785c"])
+                         condition="approach", criteria_sets=["mil-f-8785c"], roll_performance=True)
     item = result.conditions[0]
     shares = item.probabilities[("mil-f-8785c", "roll_performance")]
     assert sum(shares.values()) == pytest.approx(1.0) and shares["not assessed"] == 0.0
@@ -217,7 +217,7 @@ def test_uncertainty_includes_roll_performance():
     specs = condition_uncertainties(aircraft, aircraft.condition("approach"), [("Cl_da", "relative", 0.15,
                                                                                "normal")])
     drawn = draw_samples(aircraft, aircraft.condition("approach"), specs, 400, 3)
-    levels = run_batch(condition_set(aircraft, "approach", drawn), ["mil-f-8785c"]).levels
+    levels = run_batch(condition_set(aircraft, "approach", drawn), ["mil-f-8785c"], roll=True).levels
     counts = np.bincount(levels[("mil-f-8785c", "roll_performance")].level, minlength=5)
     assert shares["level 1"] == counts[1] / 400 and shares["level 2"] == counts[2] / 400
 
@@ -258,3 +258,22 @@ def test_compare_shows_roll_performance_and_response_changes():
         assert (lcdp.base, lcdp.variant) == (a.departure.lcdp, b.departure.lcdp)
         verdicts = {c.mode: c for c in condition.levels}
         assert verdicts["roll_performance"].base_level == roll_a.level
+
+
+def test_roll_performance_in_a_study_where_asked_or_a_control_key_is_swept(capsys):
+    """Roll performance costs a time response a case: graded where a control key is swept or
+    where --roll-performance asks for it; the Cl_da travel for Level 1 then root-found."""
+    aircraft = load_aircraft(DEMO)
+    plain = sweep(aircraft, [("Cl_da", 0.05, 0.2, 4)], "approach", ["mil-f-8785c"])
+    assert ("mil-f-8785c", "roll_performance") not in plain.conditions[0].result.levels
+    asked = sweep(aircraft, [("Cl_da", 0.05, 0.2, 4)], "approach", ["mil-f-8785c"], roll_performance=True)
+    level1 = next(c for c in asked.crossings if c.mode == "roll_performance" and c.boundary == "level 1")
+    condition = aircraft.condition("approach")
+    exact = brentq(lambda x: _time_at(aircraft, dataclasses.replace(condition, derivatives=dataclasses.replace(
+        condition.derivatives, Cl_da=x)), 18.0).value - 1.8, 0.05, 0.2, xtol=1e-14)
+    assert level1.value == pytest.approx(exact, rel=1e-8)
+    assert main(["uncertainty", str(DEMO), "--vary", "Cl_da=±10%", "--samples", "50", "--seed", "1",
+                 "--condition", "approach", "--roll-performance", "--format", "json"]) == 0
+    document = json.loads(capsys.readouterr().out)
+    modes = [entry["mode"] for entry in document["conditions"][0]["levels"]]
+    assert "roll_performance" in modes

@@ -26,6 +26,10 @@ def add_arguments(parser):
                              "controls.aileron_rate_deg_s, controls.rudder_rate_deg_s; values in the "
                              "file's units and degrees")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
+    parser.add_argument("--roll-performance", action="store_true",
+                        help="grade roll performance at every point and root-find its level "
+                             "boundaries (automatic when a controls.* key is swept; tens of "
+                             "microseconds a point)")
     add_criteria(parser)
     add_format(parser)
     parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
@@ -43,7 +47,8 @@ def run(args):
 
     aircraft, criteria = load_study_inputs(args)
     ranges = [parse_range(text, args.file) for text in args.vary]
-    result = sweep(aircraft, ranges, args.condition, criteria, progress=True)
+    result = sweep(aircraft, ranges, args.condition, criteria, progress=True,
+                   roll_performance=True if args.roll_performance else None)
     points = math.prod(result.shape)
     if args.format == "json":
         # a large grid is written compactly (the C encoder; the indented one is ~20x slower)

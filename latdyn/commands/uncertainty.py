@@ -27,6 +27,10 @@ def add_arguments(parser):
                              "normal (1 sigma, default) or ,uniform (half-width) after a comma; "
                              "adds to or replaces the file's [uncertainty] tables")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
+    parser.add_argument("--roll-performance", action="store_true",
+                        help="also grade roll performance (where the file gives the aileron travel): "
+                             "its level probabilities and the time to the bank change; tens of "
+                             "microseconds a sample")
     add_criteria(parser)
     add_format(parser)
     parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
@@ -44,7 +48,7 @@ def run(args):
     aircraft, criteria = load_study_inputs(args)
     given = [parse_uncertainty(words.replace(",", " "), args.file) for words in args.vary]
     result = uncertainty(aircraft, given, args.samples, args.seed, args.condition, criteria,
-                         progress=True)
+                         progress=True, roll_performance=args.roll_performance)
     if args.format == "json":
         text = json.dumps(uncertainty_document(result), indent=2, allow_nan=False) + "\n"
     else:

@@ -23,7 +23,8 @@ density from the 1976 standard atmosphere, true airspeed held), ``alpha``,
 gains and time constants :data:`AUGMENTATION_PARAMETERS` [s, rad/rad], and
 the control travel and rate limits :data:`CONTROL_PARAMETERS` [rad, rad/s].
 
-Roll performance (:mod:`latdyn.roll_performance`) is graded for every case
+Roll performance (:mod:`latdyn.roll_performance`) is graded, where asked for
+(``roll=True``) or where the cases vary a control key (:func:`grades_roll`),
 against the roll-performance rows of the criteria sets where the aileron
 travel is known (the condition's ``[controls]`` or a varied
 ``controls.aileron``): the time to reach each grade's bank-angle change after
@@ -52,7 +53,7 @@ __all__ = [
     "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
     "condition_set", "geometry_names", "sweep_notes", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
     "takes_augmented_path", "closed_loop_matrices", "mode_arrays", "CONTROL_PARAMETERS", "roll_models",
-    "roll_levels",
+    "roll_levels", "grades_roll",
 ]
 
 #: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
@@ -622,7 +623,20 @@ def _load_sets(criteria_sets):
     return tuple(c if isinstance(c, CriteriaSet) else load_criteria(c) for c in criteria_sets)
 
 
-def _chunk_result(cases, criteria_sets, phase, path=False, levels_only=False):
+def grades_roll(cases: CaseSet, roll=None) -> bool:
+    """Whether a batch grades roll performance: ``roll`` True or False, or None (automatic):
+    where the cases vary a control travel or rate limit (:data:`CONTROL_PARAMETERS`).
+
+    Roll performance costs tens of microseconds a case (a time response searched for
+    the bank-angle change), against about one for the modes: a study grades it where it
+    is asked for or where the swept key can only change it.
+    """
+    if roll is None:
+        return any(key in cases.overrides for key in CONTROL_PARAMETERS)
+    return bool(roll)
+
+
+def _chunk_result(cases, criteria_sets, phase, path=False, levels_only=False, roll=None):
     if takes_augmented_path(cases):
         figures = mode_figures(_augmented_modes(cases))
     elif path:
@@ -636,7 +650,7 @@ def _chunk_result(cases, criteria_sets, phase, path=False, levels_only=False):
     altitude = cases.overrides.get("altitude", flight.altitude)
     levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,
                             phase, altitude, levels_only) if criteria_sets else {}
-    rolls, time, change = roll_levels(cases, criteria_sets, phase, levels_only)
+    rolls, time, change = roll_levels(cases, criteria_sets, phase, levels_only) if roll else ({}, None, None)
     if rolls:
         levels.update(rolls)
         figures = replace(figures, time_to_bank=time, bank_change=change)
@@ -752,7 +766,7 @@ def roll_levels(cases: CaseSet, criteria_sets, flight_phase=None, levels_only=Fa
 
 
 def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,
-                  progress=False, levels_only=False):
+                  progress=False, levels_only=False, roll=None):
     """Yield (start, stop, BatchResult) chunk by chunk (bounded memory for any N).
 
     Parameters
@@ -766,8 +780,11 @@ def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHU
         Show a tqdm progress bar on stderr.
     levels_only : bool
         Grade levels only (see :func:`assess_figures`).
+    roll : bool or None
+        Grade roll performance (:func:`roll_levels`); None: :func:`grades_roll`.
     """
     sets = _load_sets(criteria_sets)
+    roll = grades_roll(cases, roll)
     starts = range(0, cases.size, chunk)
     if progress:
         from tqdm import tqdm
@@ -777,14 +794,15 @@ def iterate_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHU
     for start in starts:
         stop = min(start + chunk, cases.size)
         yield start, stop, _chunk_result(cases.chunk(start, stop), sets, flight_phase,
-                                         levels_only=levels_only)
+                                         levels_only=levels_only, roll=roll)
 
 
 def run_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,
-              progress=False, path=False) -> BatchResult:
+              progress=False, path=False, roll=None) -> BatchResult:
     """Figures and levels of every case (chunked; results concatenated).
 
-    With ``path=True`` the cases are a path (a one-parameter sweep, in
+    ``roll``: grade roll performance (:func:`grades_roll`; default where the
+    cases vary a control key).  With ``path=True`` the cases are a path (a one-parameter sweep, in
     order) and the mode names follow the roots along it
     (:func:`latdyn.mode_tracking.track_modes`); then there is one chunk.
 
@@ -800,8 +818,9 @@ def run_batch(cases: CaseSet, criteria_sets=(), flight_phase=None, chunk=CHUNK,
     [1.158, 1.413, 1.722]
     """
     if path:
-        return _chunk_result(cases, _load_sets(criteria_sets), flight_phase, path=True)
-    parts = [r for _, _, r in iterate_batch(cases, criteria_sets, flight_phase, chunk, progress)]
+        return _chunk_result(cases, _load_sets(criteria_sets), flight_phase, path=True,
+                             roll=grades_roll(cases, roll))
+    parts = [r for _, _, r in iterate_batch(cases, criteria_sets, flight_phase, chunk, progress, roll=roll)]
     figures = _concatenate([p.figures for p in parts])
     levels = {key: _concatenate([p.levels[key] for p in parts]) for key in parts[0].levels}
     return BatchResult(figures, levels)

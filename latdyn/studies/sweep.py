@@ -22,7 +22,7 @@ import numpy as np
 
 from latdyn.errors import InputError
 from latdyn.roots import illinois
-from latdyn.studies.batch import condition_set, parameter_names, run_batch, sweep_notes
+from latdyn.studies.batch import condition_set, grades_roll, parameter_names, run_batch, sweep_notes
 from latdyn.studies.keys import StudyKey, file_units, resolve_key
 from latdyn.studies.rules import check_grid
 
@@ -203,7 +203,7 @@ def _overrides(axes, columns):
             for axis, column in zip(axes, columns)}
 
 
-def _margins_at(aircraft, condition, axes, moving, fixed, criteria_sets, wanted):
+def _margins_at(aircraft, condition, axes, moving, fixed, criteria_sets, wanted, roll=None):
     """Level margins at parameter values, all at once through the batched engine.
 
     ``moving`` (M,) values of the first parameter, ``fixed`` (M,) values of
@@ -213,7 +213,7 @@ def _margins_at(aircraft, condition, axes, moving, fixed, criteria_sets, wanted)
     """
     columns = [moving] + ([fixed] if len(axes) > 1 else [])
     cases = condition_set(aircraft, condition, _overrides(axes, columns))
-    levels = run_batch(cases, criteria_sets).levels
+    levels = run_batch(cases, criteria_sets, roll=roll).levels
     out = np.full(len(moving), np.nan)
     for index, (name, mode, grade_index) in enumerate(wanted):
         grades = levels.get((name, mode))
@@ -250,7 +250,7 @@ def _grid_brackets(values, margins):
     return points, brackets
 
 
-def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
+def find_crossings(aircraft, condition, axes, result, criteria_sets, roll=None) -> tuple:
     """Every level-boundary crossing along the first parameter of a sweep grid.
 
     For two parameters, along the first one on each grid line of the second.
@@ -294,7 +294,7 @@ def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
         x0 = np.array([item[5] for item in pending])
         x1 = np.array([item[6] for item in pending])
         both = _margins_at(aircraft, condition, axes, np.concatenate([x0, x1]),
-                           np.concatenate([fixed, fixed]), names, wanted + wanted)
+                           np.concatenate([fixed, fixed]), names, wanted + wanted, roll)
         f0, f1 = both[:len(pending)], both[len(pending):]
         valid = np.isfinite(f0) & np.isfinite(f1) & (f0 * f1 <= 0)
         keep = np.flatnonzero(valid)
@@ -303,7 +303,7 @@ def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
         def margin(index, points):
             chosen = keep[index]
             return _margins_at(aircraft, condition, axes, points, fixed[chosen], names,
-                               [wanted[k] for k in chosen])
+                               [wanted[k] for k in chosen], roll)
 
         roots = illinois(margin, x0[keep], x1[keep], f0[keep], f1[keep], tolerance[keep])
         for k, root in zip(keep, roots):
@@ -318,7 +318,8 @@ def find_crossings(aircraft, condition, axes, result, criteria_sets) -> tuple:
     return tuple(out)
 
 
-def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) -> SweepResult:
+def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False,
+          roll_performance=None) -> SweepResult:
     """Sweep one or two parameters over a grid for each condition (or the named one).
 
     Parameters
@@ -333,6 +334,9 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
         Default: :func:`latdyn.assessment.default_criteria` of the aircraft.
     progress : bool
         Progress bar on long runs.
+    roll_performance : bool or None
+        Grade roll performance at every point (and find its crossings); None:
+        where a control key is swept (:func:`latdyn.studies.batch.grades_roll`).
 
     Returns
     -------
@@ -368,8 +372,9 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False) 
         check_grid(aircraft, item, axes)
         mesh = np.meshgrid(*[axis.values for axis in axes], indexing="ij")
         cases = condition_set(aircraft, item, _overrides(axes, [m.ravel() for m in mesh]))
-        result = run_batch(cases, sets, progress=progress, path=len(axes) == 1)
-        crossings = find_crossings(aircraft, item, axes, result, sets)
+        roll = grades_roll(cases, roll_performance)
+        result = run_batch(cases, sets, progress=progress, path=len(axes) == 1, roll=roll)
+        crossings = find_crossings(aircraft, item, axes, result, sets, roll)
         items.append(ConditionSweep(item, result, crossings))
         notes += sweep_notes(aircraft, item, [axis.key.name for axis in axes])
     return SweepResult(aircraft, axes, sets, tuple(items), tuple(notes))

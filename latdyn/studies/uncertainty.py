@@ -7,7 +7,7 @@ Samples come from a numpy ``Generator`` (PCG64) seeded from the user's seed
 and the condition name, so a run is reproducible and a condition's samples
 do not depend on which other conditions run.  The samples go through the
 batched engine (:mod:`latdyn.studies.batch`), roll performance included where
-the aileron travel is known; the result per condition and
+asked for and the aileron travel is known; the result per condition and
 mode is the fraction of samples at each level (the level probability, with
 binomial standard error sqrt(p (1 - p) / n)) and percentiles of the mode
 figures.
@@ -255,7 +255,7 @@ class SampleFigures:
         return len(self.dutch_roll_frequency)
 
 
-def stream_samples(cases, criteria_sets, progress=False):
+def stream_samples(cases, criteria_sets, progress=False, roll=False):
     """Level counts and float32 figures of a case set, chunk by chunk (bounded memory).
 
     Returns
@@ -266,7 +266,8 @@ def stream_samples(cases, criteria_sets, progress=False):
     """
     counts = {}
     kept = {name: np.empty(cases.size, np.float32) for name in FIGURES}
-    for start, stop, part in iterate_batch(cases, criteria_sets, progress=progress, levels_only=True):
+    for start, stop, part in iterate_batch(cases, criteria_sets, progress=progress, levels_only=True,
+                                           roll=roll):
         for key, grades in part.levels.items():
             chunk = np.bincount(grades.level.astype(np.int64), minlength=LEVEL_SLOTS)
             counts[key] = counts.get(key, 0) + chunk
@@ -344,7 +345,7 @@ class UncertaintyResult:
 
 
 def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, criteria_sets=None,
-                progress=False) -> UncertaintyResult:
+                progress=False, roll_performance=False) -> UncertaintyResult:
     """Level probabilities and figure percentiles under the derivatives' uncertainty.
 
     Parameters
@@ -361,6 +362,10 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
     criteria_sets : iterable, optional
         Default :func:`latdyn.assessment.default_criteria`.
     progress : bool
+    roll_performance : bool
+        Also grade roll performance (where the aileron travel is known): its
+        level probabilities and the ``time_to_bank`` percentiles (tens of
+        microseconds a sample).
 
     Returns
     -------
@@ -402,7 +407,8 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
                              item.name)
         if kept < samples:  # samples that leave the file's rules never reach the solver
             drawn = {k: v[valid] for k, v in drawn.items()}
-        counts, figures = stream_samples(condition_set(aircraft, item, drawn), sets, progress)
+        counts, figures = stream_samples(condition_set(aircraft, item, drawn), sets, progress,
+                                         roll_performance)
         probabilities = {}
         for (name, mode), count in counts.items():
             criteria = next(c for c in sets if c.name == name)
