@@ -278,12 +278,16 @@ def condition_section(item, data, units=DEFAULT) -> list:
 
         requirements = roll_requirements(data.assessment.assessments)
         marked = "; ".join(f"{label}: {result}" for label, _, _, result in requirements) or "no requirement"
+        travel = f"{format_number(units.convert(roll.aileron, 'angle'), style='general')} {units.label('angle')}"
+        rate = ("" if roll.aileron_rate is None else
+                f" at {format_number(units.convert(roll.aileron_rate, 'angle'), style='general')} "
+                f"{units.label('angle')}/s")
+        pair = (" and rudder-coordinated (zero sideslip, for comparison)" if roll.bank_coordinated is not None
+                else "")
         blocks.append(Figure(f"{name}-roll-performance",
-                             f"Roll performance: bank angle after the full roll command "
-                             f"(aileron {format_number(units.convert(roll.aileron, 'angle'), style='general')} "
-                             f"{units.label('angle')}), pedals free (graded) and rudder-coordinated (zero "
-                             f"sideslip, for comparison), from wings level in the linear model; marked: "
-                             f"{marked}. {NOTICE}", "roll_performance",
+                             f"Roll performance: bank angle after the full roll command (aileron {travel}"
+                             f"{rate}), pedals free (graded){pair}, from wings level in the linear model; "
+                             f"marked: {marked}. {NOTICE}", "roll_performance",
                              {"roll": roll, "requirements": requirements}))
     for number, standard in enumerate(data.responses):
         article = "an" if standard.kind.startswith("aileron") else "a"
