@@ -158,7 +158,13 @@ class LevelChange:
 
 @dataclass(frozen=True)
 class InputChange:
-    """One input value that differs between base and variant (SI)."""
+    """One input value that differs between base and variant (SI, angles in degrees).
+
+    ``quantity`` names the display quantity of a dimensional value
+    (:class:`latdyn.display.UnitSystem`: ``"mass"``, ``"speed"``, ...), or
+    None for a value shown as it is (a coefficient, 1/s, degrees); the
+    tables convert by it.  It is not part of the JSON document.
+    """
 
     group: str   # "derivatives (as given)", "primed dimensional", "mass", "flight condition"
     key: str
@@ -167,9 +173,10 @@ class InputChange:
     variant: float | str | None
     change: float | None
     change_percent: float | None
+    quantity: str | None = None
 
     def as_dict(self):
-        return {f.name: getattr(self, f.name) for f in fields(self)}
+        return {f.name: getattr(self, f.name) for f in fields(self) if f.name != "quantity"}
 
 
 @dataclass(frozen=True)
@@ -234,31 +241,39 @@ def _verdict(base, variant):
 
 
 def _inputs_as_given(aircraft, condition):
+    """{(group, key): (SI unit, value, display quantity or None)} of one condition's inputs."""
+    from latdyn.display import DERIVATIVE_QUANTITIES
+
     derivatives = condition.derivatives
     out = {}
     names = [f.name for f in fields(derivatives) if f.name not in ("axes", "primed")]
     label = "derivatives (as given)" if isinstance(derivatives, NondimensionalDerivatives) \
         else "dimensional (as given)"
     for name in names:
-        unit = "1/rad" if label.startswith("derivatives") else DIMENSIONAL_UNITS.get(name, "")
-        out[(label, name)] = (unit, getattr(derivatives, name))
-    out[(label, "axes")] = ("", derivatives.axes)
+        dimensional = not label.startswith("derivatives")
+        unit = DIMENSIONAL_UNITS.get(name, "") if dimensional else "1/rad"
+        out[(label, name)] = (unit, getattr(derivatives, name),
+                              DERIVATIVE_QUANTITIES.get(name) if dimensional else None)
+    out[(label, "axes")] = ("", derivatives.axes, None)
     primed = primed_derivatives(aircraft, condition)
     for name in DIMENSIONAL_NAMES:
-        out[("primed dimensional", name)] = (DIMENSIONAL_UNITS[name], getattr(primed, name))
+        out[("primed dimensional", name)] = (DIMENSIONAL_UNITS[name], getattr(primed, name),
+                                             DERIVATIVE_QUANTITIES.get(name))
     if aircraft.mass is not None:
-        for name, unit in (("mass", "kg"), ("Ixx", "kg m^2"), ("Izz", "kg m^2"), ("Ixz", "kg m^2")):
-            out[("mass", name)] = (unit, getattr(aircraft.mass, name))
+        for name, unit, quantity in (("mass", "kg", "mass"), ("Ixx", "kg m^2", "inertia"),
+                                     ("Izz", "kg m^2", "inertia"), ("Ixz", "kg m^2", "inertia")):
+            out[("mass", name)] = (unit, getattr(aircraft.mass, name), quantity)
     if aircraft.geometry is not None:
-        out[("geometry", "wing_area")] = ("m^2", aircraft.geometry.wing_area)
-        out[("geometry", "span")] = ("m", aircraft.geometry.span)
+        out[("geometry", "wing_area")] = ("m^2", aircraft.geometry.wing_area, "area")
+        out[("geometry", "span")] = ("m", aircraft.geometry.span, "length")
     flight = condition.flight
-    for name, unit, value in (("speed", "m/s", flight.speed), ("altitude", "m", flight.altitude),
-                              ("density", "kg/m^3", flight.density),
-                              ("alpha", "deg", math.degrees(flight.alpha)),
-                              ("gamma", "deg", math.degrees(flight.gamma)),
-                              ("category", "", flight.category)):
-        out[("flight condition", name)] = (unit, value)
+    for name, unit, value, quantity in (
+            ("speed", "m/s", flight.speed, "speed"), ("altitude", "m", flight.altitude, "length"),
+            ("density", "kg/m^3", flight.density, "density"),
+            ("alpha", "deg", math.degrees(flight.alpha), None),
+            ("gamma", "deg", math.degrees(flight.gamma), None),
+            ("category", "", flight.category, None)):
+        out[("flight condition", name)] = (unit, value, quantity)
     return out
 
 
@@ -267,8 +282,8 @@ def _input_changes(base_aircraft, base_condition, variant_aircraft, variant_cond
     b = _inputs_as_given(variant_aircraft, variant_condition)
     changes = []
     for key in list(dict.fromkeys([*a, *b])):
-        unit, value_a = a.get(key, (b[key][0], None))
-        _, value_b = b.get(key, (unit, None))
+        unit, value_a, quantity = a.get(key, (b[key][0], None, b[key][2]))
+        value_b = b[key][1] if key in b else None
         if value_a == value_b:
             continue
         if isinstance(value_a, float) and isinstance(value_b, float) and \
@@ -276,7 +291,7 @@ def _input_changes(base_aircraft, base_condition, variant_aircraft, variant_cond
             continue
         numeric = isinstance(value_a, (int, float)) and isinstance(value_b, (int, float))
         change, percent = relative_change(value_a, value_b) if numeric else (None, None)
-        changes.append(InputChange(key[0], key[1], unit, value_a, value_b, change, percent))
+        changes.append(InputChange(key[0], key[1], unit, value_a, value_b, change, percent, quantity))
     return tuple(changes)
 
 

@@ -23,7 +23,8 @@ import math
 from dataclasses import dataclass, field
 
 __all__ = ["DASH", "ROUND_OFF", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
-           "DEFAULT", "SYSTEMS", "unit_system", "SIGNAL_QUANTITIES"]
+           "DEFAULT", "SYSTEMS", "unit_system", "SIGNAL_QUANTITIES", "DERIVATIVE_QUANTITIES",
+           "derivative_unit"]
 
 #: Text of a figure that does not apply (or is not finite).
 DASH = "-"
@@ -120,7 +121,7 @@ class UnitSystem:
     """Display units by physical quantity.
 
     Quantities: ``angle``, ``angular_rate``, ``load_factor``, ``length``,
-    ``area``, ``speed``, ``mass``, ``inertia``, ``density``, ``pressure``,
+    ``area``, ``speed``, ``acceleration``, ``mass``, ``inertia``, ``density``, ``pressure``,
     ``time``, ``frequency`` (rad/s), ``rate`` (1/s).  A quantity not listed
     is shown in SI with the label the caller gives.
 
@@ -156,6 +157,7 @@ SI = UnitSystem("SI", {
     "length": DisplayUnit("m"),
     "area": DisplayUnit("m^2"),
     "speed": DisplayUnit("m/s"),
+    "acceleration": DisplayUnit("m/s^2"),
     "mass": DisplayUnit("kg"),
     "inertia": DisplayUnit("kg m^2"),
     "density": DisplayUnit("kg/m^3"),
@@ -176,6 +178,7 @@ US = UnitSystem("US", {
     "length": DisplayUnit("ft", 1.0 / _FOOT),
     "area": DisplayUnit("ft^2", 1.0 / _FOOT**2),
     "speed": DisplayUnit("ft/s", 1.0 / _FOOT),
+    "acceleration": DisplayUnit("ft/s^2", 1.0 / _FOOT),
     "mass": DisplayUnit("slug", 1.0 / _SLUG),
     "inertia": DisplayUnit("slug ft^2", 1.0 / (_SLUG * _FOOT**2)),
     "density": DisplayUnit("slug/ft^3", _FOOT**3 / _SLUG),
@@ -208,3 +211,19 @@ def unit_system(name=None, aircraft=None) -> UnitSystem:
 SIGNAL_QUANTITIES = {"beta": "angle", "p": "angular_rate", "r": "angular_rate", "phi": "angle",
                      "psi": "angle", "ny": "load_factor", "aileron": "angle", "rudder": "angle",
                      "aileron_surface": "angle", "rudder_surface": "angle"}
+
+#: Display quantity of the primed dimensional derivatives whose unit holds a length (side force
+#: per rate in m/s, per control in m/s^2); the others are 1/s or 1/s^2 in any unit system.
+DERIVATIVE_QUANTITIES = {"Y_p": "speed", "Y_r": "speed", "Y_da": "acceleration", "Y_dr": "acceleration"}
+
+
+def derivative_unit(units, name, si_label) -> DisplayUnit:
+    """The display unit of a primed dimensional derivative (``si_label`` where no length enters).
+
+    Examples
+    --------
+    >>> derivative_unit(US, "Y_da", "m/s^2").label, derivative_unit(US, "N_r", "1/s").label
+    ('ft/s^2', '1/s')
+    """
+    quantity = DERIVATIVE_QUANTITIES.get(name)
+    return units.unit(quantity) if quantity else DisplayUnit(si_label)

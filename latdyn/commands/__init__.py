@@ -12,6 +12,9 @@ Command-line conventions (every command follows them; see DEVELOPERS.md):
   each time, so it never swallows a file;
 * ``--format table|markdown|csv|json`` on every command that prints results
   (JSON in SI units and radians);
+* ``--units SI|US`` on every command that prints dimensional values: text,
+  Markdown and CSV in that unit system, by default the one each aircraft
+  file is written in (JSON stays SI);
 * ``-o/--output`` on every command that writes a file or folder (older
   option names stay as aliases);
 * bad input: one line on stderr and exit status 2; ``--fail-below LEVEL``
@@ -19,7 +22,7 @@ Command-line conventions (every command follows them; see DEVELOPERS.md):
 """
 
 __all__ = ["load_study_inputs", "notice_csv", "FORMATS", "add_format", "add_criteria",
-           "criteria_names", "add_fail_below", "report_below"]
+           "criteria_names", "add_fail_below", "report_below", "add_units", "display_units"]
 
 #: Output formats of the commands that print results.
 FORMATS = ("table", "markdown", "csv", "json")
@@ -35,6 +38,27 @@ def add_format(parser, formats=FORMATS, extra=""):
     parser.add_argument("--format", choices=formats, default="table",
                         help="output format: " + ", ".join(formats) + " (default table; json in "
                              "SI units and radians)" + extra)
+
+
+def add_units(parser, default="those of each file"):
+    """``--units SI|US``: the display units of text, Markdown and CSV (JSON stays SI)."""
+    parser.add_argument("--units", choices=("SI", "US"),
+                        help=f"display units of the text, Markdown and CSV outputs (default: "
+                             f"{default}; JSON stays SI)")
+
+
+def display_units(args, aircraft=None):
+    """The :class:`latdyn.display.UnitSystem` of ``--units``, else the aircraft file's.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> display_units(SimpleNamespace(units="US")).name, display_units(SimpleNamespace(units=None)).name
+    ('US', 'SI')
+    """
+    from latdyn.display import unit_system
+
+    return unit_system(getattr(args, "units", None), aircraft)
 
 
 def add_criteria(parser):

@@ -1,5 +1,6 @@
 """``latdyn assess FILE... [--criteria SET]... [--format table|markdown|csv|json]
-[--condition NAME] [--flight-phase CONDITION=PHASE]... [-o FOLDER] [--fail-below LEVEL]``:
+[--units SI|US] [--condition NAME] [--flight-phase CONDITION=PHASE]... [-o FOLDER]
+[--fail-below LEVEL]``:
 the handling-qualities summary table.
 
 Default criteria: MIL-F-8785C for a file with ``airplane_class``, both civil
@@ -16,11 +17,12 @@ __all__ = ["add_arguments", "run", "parse_flight_phases", "render_assessment", "
            "worst_lines"]
 
 def add_arguments(parser):
-    from latdyn.commands import add_criteria, add_fail_below, add_format
+    from latdyn.commands import add_criteria, add_fail_below, add_format, add_units
 
     parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) (TOML)")
     add_criteria(parser)
     add_format(parser)
+    add_units(parser)
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     parser.add_argument("--flight-phase", action="append", default=[], metavar="CONDITION=PHASE",
                         help="sub-phase of a condition for bands that hold only in some phases "
@@ -109,19 +111,22 @@ def _title(result):
     return text
 
 
-def render_assessment(result, style="table") -> str:
+def render_assessment(result, style="table", units=None) -> str:
     """The summary table of one aircraft as plain text ("table") or "markdown".
 
     Both carry the guidance-only notice, the criteria sets with their
-    editions, the numbered sources and the notes.
+    editions, the numbered sources and the notes; ``units`` (a
+    :class:`latdyn.display.UnitSystem`, default SI) are the display units.
     """
+    from latdyn.display import DEFAULT
     from latdyn.assessment import NOTICE
     from latdyn.report.render import escape_markdown, render_markdown_table, render_text
     from latdyn.report.tables import (ASSESSMENT_TEXT_VIEW, assessment_sources, assessment_table,
                                       roll_response_table)
 
+    units = units or DEFAULT
     table = assessment_table(result).select(ASSESSMENT_TEXT_VIEW)
-    response = roll_response_table(result).select(RESPONSE_TEXT_VIEW)
+    response = roll_response_table(result, units).select(RESPONSE_TEXT_VIEW)
     sources = assessment_sources(result)
     notes = list(result.notes) + _notes(result)
     criteria = [f"{c.name}: {c.edition}" for c in result.criteria]
@@ -155,7 +160,7 @@ def render_assessment(result, style="table") -> str:
     return "\n".join(lines)
 
 
-def _equivalent_text(result, style):
+def _equivalent_text(result, style, units=None):
     """The equivalent-system section of an aircraft with augmented conditions ("" otherwise)."""
     view = result.equivalent_view()
     if view is None:
@@ -169,23 +174,29 @@ def _equivalent_text(result, style):
              "M = (20/n) sum(dB^2 + 0.01745 deg^2): an indicator; the equivalent delays tau_e are shown, "
              "not graded (their limits are recalled with low confidence).")
     if style == "markdown":
-        return "\n\n" + "\n\n".join([words, render_markdown_table(table), render_assessment(view, style)])
-    return "\n\n" + "\n".join([words, render_text(table), "", render_assessment(view, style)])
+        return "\n\n" + "\n\n".join([words, render_markdown_table(table), render_assessment(view, style, units)])
+    return "\n\n" + "\n".join([words, render_text(table), "", render_assessment(view, style, units)])
 
 
-def render_assessments(results, style="table") -> str:
+def render_assessments(results, style="table", units=None) -> str:
     """All aircraft in one text, Markdown or CSV document.
 
     CSV: ``#`` comment lines first (the notice, each criteria set and its
     edition), then one header row and one row per condition, criteria set
-    and mode, with raw SI numbers.
+    and mode, with raw numbers (the governing figures are times, rates,
+    ratios and angles: the same in every unit system).  ``units``: one
+    :class:`latdyn.display.UnitSystem` per result (or one for all; default
+    SI).
     """
     from latdyn.assessment import NOTICE
     from latdyn.report.render import render_csv
     from latdyn.report.tables import ASSESSMENT_CSV_VIEW, assessment_table
 
+    if not isinstance(units, (list, tuple)):
+        units = [units] * len(results)
     if style != "csv":
-        return "\n\n".join(render_assessment(r, style) + _equivalent_text(r, style) for r in results) + "\n"
+        return "\n\n".join(render_assessment(r, style, u) + _equivalent_text(r, style, u)
+                             for r, u in zip(results, units)) + "\n"
     lines = [f"# {NOTICE}"]
     for result in results:
         for c in result.criteria:
@@ -203,7 +214,7 @@ def run(args):
     from latdyn.criteria_sets import load_criteria
     from latdyn.errors import InputError
 
-    from latdyn.commands import criteria_names
+    from latdyn.commands import criteria_names, display_units
 
     phases = parse_flight_phases(args.flight_phase)
     names = criteria_names(args)
@@ -212,9 +223,10 @@ def run(args):
         from latdyn.output_files import check_output_folder
 
         check_output_folder(args.plots, "--plots")
-    results = []
+    results, units = [], []
     for path in args.files:
         aircraft = load_aircraft(path)
+        units.append(display_units(args, aircraft))
         if args.condition:
             aircraft = replace(aircraft, conditions=(aircraft.condition(args.condition),))
         names = {c.name for c in aircraft.conditions}
@@ -235,7 +247,7 @@ def run(args):
         text = json.dumps(documents[0] if len(documents) == 1 else documents, indent=2,
                           allow_nan=False) + "\n"
     else:
-        text = render_assessments(results, args.format)
+        text = render_assessments(results, args.format, units)
     written = []
     if args.plots:
         from latdyn.plots.levels import write_assessment_figures

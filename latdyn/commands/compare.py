@@ -1,5 +1,6 @@
 """``latdyn compare BASE VARIANT... [--criteria SET]... [--format table|markdown|csv|json]
-[--fail-below LEVEL]``."""
+[--units SI|US] [--fail-below LEVEL]``: the input differences in the base file's units by
+default."""
 
 from __future__ import annotations
 
@@ -12,22 +13,25 @@ __all__ = ["add_arguments", "run", "render_comparisons"]
 def add_arguments(parser):
     parser.add_argument("base", metavar="BASE", help="the base aircraft file")
     parser.add_argument("variants", nargs="+", metavar="VARIANT", help="variant aircraft file(s)")
-    from latdyn.commands import add_criteria, add_fail_below, add_format
+    from latdyn.commands import add_criteria, add_fail_below, add_format, add_units
 
     add_criteria(parser)
     add_format(parser)
+    add_units(parser, "those of the base file")
     add_fail_below(parser, "a variant takes a check that was not")
 
 
-def render_comparisons(comparisons, style):
-    """Text of the comparisons in the table, markdown or csv style."""
+def render_comparisons(comparisons, style, units=None):
+    """Text of the comparisons in the table, markdown or csv style (``units``: display units,
+    default SI)."""
     from latdyn.assessment import NOTICE
+    from latdyn.display import DEFAULT
     from latdyn.report.render import render
     from latdyn.report.tables import comparison_tables
 
     parts = []
     for comparison in comparisons:
-        level_table, input_table, figure_table = comparison_tables(comparison)
+        level_table, input_table, figure_table = comparison_tables(comparison, units=units or DEFAULT)
         levels = level_table.rows
         criteria = ", ".join(f"{c.name} ({c.edition})" for c in comparison.criteria)
         head = [f"Comparison: {comparison.variant} ({comparison.variant_file})",
@@ -44,7 +48,7 @@ def render_comparisons(comparisons, style):
         if style == "markdown":
             head = [head[0], "", head[1].strip(), "", f"> {NOTICE}", "", *head[3:]]
         sections = [("Mode figures", figure_table), ("Levels", level_table),
-                    ("Input differences", input_table)]
+                    (f"Input differences ({(units or DEFAULT).name} units)", input_table)]
         body = []
         for title, table in sections:
             if style == "csv":
@@ -72,7 +76,9 @@ def run(args):
     if args.format == "json":
         text = json.dumps(comparison_document(comparisons), indent=2, allow_nan=False) + "\n"
     else:
-        text = render_comparisons(comparisons, args.format)
+        from latdyn.commands import display_units
+
+        text = render_comparisons(comparisons, args.format, display_units(args, base))
     sys.stdout.write(text)
     if args.fail_below:
         from latdyn.commands import report_below

@@ -19,9 +19,9 @@ def add_arguments(parser):
     add_format(parser)
     parser.add_argument("--json", action="store_const", const="json", dest="format",
                         help="the same as --format json")
-    parser.add_argument("--units", choices=("SI", "US"),
-                        help="display units of the tables (default: those of each file; JSON "
-                             "stays SI)")
+    from latdyn.commands import add_units
+
+    add_units(parser)
     parser.add_argument("--shapes", action="store_true",
                         help="also print the mode shapes (eigenvector magnitudes and phases)")
 
@@ -90,7 +90,7 @@ def run(args):
     from dataclasses import replace
 
     from latdyn.aircraft import load_aircraft
-    from latdyn.display import unit_system
+    from latdyn.commands import display_units
     from latdyn.results import analyse_aircraft, modes_document, provenance_line
     from latdyn.report.blocks import Column
     from latdyn.report.render import escape_markdown, render
@@ -119,7 +119,7 @@ def run(args):
                  + (f"  class {aircraft.airplane_class}" if aircraft.airplane_class else ""))
         lines = [f"## {escape_markdown(title)}" if markdown else title]
         for result in results:
-            heading = condition_heading(result, unit_system(args.units, aircraft))
+            heading = condition_heading(result, display_units(args, aircraft))
             lines += ["", f"### {escape_markdown(heading)}" if markdown else heading]
             provenance = provenance_line(result.condition)
             ambiguity = result.modes.ambiguity

@@ -12,7 +12,7 @@ __all__ = ["add_arguments", "run"]
 
 def add_arguments(parser):
     parser.add_argument("files", nargs="+", metavar="FILE", help="aircraft file(s) analysed in full")
-    from latdyn.commands import add_criteria
+    from latdyn.commands import add_criteria, add_units
 
     parser.add_argument("--compare", action="append", default=[], metavar="VARIANT",
                         help="a variant file compared with the first FILE; repeat the option "
@@ -20,9 +20,7 @@ def add_arguments(parser):
     parser.add_argument("-o", "--output", metavar="FOLDER",
                         help="report folder (default reports/<first file's name>)")
     add_criteria(parser)
-    parser.add_argument("--units", choices=("SI", "US"),
-                        help="display units of the tables (default: those of the first file; "
-                             "results.json stays SI)")
+    add_units(parser, "those of the first file")
     for key, words in (("title", "document title (default: from the aircraft names)"),
                        ("number", "document number"), ("revision", "document revision"),
                        ("date", "document date"), ("prepared", "prepared by"),

@@ -1,5 +1,5 @@
 """``latdyn respond FILE... [--condition NAME]... [--input KIND|FILE.csv]... [-o OUT]...
-[--format table|markdown|csv|json] [--transfer-functions] ...``: time responses.
+[--format table|markdown|csv|json] [--units SI|US] [--transfer-functions] ...``: time responses.
 
 Simulates each chosen condition (of one or more aircraft files) with the
 same input, prints the read-outs beside the eigenvalue figures, and writes
@@ -63,8 +63,9 @@ def add_arguments(parser):
     parser.add_argument("--transfer-functions", action="store_true",
                         help="the transfer functions in factored form (and, with --format json, "
                              "gain, zeros and poles); alone, without a simulation")
-    from latdyn.commands import add_format
+    from latdyn.commands import add_format, add_units
 
+    add_units(parser)
     add_format(parser, extra="; csv prints the time history, or the transfer functions when "
                              "there is no simulation")
 
@@ -233,8 +234,8 @@ def _transfer_lines(model, modes):
     return lines, transfers, ratios
 
 
-def _summary(label, aircraft, response, readout, modes, settings):
-    from latdyn.display import SI, SIGNAL_QUANTITIES
+def _summary(label, aircraft, response, readout, modes, settings, units):
+    from latdyn.display import SIGNAL_QUANTITIES
     from latdyn.responses import STANDARD_LIMITS
 
     lines = [f"{label}  ({aircraft.file})"]
@@ -247,13 +248,13 @@ def _summary(label, aircraft, response, readout, modes, settings):
     peaks = []
     for peak in readout.peaks:
         quantity = SIGNAL_QUANTITIES.get(peak.signal)
-        value = SI.convert(peak.value, quantity) if quantity else peak.value
-        unit = SI.label(quantity) if quantity else ""
+        value = units.convert(peak.value, quantity) if quantity else peak.value
+        unit = units.label(quantity) if quantity else ""
         peaks.append(f"{peak.signal} {_format(value)} {unit} at {peak.time:.2f} s")
     lines.append("  peaks: " + " | ".join(peaks))
     lines += _dutch_lines(readout, modes)
     lines.append(f"  bank angle at the end ({readout.residual_time:g} s): "
-                 f"{_format(math.degrees(readout.residual_bank_angle))} deg")
+                 f"{_format(units.convert(readout.residual_bank_angle, 'angle'))} {units.label('angle')}")
     for warning in readout.warnings:
         lines.append(f"  warning: {warning}")
     return lines
@@ -405,8 +406,10 @@ def run(args):
             if lines:
                 lines.append("")
             if simulating:
+                from latdyn.commands import display_units
+
                 lines += _summary(label, aircraft, responses[index], readouts[index], modes[index],
-                                  settings)
+                                  settings, display_units(args, aircraft))
             else:
                 lines.append(f"{label}  ({aircraft.file})")
             model, run = models[index], limited[index]

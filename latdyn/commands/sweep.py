@@ -1,6 +1,6 @@
 """``latdyn sweep FILE --vary KEY=START:STOP:COUNT [--vary KEY=START:STOP:COUNT] [--condition NAME]
-[--criteria SET]... [--format table|markdown|csv|json] [-o OUT]``: parameter sweeps with level
-boundaries.
+[--criteria SET]... [--format table|markdown|csv|json] [--units SI|US] [-o OUT]``: parameter
+sweeps with level boundaries (values typed in the file's units, shown in the display units).
 
 Everything is computed before anything is printed or written, so a bad
 input leaves no partial output.
@@ -15,7 +15,7 @@ import sys
 __all__ = ["add_arguments", "run"]
 
 def add_arguments(parser):
-    from latdyn.commands import add_criteria, add_format
+    from latdyn.commands import add_criteria, add_format, add_units
 
     parser.add_argument("file", metavar="FILE", help="aircraft file (TOML)")
     parser.add_argument("--vary", action="append", required=True, metavar="KEY=START:STOP:COUNT",
@@ -32,6 +32,7 @@ def add_arguments(parser):
                              "microseconds a point)")
     add_criteria(parser)
     add_format(parser)
+    add_units(parser, "those of the file")
     parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
                         help="write the figures: OUT (mode figures and levels, or the level map "
                              "for two parameters) and OUT-root-locus for one parameter (--plot is "
@@ -40,7 +41,7 @@ def add_arguments(parser):
 
 def run(args):
     from latdyn.assessment import NOTICE
-    from latdyn.commands import load_study_inputs, notice_csv
+    from latdyn.commands import display_units, load_study_inputs, notice_csv
     from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import sweep_summary_tables, sweep_table
     from latdyn.studies.sweep import SUMMARY_POINTS, parse_range, sweep, sweep_document
@@ -55,27 +56,28 @@ def run(args):
         indent = 2 if points <= SUMMARY_POINTS * 25 else None
         text = json.dumps(sweep_document(result), indent=indent, allow_nan=False) + "\n"
     else:
+        shown = result.in_units(display_units(args, aircraft).name)
         if args.format == "csv":
-            text = render(sweep_table(result), "csv") + notice_csv()
+            text = render(sweep_table(shown), "csv") + notice_csv()
         else:
             markdown = args.format == "markdown"
             style = args.format
             if points > SUMMARY_POINTS:
-                levels, ranges = sweep_summary_tables(result)
+                levels, ranges = sweep_summary_tables(shown)
                 table = "\n\n".join([
                     f"{points} grid points per condition: a summary (every point: --format csv or "
                     "--format json).", render(levels, style), render(ranges, style)])
             else:
-                table = render(sweep_table(result), style)
+                table = render(sweep_table(shown), style)
             title = f"{aircraft.name}  ({aircraft.file})"
             lines = [f"## {escape_markdown(title)}" if markdown else title, "", table, ""]
-            units = {axis.key.text: axis.key.unit for axis in result.axes}
+            units = {axis.key.text: axis.key.unit for axis in shown.axes}
             bullet = "- " if markdown else "  "
-            if result.crossings:
+            if shown.crossings:
                 lines.append("Level-boundary crossings (root-found on the margin):")
                 if markdown:
                     lines.append("")
-                lines += [bullet + c.words(units.get(c.parameter, "")) for c in result.crossings]
+                lines += [bullet + c.words(units.get(c.parameter, "")) for c in shown.crossings]
             else:
                 lines.append("No level-boundary crossing in the swept range.")
             lines += [f"note: {note}" for note in result.notes]

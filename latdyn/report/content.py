@@ -201,7 +201,7 @@ def comparison_section(data, units=DEFAULT) -> list:
               Paragraph(f"Base: {base.name} ({base.file}). Conditions are matched by name. " + NOTICE,
                         "small")]
     for index, comparison in enumerate(data.comparisons, start=1):
-        levels, inputs, figures = comparison_tables(comparison, f"comparison-{index}")
+        levels, inputs, figures = comparison_tables(comparison, f"comparison-{index}", units)
         moves = [f"{row['condition']}: {row['mode']} ({row['criteria']}) {row['base']} → {row['variant']}, "
                  f"{row['verdict'].lower()}" for row in (levels.rows[i] for i in levels.emphasis)]
         blocks += [Heading(3, f"{comparison.variant}", f"variant-{index}"),

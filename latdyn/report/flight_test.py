@@ -91,7 +91,7 @@ def identification_content(aircraft, result, predicted_modes, identified_modes, 
                "modes": {"predicted": [m.as_dict() for m in predicted_modes],
                          "identified": [m.as_dict() for m in identified_modes]}}
     if comparison is not None:
-        levels, inputs, figures = comparison_tables(comparison, f"{name}-regrading")
+        levels, inputs, figures = comparison_tables(comparison, f"{name}-regrading", units)
         report.add(Heading(2, "Re-graded with the identified derivatives", "regrading"),
                    Paragraph(f"The file's aircraft (base) against the identified variant "
                              f"({os.path.basename(variant_file) if variant_file else 'identified'}, in this "

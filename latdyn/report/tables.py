@@ -534,10 +534,13 @@ def summary_table(assessments, name="summary", caption="Worst result per conditi
 _FIGURE_GROUPS = {"roll_response": "Response to roll control", "departure": "Departure indicators"}
 
 
-def comparison_tables(comparison, prefix="comparison") -> tuple:
+def comparison_tables(comparison, prefix="comparison", units=DEFAULT) -> tuple:
     """(levels, inputs, figures) tables of a :class:`~latdyn.compare.Comparison`.
 
     Level changes that moved read IMPROVED / DEGRADED and are emphasised.
+    The input differences are in the display units of ``units`` (a
+    dimensional value by its ``quantity``; coefficients, 1/s and degrees as
+    they are); the percentages are the same in every unit system.
     """
     from latdyn.assessment import level_words
 
@@ -559,9 +562,13 @@ def comparison_tables(comparison, prefix="comparison") -> tuple:
                            "variant": level_words(item.variant_level, item.variant_pass),
                            "verdict": verdict})
         for item in condition.inputs:
+            quantity = getattr(item, "quantity", None)
+            unit = units.unit(quantity) if quantity else None
+            shown = (lambda value: value) if unit is None else unit
             inputs.append({"condition": condition.name, "group": item.group, "key": item.key,
-                           "unit": item.unit, "base": item.base, "variant": item.variant,
-                           "change": item.change, "change_percent": item.change_percent})
+                           "unit": unit.label if unit else item.unit, "base": shown(item.base),
+                           "variant": shown(item.variant), "change": shown(item.change),
+                           "change_percent": item.change_percent})
     change = (Column("change", "Change", signed=True),
               Column("change_percent", "Change", "%", digits=3, signed=True))
     where = (Column("condition", "Condition"),)
@@ -570,7 +577,7 @@ def comparison_tables(comparison, prefix="comparison") -> tuple:
         Table(f"{prefix}-levels", "Levels, base against variant",
               where + (Column("mode", "Mode"), Column("criteria", "Criteria")) + values
               + (Column("verdict", "Verdict"),), tuple(levels), tuple(moved)),
-        Table(f"{prefix}-inputs", "Input differences (what caused the change)",
+        Table(f"{prefix}-inputs", f"Input differences (what caused the change; {units.name} units)",
               where + (Column("group", "Group"), Column("key", "Key"), Column("unit", "Unit"))
               + values + change, tuple(inputs)),
         Table(f"{prefix}-figures", "Mode figures, base against variant",

@@ -16,7 +16,7 @@ Levels are guidance only (:data:`latdyn.assessment.NOTICE`).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -170,6 +170,27 @@ class SweepResult:
         """Parameter values of every case, (N, number of axes) [typed units]."""
         mesh = np.meshgrid(*[axis.values for axis in self.axes], indexing="ij")
         return np.stack([m.ravel() for m in mesh], axis=1)
+
+    def in_units(self, units) -> "SweepResult":
+        """The same sweep with its parameter values (grid and crossings) in "SI" or "US" units.
+
+        Angles stay in degrees and the mode figures do not change: only the
+        typed units of the swept keys (:class:`~latdyn.studies.keys.StudyKey`)
+        are exchanged, by the factors of :mod:`latdyn.units`.
+        """
+        keys = {axis.key.text: (axis.key, replace(axis.key, units=units)) for axis in self.axes}
+
+        def convert(text, value):
+            typed, shown = keys[text]
+            return shown.from_si(typed.to_si(value))
+
+        axes = tuple(SweepAxis(keys[axis.key.text][1], convert(axis.key.text, axis.values))
+                     for axis in self.axes)
+        conditions = tuple(replace(item, crossings=tuple(
+            replace(c, value=float(convert(c.parameter, c.value)),
+                    at=None if c.at is None else {k: float(convert(k, v)) for k, v in c.at.items()})
+            for c in item.crossings)) for item in self.conditions)
+        return replace(self, axes=axes, conditions=conditions)
 
     def __repr__(self):
         axes = " x ".join(f"{a.key.text} {a.values[0]:.4g} to {a.values[-1]:.4g} ({len(a.values)})"
