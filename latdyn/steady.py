@@ -871,11 +871,11 @@ def engine_out(balance, engines, aileron_max=None, rudder_max=None, stall_speeds
     level = cases[failed]
     for case, words in ((level, "wings level"), (banked, f"{math.degrees(bank):g} deg bank")):
         if case.state == "below":
-            notes.append(f"{words}: the controls hold straight flight down to {speeds[0]:.1f} m/s "
-                         "(no minimum control speed in the range)")
+            notes.append(f"{words}: the controls hold straight flight down to {speeds[0] / _KNOT:.0f} kt "
+                         "TAS (no minimum control speed in the range)")
         elif case.state == "above":
             notes.append(f"{words}: {CONTROL_NAMES[0] if case.limited_by == 'rudder' else 'aileron'} "
-                         f"out of travel up to {speeds[-1]:.1f} m/s (the top of the range)")
+                         f"out of travel up to {speeds[-1] / _KNOT:.0f} kt TAS (the top of the range)")
     if level.state == "no_travel":
         notes.append("no control travel ([controls] rudder_deg, aileron_deg): minimum control speed "
                      "not computed")

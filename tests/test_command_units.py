@@ -15,7 +15,7 @@ import pathlib
 import pytest
 
 from latdyn.cli import main
-from us_units import agree_after_conversion, us_file
+from us_units import agree_after_conversion, agree_csv, us_file
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 AIRCRAFT = ROOT / "aircraft"
@@ -53,6 +53,20 @@ COMMANDS = {
     "compare": (["compare", "{f}/kestrel-k40.toml", "{f}/kestrel-k40-tip-tanks.toml"], True),
     "sweep-speed": (["sweep", "{f}/kestrel-k40.toml", "--condition", "cruise", "--vary", "{speed}"], True),
     "respond": (["respond", "{f}/kestrel-k40.toml", "--condition", "all", "--transfer-functions"], False),
+    "steady": (["steady", "{f}/kestrel-k40.toml", "--bank-deg", "3"], True),
+    "steady-csv": (["steady", "{f}/kestrel-k40.toml", "--format", "csv"], True),
+    "compare-csv": (["compare", "{f}/kestrel-k40.toml", "{f}/kestrel-k40-tip-tanks.toml", "--format", "csv"],
+                    True),
+    "sweep-csv": (["sweep", "{f}/kestrel-k40.toml", "--condition", "cruise", "--vary", "{speed}", "--format",
+                   "csv"], True),
+    "steady-markdown": (["steady", "{f}/kestrel-k40.toml", "--condition", "approach", "--format",
+                         "markdown"], True),
+    "turbulence": (["turbulence", "{f}/kestrel-k40-tip-tanks-yaw-damper.toml", "--sigma-v", "3",
+                    "--scale-length", "533"], True),
+    "estimate": (["estimate", "{f}/heron-h2-geometry.toml"], True),
+    "identify": (["identify", "{f}/kestrel-k40.toml", "--condition", "cruise", "--method", "equation-error",
+                  "--data", str(AIRCRAFT / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv"),
+                  "--data", str(AIRCRAFT / "flight-test" / "kestrel-k40-cruise-aileron-3211.csv")], True),
 }
 
 
@@ -67,12 +81,50 @@ def arguments(command, folder):
 def test_us_file_agrees_with_the_si_file_after_conversion(command, files, capsys, monkeypatch):
     si = output(capsys, monkeypatch, files, arguments(command, "si"))
     us = output(capsys, monkeypatch, files, arguments(command, "us"))
-    checked = agree_after_conversion(si.replace("si/", "us/"), us)
+    agree = agree_csv if "csv" in command else agree_after_conversion
+    checked = agree(si.replace("si/", "us/"), us)
     if COMMANDS[command][1]:
         assert checked > 0, "no value in US units"
     # --units SI on the US file gives the SI file's output
     forced = output(capsys, monkeypatch, files, arguments(command, "us") + ["--units", "SI"])
-    agree_after_conversion(si.replace("si/", "us/"), forced, rel=1e-9)
+    agree(si.replace("si/", "us/"), forced)
     # and --units US on the SI file the US file's
     forced = output(capsys, monkeypatch, files, arguments(command, "si") + ["--units", "US"])
-    agree_after_conversion(forced.replace("si/", "us/"), us, rel=1e-9, convert=False)
+    agree(forced.replace("si/", "us/"), us, convert=False)
+
+
+JSON_COMMANDS = {
+    "compare": ["compare", "{f}/kestrel-k40.toml", "{f}/kestrel-k40-tip-tanks.toml"],
+    "steady": ["steady", "{f}/kestrel-k40.toml", "--condition", "cruise"],
+    "identify": COMMANDS["identify"][0],
+}
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("command", list(JSON_COMMANDS), ids=list(JSON_COMMANDS))
+def test_json_stays_si(command, files, capsys, monkeypatch):
+    """--units changes no number of the JSON document, and the US file's JSON is the SI file's."""
+    def document(folder, *extra):
+        argv = [a.format(f=folder) for a in JSON_COMMANDS[command]] + ["--format", "json", *extra]
+        text = output(capsys, monkeypatch, files, argv).replace(f"{folder}/", "")
+        return json.loads(text)
+
+    si = document("si")
+    assert document("si", "--units", "US") == si
+    us = document("us")
+
+    def close(a, b):
+        if isinstance(a, dict):
+            assert a.keys() == b.keys()
+            for key in a:
+                close(a[key], b[key])
+        elif isinstance(a, list):
+            assert len(a) == len(b)
+            for x, y in zip(a, b):
+                close(x, y)
+        elif isinstance(a, float):
+            assert b == pytest.approx(a, rel=1e-6, abs=1e-9)
+        else:
+            assert a == b
+
+    close(si, us)

@@ -116,13 +116,28 @@ _TOKEN = re.compile(rf"(?<![\w.^])({_NUMBER})(?:(\s*)({_UNITS})(?![\w^/]))?|"
 _DASHES = re.compile(r"^-+(  -+)*$")
 
 
+_MARKDOWN_RULE = re.compile(r"^\|(\s*:?-+:?\s*\|)+$")
+
+
 def _dashes(line):
-    return bool(line.strip()) and bool(_DASHES.match(line.strip()))
+    """The rule under a table's heading (terminal text or Markdown)."""
+    line = line.strip()
+    return bool(line) and bool(_DASHES.match(line) or _MARKDOWN_RULE.match(line))
+
+
+def _cells(line, spans):
+    """The cells of a table row: by column spans (terminal text) or between pipes (Markdown)."""
+    if spans is None:
+        return [c.strip() for c in line.strip()[1:-1].split(" | ")]
+    return [line[a:spans[k + 1][0] if k + 1 < len(spans) else None].strip()
+            for k, (a, _) in enumerate(spans)]
 
 
 def _table(lines, index):
-    """A table whose dash line is lines[index]: (column spans, unit per column, unit column)."""
-    spans = [m.span() for m in re.finditer(r"-+", lines[index])]
+    """A table whose rule is lines[index]: (column spans or None for Markdown, unit per column,
+    index of the "Unit" column)."""
+    spans = None if lines[index].strip().startswith("|") else [
+        m.span() for m in re.finditer(r"-+", lines[index])]
     titles = _cells(lines[index - 1], spans)
     units = []
     for title in titles:
@@ -132,17 +147,22 @@ def _table(lines, index):
     return spans, units, unit_column
 
 
-def _cells(line, spans):
-    return [line[a:spans[k + 1][0] if k + 1 < len(spans) else None].strip()
-            for k, (a, _) in enumerate(spans)]
-
-
 def _is_row(line, spans):
-    """A row of the table: two spaces before every column that the line reaches."""
+    """A row of the table: two spaces before every column that the line reaches (text), or
+    between pipes (Markdown)."""
+    if spans is None:
+        return line.strip().startswith("|") and line.strip().endswith("|")
     return bool(line.strip()) and all(len(line) <= a or line[a - 2:a] == "  " for a, _ in spans[1:])
 
 
-def _compare_line(si, us, default_unit=None, rel=2e-3, convert=True):
+def _last_digit(text):
+    """The size of one unit in the last printed digit of a number ("0.0368" -> 1e-4)."""
+    mantissa, _, exponent = text.lower().partition("e")
+    decimals = len(mantissa.partition(".")[2])
+    return 10.0 ** (int(exponent or 0) - decimals)
+
+
+def _compare_line(si, us, default_unit=None, rel=1e-9, convert=True):
     """Numbers of the US text times the SI size of their unit equal the SI text's; words equal."""
     si_tokens, us_tokens = list(_TOKEN.finditer(si)), list(_TOKEN.finditer(us))
     assert len(si_tokens) == len(us_tokens), (si, us)
@@ -160,19 +180,21 @@ def _compare_line(si, us, default_unit=None, rel=2e-3, convert=True):
         if b.group(4):
             continue
         x, y = float(a.group(1)), float(b.group(1)) * size
-        assert math.isclose(x, y, rel_tol=rel, abs_tol=1e-12), (si, us, x, y)
+        # each printed number is rounded to its last digit: half of it on either side
+        allowed = 0.5 * (_last_digit(a.group(1)) + _last_digit(b.group(1)) * size) * (1 + 1e-9)
+        assert abs(x - y) <= allowed + rel * abs(x), (si, us, x, y)
         checked += unit in US_TO_SI
     return checked
 
 
-def agree_after_conversion(si_text, us_text, rel=2e-3, convert=True):
+def agree_after_conversion(si_text, us_text, rel=1e-9, convert=True):
     """Assert that an SI output and a US output of the same aircraft agree after conversion.
 
     Line by line: the same words and unit words (US for SI); each number of
     the US output, multiplied by the SI size of its unit (written after it,
     in its table column's heading ``[unit]``, or in the row's ``Unit``
-    column), equals the SI output's number to the display precision
-    (``rel``).  Returns the count of US-unit values checked, so that a
+    column), equals the SI output's number to the printed digits (half a
+    unit in the last digit of each, plus ``rel`` relative).  Returns the count of US-unit values checked, so that a
     caller can require some.  ``convert=False``: both texts in the same
     units (the same words and numbers to ``rel``).
     """
@@ -192,14 +214,49 @@ def agree_after_conversion(si_text, us_text, rel=2e-3, convert=True):
             checked += _compare_line(si, us, rel=rel, convert=convert)
             continue
         (si_spans, _, _), (us_spans, units, unit_column) = tables
-        si_cells, us_cells = _cells(si, si_spans), _cells(us, us_spans)
-        row_unit = us_cells[unit_column] if unit_column is not None else None
-        for k, (cell_si, cell_us) in enumerate(zip(si_cells, us_cells)):
-            if k == unit_column:
-                assert cell_si == (US_TO_SI.get(cell_us, (cell_us,))[0] if convert else cell_us), (si, us)
-                checked += cell_us in US_TO_SI
-                continue
-            alone = re.fullmatch(_NUMBER, cell_us) is not None  # a value, not words with numbers
-            checked += _compare_line(cell_si, cell_us, (units[k] or row_unit) if alone else None, rel,
-                                     convert)
+        checked += _compare_row(_cells(si, si_spans), _cells(us, us_spans), units, unit_column, rel,
+                                convert)
+    return checked
+
+
+def _compare_row(si_cells, us_cells, units, unit_column, rel, convert):
+    """One table row, cell by cell: a cell holding one number in its column's or its row's unit."""
+    assert len(si_cells) == len(us_cells), (si_cells, us_cells)
+    checked = 0
+    row_unit = us_cells[unit_column] if unit_column is not None else None
+    for k, (a, b) in enumerate(zip(si_cells, us_cells)):
+        if k == unit_column:
+            assert a == (US_TO_SI.get(b, (b,))[0] if convert else b), (si_cells, us_cells)
+            checked += b in US_TO_SI
+            continue
+        alone = re.fullmatch(_NUMBER, b) is not None  # a value, not words with numbers
+        checked += _compare_line(a, b, (units[k] or row_unit) if alone else None, rel, convert)
+    return checked
+
+
+def agree_csv(si_text, us_text, rel=1e-9, convert=True):
+    """:func:`agree_after_conversion` for CSV outputs: ``#`` lines as text; each block's first row
+    is its header (a ``unit`` column gives each row's unit, a heading's ``[unit]`` its column's)."""
+    import csv
+
+    si_lines, us_lines = si_text.splitlines(), us_text.splitlines()
+    assert len(si_lines) == len(us_lines), (len(si_lines), len(us_lines))
+    checked, header = 0, None
+    for si, us in zip(si_lines, us_lines):
+        if not us.strip() or us.startswith("#"):
+            header = None
+            checked += _compare_line(si, us, rel=rel, convert=convert)
+            continue
+        si_cells, us_cells = next(csv.reader([si])), next(csv.reader([us]))
+        assert len(si_cells) == len(us_cells), (si, us)
+        if header is None or len(us_cells) != len(header):  # a new block (the notice, say)
+            header = [c.strip() for c in us_cells]
+            for a, b in zip(si_cells, us_cells):
+                checked += _compare_line(a, b, rel=rel, convert=convert)
+            continue
+        # a heading's [unit]; the raw CSV's "knots" column holds airspeeds in knots in either system
+        units = ["kt" if h == "knots" else (re.search(r"\[([^\]]+)\]", h) or [None, None])[1]
+                 for h in header]
+        unit_column = next((k for k, h in enumerate(header) if h.lower() == "unit"), None)
+        checked += _compare_row(si_cells, us_cells, units, unit_column, rel, convert)
     return checked

@@ -1,5 +1,5 @@
-"""``latdyn estimate FILE... [--condition NAME] [--format table|markdown|csv|json] [-o OUT.toml]``:
-the component build-up of the derivatives of each condition.
+"""``latdyn estimate FILE... [--condition NAME] [--format table|markdown|csv|json] [--units SI|US]
+[-o OUT.toml]``: the component build-up of the derivatives of each condition.
 
 Everything is computed (and ``-o`` checked) before anything is printed or
 written, so a bad input leaves no partial output.
@@ -20,12 +20,16 @@ def add_arguments(parser):
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     parser.add_argument("--format", choices=FORMATS, default="table",
                         help="output format (default table)")
+    from latdyn.commands import add_units
+
+    add_units(parser)
     parser.add_argument("-o", "--output", metavar="OUT.toml",
                         help="write an aircraft file that extends FILE with the derivatives as "
                              "used (written and estimated) in [condition.derivatives] blocks")
 
 
-def _text(aircraft_list, builds, markdown):
+def _text(aircraft_list, builds, markdown, args):
+    from latdyn.commands import display_units
     from latdyn.estimation.documents import method_lines
     from latdyn.report.render import render_markdown_table, render_text
     from latdyn.report.tables import buildup_table
@@ -37,7 +41,7 @@ def _text(aircraft_list, builds, markdown):
         parts.append(f"## {heading}" if markdown else heading)
         shown = None
         for build in aircraft_builds:
-            table = buildup_table(build)
+            table = buildup_table(build, units=display_units(args, aircraft))
             parts += ["", f"### {table.caption}" if markdown else table.caption, "", render(table)]
             lines = method_lines(build)
             if lines != shown:
@@ -93,7 +97,7 @@ def run(args):
     elif args.format == "csv":
         text = _csv(aircraft_list, builds)
     else:
-        text = _text(aircraft_list, builds, args.format == "markdown")
+        text = _text(aircraft_list, builds, args.format == "markdown", args)
     if args.output:
         from latdyn.output_files import atomic_output, check_outputs
 

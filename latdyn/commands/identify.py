@@ -34,6 +34,9 @@ def add_arguments(parser):
     parser.add_argument("--method", choices=("output-error", "equation-error"), default="output-error",
                         help="output error (maximum likelihood, default) or equation error (least squares)")
     parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default table)")
+    from latdyn.commands import add_units
+
+    add_units(parser, "those of the file")
     parser.add_argument("-o", "--output", metavar="OUT.toml",
                         help="write a variant aircraft file (extends FILE) with the identified derivatives")
     parser.add_argument("--plot", metavar="OUT", help="write measured against identified responses (.png, .svg, .pdf)")
@@ -80,6 +83,7 @@ def identify_document(aircraft, result, predicted_modes, identified_modes) -> di
 
 def run(args):
     from latdyn.aircraft import load_aircraft
+    from latdyn.commands import display_units
     from latdyn.errors import InputError
     from latdyn.flight_data import read_flight_csv
     from latdyn.identification import identified_model, identify, write_variant
@@ -124,7 +128,8 @@ def run(args):
                                     inputs=args.data)
     primary = result.nondimensional if result.nondimensional is not None else result.derivatives
     dimensional = result.nondimensional is None
-    derivatives = identified_derivative_table(primary, dimensional=dimensional)
+    units = display_units(args, aircraft)
+    derivatives = identified_derivative_table(primary, dimensional=dimensional, units=units)
     if args.format == "json":
         text = json.dumps(identify_document(aircraft, result, predicted_modes, identified_modes),
                           indent=2, allow_nan=False) + "\n"
@@ -140,12 +145,14 @@ def run(args):
                  "Standard errors: Cramer-Rao bounds corrected for coloured residuals "
                  "(equation error: least-squares standard errors).", ""]
         lines += ["Derivatives " + ("(non-dimensional, per rad; rates per p b/2V, r b/2V)"
-                                    if not dimensional else f"(primed dimensional, SI, {result.axes} axes)"),
+                                    if not dimensional else
+                                    f"(primed dimensional, {units.name} units, {result.axes} axes)"),
                   render(derivatives, style), ""]
         if not dimensional:
-            lines += [f"Primed dimensional derivatives ({result.axes} axes, SI)",
-                      render(identified_derivative_table(result.derivatives, dimensional=True), style), ""]
-        lines += ["Fit per measured channel", render(identification_fit_table(result), style), ""]
+            lines += [f"Primed dimensional derivatives ({result.axes} axes, {units.name} units)",
+                      render(identified_derivative_table(result.derivatives, dimensional=True, units=units),
+                             style), ""]
+        lines += ["Fit per measured channel", render(identification_fit_table(result, units), style), ""]
         lines += ["Modes of the file's model and of the identified model",
                   render(identified_mode_table(predicted_modes, identified_modes), style), ""]
         if fit.get("max_correlation"):

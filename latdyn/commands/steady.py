@@ -1,6 +1,6 @@
 """``latdyn steady FILE... [--condition NAME] [--sideslip-deg B] [--bank-deg PHI]
-[--format table|markdown|csv|json] [--plot OUT]``: steady sideslips, crosswind capability
-and engine-out control of each flight condition.
+[--format table|markdown|csv|json] [--units SI|US] [--plot OUT]``: steady sideslips, crosswind
+capability and engine-out control of each flight condition (airspeeds in the display units and knots).
 
 Everything is computed before anything is printed or written, so a bad file
 leaves no partial output.
@@ -30,6 +30,9 @@ def add_arguments(parser):
                         help="fraction of the roll control a crosswind sideslip may use "
                              "(default 0.75, MIL-F-8785C 3.3.7.1)")
     parser.add_argument("--format", choices=FORMATS, default="table", help="output format (default table)")
+    from latdyn.commands import add_units
+
+    add_units(parser)
     parser.add_argument("--plot", metavar="OUT",
                         help="write the figure (controls against sideslip, engine-out controls "
                              "against airspeed; PNG, SVG or PDF by suffix)")
@@ -56,6 +59,7 @@ def _angles(values, option, file):
 def run(args):
     from latdyn.aircraft import load_aircraft
     from latdyn.assessment import NOTICE
+    from latdyn.commands import display_units
     from latdyn.errors import InputError
     from latdyn.report.render import render
     from latdyn.report.tables import steady_table
@@ -90,7 +94,8 @@ def run(args):
 
         from latdyn.report.render import render_csv
 
-        blocks = [render_csv(steady_table(r, aircraft=a.name)) for a, r in computed]
+        blocks = [render_csv(steady_table(r, units=display_units(args, a), aircraft=a.name))
+                  for a, r in computed]
         text = blocks[0] + "".join(b.split("\n", 1)[1] for b in blocks[1:]) + notice_csv()
     else:
         parts = []
@@ -99,7 +104,8 @@ def run(args):
             if args.format == "markdown":
                 heading = f"## {heading}"
             style = "markdown" if args.format == "markdown" else "text"
-            parts.append(heading + "\n\n" + render(steady_table(results), style))
+            parts.append(heading + "\n\n" + render(steady_table(results, units=display_units(args, aircraft)),
+                                                     style))
         text = "\n\n".join(parts) + "\n\n" + NOTICE + "\n"
     if args.plot:
         from latdyn.plots import save_figure

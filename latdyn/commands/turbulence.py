@@ -1,6 +1,7 @@
 """``latdyn turbulence FILE --sigma-v S --scale-length L [--condition NAME]
-[--format table|markdown|csv|json] [-o OUT] [--csv OUT --duration T --dt DT --seed N]``: RMS
-response to Dryden lateral turbulence.
+[--format table|markdown|csv|json] [--units SI|US] [-o OUT] [--csv OUT --duration T --dt DT
+--seed N]``: RMS response to Dryden lateral turbulence (the gust given in m/s and m, shown in the
+display units).
 
 All the work is done by latdyn.turbulence (and latdyn.augmentation for an augmented aircraft);
 this module checks the options, prints and writes.
@@ -29,9 +30,10 @@ def add_arguments(parser):
                         help="vertical scale length for the roll-rate gust [m] (default L_v)")
     parser.add_argument("--no-rotary", action="store_true", help="leave out the roll- and yaw-rate gusts")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
-    from latdyn.commands import add_format
+    from latdyn.commands import add_format, add_units
 
     add_format(parser)
+    add_units(parser, "those of the file")
     parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
                         help="write the output spectra (.png, .pdf, .svg; --plot is the older name)")
     parser.add_argument("--csv", metavar="OUT",
@@ -119,11 +121,20 @@ def run(args):
         for path in written:
             print(f"wrote {path}", file=sys.stderr)
     else:
+        from latdyn.commands import display_units
+        from latdyn.display import format_number
+
+        units = display_units(args, aircraft)
+
+        def shown(value, quantity):
+            return f"{format_number(units.convert(value, quantity))} {units.label(quantity)}"
+
         lines = [f"{aircraft.name}  ({aircraft.file})",
-                 f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2): sigma_v {args.sigma_v:g} m/s, "
-                 f"L_v {args.scale_length:g} m"
+                 f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2): sigma_v {shown(args.sigma_v, 'speed')}, "
+                 f"L_v {shown(args.scale_length, 'length')}"
                  + ("" if args.no_rotary else "; with roll- and yaw-rate gusts (forms from memory), "
-                    f"sigma_w {gust.sigma_w or args.sigma_v:g} m/s, L_w {gust.scale_length_w or args.scale_length:g} m"),
+                    f"sigma_w {shown(gust.sigma_w or args.sigma_v, 'speed')}, "
+                    f"L_w {shown(gust.scale_length_w or args.scale_length, 'length')}"),
                  "RMS from the stationary covariance (Lyapunov); a neutral or divergent mode (usually the "
                  "spiral) is left out and named: the pilot holds the bank against it.",
                  render(turbulence_table(entries), args.format)]

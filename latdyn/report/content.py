@@ -253,7 +253,7 @@ def condition_section(item, data, units=DEFAULT) -> list:
         blocks.append(Paragraph(result.condition.flight.description))
     blocks += [flight_condition_table(result, f"{name}-flight-condition", units),
                given_table(item.aircraft, result, f"{name}-as-given"),
-               *buildup_blocks(data.buildup, name),
+               *buildup_blocks(data.buildup, name, units),
                Paragraph(f"Roots: {result.modes.pattern}."),
                *([Paragraph(f"Mode naming ambiguous: {result.modes.ambiguity.reason}. Both readings are "
                             "graded; the assessment below keeps the more conservative and its notes "
@@ -317,7 +317,7 @@ def condition_section(item, data, units=DEFAULT) -> list:
     return blocks
 
 
-def buildup_blocks(build, name) -> list:
+def buildup_blocks(build, name, units=DEFAULT) -> list:
     """The component build-up of a condition's derivatives: the table, the methods and their
     sources, and the methods used outside their range (none without geometry tables)."""
     if build is None:
@@ -325,7 +325,7 @@ def buildup_blocks(build, name) -> list:
     from latdyn.estimation.documents import method_lines
     from latdyn.report.tables import buildup_table
 
-    blocks = [buildup_table(build, f"{name}-buildup"),
+    blocks = [buildup_table(build, f"{name}-buildup", units),
               Paragraph("Methods (derivatives - component: method (source)): "
                         + "; ".join(method_lines(build)) + ".", "small")]
     blocks += [Paragraph(f"Estimate note: {text}", "warning") for text in build.warnings]

@@ -65,10 +65,11 @@ def identification_content(aircraft, result, predicted_modes, identified_modes, 
     primary = result.nondimensional if result.nondimensional is not None else result.derivatives
     report.add(Heading(2, "Identified derivatives", "derivatives"),
                identified_derivative_table(primary, dimensional=result.nondimensional is None,
-                                           name=f"{name}-derivatives"))
+                                           name=f"{name}-derivatives", units=units))
     if result.nondimensional is not None:
-        report.add(identified_derivative_table(result.derivatives, dimensional=True, name=f"{name}-dimensional",
-                                               caption=f"Primed dimensional derivatives ({result.axes} axes, SI)"))
+        report.add(identified_derivative_table(
+            result.derivatives, dimensional=True, name=f"{name}-dimensional", units=units,
+            caption=f"Primed dimensional derivatives ({result.axes} axes, {units.name} units)"))
     if fit.get("max_correlation"):
         pair = fit["max_correlation"]
         report.add(Paragraph(f"Largest correlation between derivatives: {pair['value']:+.3f} "

@@ -308,15 +308,19 @@ def derivative_table(result, name="derivatives") -> Table:
 
 # ------------------------------------------------------------------ estimation
 
-def buildup_caption(build) -> str:
-    """Caption of a build-up table: axes, units, the condition's lift coefficient."""
+def buildup_caption(build, units=DEFAULT) -> str:
+    """Caption of a build-up table: axes, units, the condition's airspeed (display units) and lift
+    coefficient."""
     lift = (f", C_L = {format_number(build.lift_coefficient)}" if build.lift_coefficient is not None
             else "")
+    speed = getattr(getattr(build.condition, "flight", None), "speed", None)
+    at = (f", V = {format_number(units.convert(speed, 'speed'))} {units.label('speed')}"
+          if speed is not None else "")
     return (f"Component build-up of the derivatives of \"{build.condition.name}\" "
-            f"({build.axes} axes, per rad, rates per p b/2V and r b/2V{lift})")
+            f"({build.axes} axes, per rad, rates per p b/2V and r b/2V{at}{lift})")
 
 
-def buildup_table(build, name="buildup") -> Table:
+def buildup_table(build, name="buildup", units=DEFAULT) -> Table:
     """One row per estimated derivative: each component's contribution, the estimate, the
     value written in the file (if any), their difference, the value used and its source
     (given, estimated, default)."""
@@ -337,7 +341,7 @@ def buildup_table(build, name="buildup") -> Table:
                Column("total", "Estimate"), Column("given", "Given"),
                Column("difference", "Estimate - given", signed=True), Column("used", "Used"),
                Column("source", "Source"))
-    return Table(name, buildup_caption(build), columns, tuple(rows))
+    return Table(name, buildup_caption(build, units), columns, tuple(rows))
 
 
 # ------------------------------------------------------------------ assessment
@@ -1017,15 +1021,18 @@ _CHANNEL_NAMES = {"beta": "sideslip", "p": "roll rate", "r": "yaw rate", "phi": 
 
 
 def identified_derivative_table(estimates, dimensional=False, name="identified-derivatives",
-                                caption="Identified derivatives beside the prediction") -> Table:
+                                caption="Identified derivatives beside the prediction", units=DEFAULT) -> Table:
     """Each derivative identified from flight test beside the file's prediction, with its bound.
 
     Parameters
     ----------
     estimates : sequence of latdyn.identification.ParameterEstimate
     dimensional : bool
-        Primed dimensional derivatives (SI units by name) rather than non-dimensional (1/rad).
+        Primed dimensional derivatives rather than non-dimensional (1/rad): in the display units
+        of ``units`` (side force per rate and per control hold a length; the others are 1/s or
+        1/s^2 in any unit system).
     """
+    from latdyn.display import DisplayUnit, derivative_unit
     from latdyn.model import DIMENSIONAL_UNITS
 
     columns = (Column("derivative", "Derivative"), Column("unit", "Unit"), Column("value", "Identified"),
@@ -1042,10 +1049,11 @@ def identified_derivative_table(estimates, dimensional=False, name="identified-d
         else:
             status = "identified"
         difference = None if item.fixed or item.predicted is None else item.value - item.predicted
-        rows.append({"derivative": item.name,
-                     "unit": DIMENSIONAL_UNITS[item.name] if dimensional else "1/rad",
-                     "value": item.value, "standard_error": item.standard_error,
-                     "predicted": item.predicted, "difference": difference,
+        unit = (derivative_unit(units, item.name, DIMENSIONAL_UNITS[item.name]) if dimensional
+                else DisplayUnit("1/rad"))
+        rows.append({"derivative": item.name, "unit": unit.label,
+                     "value": unit(item.value), "standard_error": unit(item.standard_error),
+                     "predicted": unit(item.predicted), "difference": unit(difference),
                      "sigmas": item.difference_in_standard_errors, "status": status})
         if not item.fixed and not item.identifiable:
             emphasis.append(len(rows) - 1)
