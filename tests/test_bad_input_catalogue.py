@@ -4,7 +4,7 @@ no output file written.
 
 ``aircraft/*.toml`` run through ``latdyn modes``, ``criteria/*.toml`` through ``latdyn assess
 --criteria`` (with ``--plots``) and ``csv/*.csv`` through ``latdyn respond --input`` (with
-``--csv``, ``--plot`` and ``--bode``).  Each catalogue file states its expected message in its
+``--csv``, ``--plot`` and ``--bode``), ``document/*.toml`` through ``latdyn report --document``.  Each catalogue file states its expected message in its
 first line, ``# expect: <regex>``; a file that cannot hold that line (an empty file) has its
 expectation in ``FIXED`` below.
 """
@@ -20,6 +20,7 @@ CATALOGUE = pathlib.Path(__file__).parent / "bad_inputs"
 AIRCRAFT = sorted((CATALOGUE / "aircraft").glob("*.toml"))
 CRITERIA = sorted((CATALOGUE / "criteria").glob("*.toml"))
 CSV = sorted((CATALOGUE / "csv").glob("*.csv"))
+DOCUMENTS = sorted((CATALOGUE / "document").glob("*.toml"))
 DEMO = str(pathlib.Path(__file__).resolve().parent.parent / "aircraft" / "kestrel-k40.toml")
 FIXED = {
     "aircraft/empty.toml": r"expected a TOML aircraft description, found an empty file",
@@ -77,6 +78,15 @@ def test_bad_input_csv_from_catalogue(path, tmp_path, capsys):
     outputs = ["--csv", str(tmp_path / "out.csv"), "--plot", str(tmp_path / "out.png"),
                "--bode", str(tmp_path / "bode.svg")]
     status, out, err = run_cli(["respond", DEMO, "--input", str(path), *outputs], capsys)
+    assert_refused(status, out, err, path)
+    assert str(path) in err
+    assert list(tmp_path.iterdir()) == []
+
+
+@pytest.mark.parametrize("path", DOCUMENTS, ids=[p.stem for p in DOCUMENTS])
+def test_bad_document_file_from_catalogue(path, tmp_path, capsys):
+    status, out, err = run_cli(["report", DEMO, "--document", str(path), "-o", str(tmp_path / "report")],
+                               capsys)
     assert_refused(status, out, err, path)
     assert str(path) in err
     assert list(tmp_path.iterdir()) == []

@@ -1,6 +1,7 @@
 """``latdyn report FILE... [--compare VARIANT]... [-o reports/NAME] [--criteria SET]... [--units SI|US]
-[--title T] [--number N] [--revision R] [--date D] [--prepared NAME] [--checked NAME]
-[--approved NAME] [--force]``."""
+[--document FILE.toml] [--title T] [--number N] [--revision R] [--date D] [--prepared NAME]
+[--checked NAME] [--approved NAME] [--force]``: the document block from a small table file
+(latdyn.report.document), its entries overridden by the options."""
 
 from __future__ import annotations
 
@@ -21,6 +22,10 @@ def add_arguments(parser):
                         help="report folder (default reports/<first file's name>)")
     add_criteria(parser)
     add_units(parser, "those of the first file")
+    parser.add_argument("--document", metavar="FILE.toml",
+                        help="the document block from a small TOML file (title, number, revision, "
+                             "date, prepared, checked, approved, each one line of text); the options "
+                             "below override its entries")
     for key, words in (("title", "document title (default: from the aircraft names)"),
                        ("number", "document number"), ("revision", "document revision"),
                        ("date", "document date"), ("prepared", "prepared by"),
@@ -56,11 +61,15 @@ def run(args):
             if not math.isfinite(value) or value <= 0:
                 raise InputError("command line", option, "a number > 0", repr(value))
         gust = Gust(args.sigma_v, args.scale_length)
+    from latdyn.report.document import merge_document, read_document
+
+    document = merge_document(read_document(args.document) if args.document else None,
+                              {key: getattr(args, key) for key, _ in DOCUMENT_FIELDS})
     output = args.output or os.path.join(
         "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
     folder = write_report(args.files, output, args.compare, criteria_names(args), args.force,
                           units=SYSTEMS[args.units] if args.units else None,
-                          document={key: getattr(args, key) for key, _ in DOCUMENT_FIELDS},
+                          document=document,
                           progress=args.progress, argv=["latdyn", "report", *sys.argv[2:]], gust=gust)
     print(f"wrote {os.path.join(folder, 'index.html')}")
     return 0
