@@ -22,7 +22,7 @@ from functools import lru_cache
 from latdyn.display import DASH, format_number, format_root
 from latdyn.report.blocks import Absent, Figure, Heading, Notice, Paragraph, Table
 
-__all__ = ["page_style", "cell_text", "render_text", "render_markdown_table", "render_csv", "render_html_table",
+__all__ = ["KEEP_ROWS", "page_style", "cell_text", "render_text", "render_markdown_table", "render_csv", "render_html_table",
            "table_records", "render", "escape_markdown", "render_markdown", "render_html", "css"]
 
 
@@ -304,15 +304,63 @@ def page_style(report) -> str:
             "}")
 
 
+#: Rows of a table (or of a run of related tables) short enough to keep on one printed page
+#: (A4 landscape at the print style's 11 px: about 45 rows of text; kept below that so a kept
+#: block never leaves most of a page empty).  Longer tables break between rows, their heading
+#: row repeated on each page.
+KEEP_ROWS = 24
+
+
+def _html_groups(blocks):
+    """The blocks with related tables gathered: runs of tables (and the small-print notes that
+    follow each) with nothing else between them, as lists; other blocks as they are."""
+    out, run = [], None
+    for block in blocks:
+        note = isinstance(block, Paragraph) and block.style == "small"
+        if isinstance(block, Table) or (note and run is not None):
+            if run is None:
+                run = []
+                out.append(run)
+            run.append(block)
+        else:
+            run = None
+            out.append(block)
+    return out
+
+
+def _html_table_group(run) -> str:
+    """A run of related tables: ``<div class="tables">``, kept on one printed page where its rows
+    fit (class ``keep``), else each table that fits kept whole, a long one breaking between rows."""
+    rows = sum(len(b.rows) + 2 for b in run if isinstance(b, Table))
+    parts, current = [], None
+    for block in run:
+        if isinstance(block, Table):
+            keep = " keep" if len(block.rows) <= KEEP_ROWS else " long"
+            current = [f'<div class="table{keep}">', render_html_table(block)]
+            parts.append(current)
+        else:
+            current.append(f'<p class="{html.escape(block.style)}">{html.escape(block.text)}</p>')
+    group = " keep" if rows <= KEEP_ROWS and len(parts) > 1 else ""
+    return (f'<div class="tables{group}">\n' + "\n".join("\n".join(p) + "\n</div>" for p in parts)
+            + "\n</div>")
+
+
 def render_html(report, folder) -> str:
-    """The self-contained HTML page; the figures (``folder/figures/<name>.png``) embedded as data."""
+    """The self-contained HTML page; the figures (``folder/figures/<name>.png``) embedded as data.
+
+    Related tables (a run of tables with nothing but their small-print notes between them) are
+    gathered in a ``div.tables``; the print style keeps a table with its caption, heading row
+    and notes on one page where it has at most :data:`KEEP_ROWS` rows (``div.table.keep``), and
+    a whole run where the run fits (``div.tables.keep``)."""
     out = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
            f"<title>{html.escape(report.title)}</title>", f"<style>\n{css()}</style>",
            f"<style>\n{page_style(report)}</style></head><body>"]
     headings = [b for b in report.blocks if isinstance(b, Heading) and b.level == 2]
     nav_done = False
-    for block in report.blocks:
-        if isinstance(block, Heading):
+    for block in _html_groups(report.blocks):
+        if isinstance(block, list):
+            out.append(_html_table_group(block))
+        elif isinstance(block, Heading):
             if block.level == 2 and not nav_done:
                 out.append("<nav><strong>Contents</strong><ul>" + "".join(
                     f'<li><a href="#{html.escape(h.anchor)}">{html.escape(h.text)}</a></li>' for h in headings)
