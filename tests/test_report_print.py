@@ -66,6 +66,19 @@ def page(tmp_path):
     return Tree(render_html(report, str(tmp_path)))
 
 
+def test_a_table_of_long_rows_counts_its_wrapped_lines(tmp_path):
+    """Four rows with a source of 300 characters print as some 25 lines: not kept whole."""
+    wordy = Table("wordy", "caption of wordy", (Column("a", "A"), Column("source", "Source")),
+                  tuple({"a": k, "source": "x " * 150} for k in range(4)))
+    report = Report("Print test")
+    report.add(wordy, table("short", 4))
+    (tmp_path / "figures").mkdir()
+    tree = Tree(render_html(report, str(tmp_path)))
+    own, group, _ = block_of(tree, "caption of wordy")
+    assert own == {"table", "long"} and group == {"tables"}
+    assert block_of(tree, "caption of short")[0] == {"table", "keep"}
+
+
 def block_of(tree, caption):
     """The div.table holding the table with this caption, and the div.tables around it."""
     index = tree.find("caption", caption)[0]
@@ -118,7 +131,7 @@ def print_rules():
     ("div.table.keep", "break-inside: avoid"), ("div.table.keep", "page-break-inside: avoid"),
     ("div.tables.keep", "break-inside: avoid"), ("div.table.long caption", "break-after: avoid"),
     ("thead", "display: table-header-group"), ("tr", "break-inside: avoid"),
-    ("h2", "break-after: avoid"), ("p", "orphans: 3"),
+    ("h2", "break-after: avoid"), ("h3 + p", "break-after: avoid"), ("p", "orphans: 3"),
 ], ids=lambda value: value.replace(" ", "_"))
 def test_print_style_keeps_blocks_together(selector, declaration):
     assert declaration in print_rules()[selector]

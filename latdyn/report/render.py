@@ -304,11 +304,20 @@ def page_style(report) -> str:
             "}")
 
 
-#: Rows of a table (or of a run of related tables) short enough to keep on one printed page
-#: (A4 landscape at the print style's 11 px: about 45 rows of text; kept below that so a kept
-#: block never leaves most of a page empty).  Longer tables break between rows, their heading
-#: row repeated on each page.
-KEEP_ROWS = 24
+#: Printed lines of a table (or of a run of related tables) short enough to keep whole on a
+#: page: about a third of an A4 landscape page at the print style's 11 px, so that moving a kept
+#: block to the next page never leaves more than a third of a page empty.  Longer tables break
+#: between rows (filling the page), their heading row repeated on each page.
+KEEP_ROWS = 12
+#: Characters of a cell's text on one printed line, for the line count of a row with long text.
+_LINE_CHARACTERS = 48
+
+
+def _printed_lines(table) -> int:
+    """Printed lines of a table's rows: a row with a long cell (a source, a note) wraps."""
+    return sum(max(1, max((-(-len(cell_text(row.get(c.key), c)) // _LINE_CHARACTERS)
+                           for c in table.columns), default=1))
+               for row in table.rows)
 
 
 def _html_groups(blocks):
@@ -329,18 +338,19 @@ def _html_groups(blocks):
 
 
 def _html_table_group(run) -> str:
-    """A run of related tables: ``<div class="tables">``, kept on one printed page where its rows
-    fit (class ``keep``), else each table that fits kept whole, a long one breaking between rows."""
-    rows = sum(len(b.rows) + 2 for b in run if isinstance(b, Table))
+    """A run of related tables: ``<div class="tables">``, kept on one printed page where its
+    printed lines fit (class ``keep``), else each table that fits kept whole, a long one breaking
+    between rows."""
+    lines = sum(_printed_lines(b) + 2 for b in run if isinstance(b, Table))
     parts, current = [], None
     for block in run:
         if isinstance(block, Table):
-            keep = " keep" if len(block.rows) <= KEEP_ROWS else " long"
+            keep = " keep" if _printed_lines(block) <= KEEP_ROWS else " long"
             current = [f'<div class="table{keep}">', render_html_table(block)]
             parts.append(current)
         else:
             current.append(f'<p class="{html.escape(block.style)}">{html.escape(block.text)}</p>')
-    group = " keep" if rows <= KEEP_ROWS and len(parts) > 1 else ""
+    group = " keep" if lines <= KEEP_ROWS and len(parts) > 1 else ""
     return (f'<div class="tables{group}">\n' + "\n".join("\n".join(p) + "\n</div>" for p in parts)
             + "\n</div>")
 
@@ -350,8 +360,9 @@ def render_html(report, folder) -> str:
 
     Related tables (a run of tables with nothing but their small-print notes between them) are
     gathered in a ``div.tables``; the print style keeps a table with its caption, heading row
-    and notes on one page where it has at most :data:`KEEP_ROWS` rows (``div.table.keep``), and
-    a whole run where the run fits (``div.tables.keep``)."""
+    and notes on one page where it has at most :data:`KEEP_ROWS` printed lines (``div.table.keep``;
+    a row with a long cell counts its wrapped lines), and a whole run where the run fits
+    (``div.tables.keep``)."""
     out = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
            f"<title>{html.escape(report.title)}</title>", f"<style>\n{css()}</style>",
            f"<style>\n{page_style(report)}</style></head><body>"]
