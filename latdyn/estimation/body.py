@@ -28,6 +28,10 @@ def side_force(cross_section_area, wing_area, interference_factor=1.0):
     ``fuselage.cross_section_area``), an upper bound.  Range: slender
     bodies, small sideslip (common practice).
 
+    Worked example: DATCOM section 5.2.1.1 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
+
     >>> round(float(side_force(2.0, 32.0)), 6)
     -0.125
     """
@@ -43,6 +47,10 @@ def yaw_sideslip(volume, depth, width, wing_area, span):
     the form of D. P. Raymer, *Aircraft Design: A Conceptual Approach*,
     AIAA, chapter 16, lateral-directional stability (edition and equation
     number from memory).  Range: conventional fuselages (common practice).
+
+    Worked example: Raymer's chapter 16 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(yaw_sideslip(20.0, 1.8, 1.8, 32.0, 17.6)), 6)
     -0.046165
@@ -63,6 +71,10 @@ def wing_height_roll(aspect_ratio, height, diameter, span):
     section 5.2.1.2 (wing-body Cl_beta, the wing-height term; DATCOM
     measures the height positive downward; from memory).
     Range: |h_w| <= d/2 (wing on the fuselage) (common practice).
+
+    Worked example: DATCOM section 5.2.1.2 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(wing_height_roll(9.0, 0.8, 1.8, 17.6)), 6)
     -0.033471

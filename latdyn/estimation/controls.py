@@ -29,6 +29,10 @@ def aileron_roll(lift_slope, effectiveness, chord_integral, wing_area, span):
     Range: aileron chord 10-40 % of the local chord, small deflections,
     M < 0.8 (common practice).
 
+    Worked example: Nelson's chapter 2 has worked sample problems (from memory); no copy
+    could be consulted, so none is reproduced and the doctest is a hand evaluation, not
+    the source's example (tests/test_estimation_checks.py lists the checks).
+
     >>> round(float(aileron_roll(4.5, 0.6, 10.0, 32.0, 17.6)), 6)
     0.095881
     """
@@ -50,6 +54,10 @@ def aileron_yaw(lift_coefficient, aspect_ratio, span_efficiency, roll_power):
     (a derivation by strip theory; the DATCOM chart method, section 6.2.2.2,
     writes the same proportionality Cn_da = K C_L Cl_da with K from a
     chart; from memory).  Range: plain ailerons, linear lift (common practice).
+
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against its strip-theory form (tests/test_estimation_checks.py lists
+    the checks).
 
     >>> round(float(aileron_yaw(0.5, 9.68, 0.8, 0.16)), 6)
     -0.006577

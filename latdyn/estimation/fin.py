@@ -110,6 +110,10 @@ def fin_contributions(area, arm, height, lift_slope, efficiency, sidewash_factor
     Automatic Control*, 2nd ed., 1998, section 2.6 and table 3.5; USAF
     DATCOM sections 7.3-7.4; both from memory).
 
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against hand evaluations, the (k - 1) rule and the published case of
+    NASA CR-96008 (tests/test_estimation_checks.py lists the checks).
+
     Parameters
     ----------
     area : float or array
@@ -176,6 +180,10 @@ def rudder_contributions(area, arm, height, lift_slope, efficiency, effectivenes
     section 2.6, rudder control power, from memory).  Positive rudder
     (trailing edge left) gives a negative yawing moment.
 
+    Worked example: Nelson's section 2.6 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
+
     Parameters
     ----------
     area, arm, height, lift_slope, efficiency, wing_area, span, alpha, axes
@@ -210,6 +218,10 @@ def sidewash_efficiency(fin_area, wing_area, sweep_quarter, wing_height, fuselag
     wing-body-fin combinations), also R. C. Nelson, *Flight Stability and
     Automatic Control*, 2nd ed., 1998, section 2.6 (both from memory).
     Range: conventional wing-body-fin layouts, low speed (common practice).
+
+    Worked example: DATCOM section 5.2.1.1 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(sidewash_efficiency(4.2, 32.0, 0.0, 0.0, 1.8, 9.68)), 6)
     1.011933

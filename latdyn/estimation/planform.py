@@ -118,6 +118,10 @@ def lift_curve_slope(aspect_ratio, sweep_half_chord, mach=0.0, section_slope=2.0
     (R. T. Jones, NACA Report 835, 1946): both checked in the tests.
     Range: subsonic, below the critical Mach number (M < 0.8 here), attached flow.
 
+    Worked example: DATCOM section 4.1.3.2 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
+
     Parameters
     ----------
     aspect_ratio : float or array
@@ -154,6 +158,10 @@ def antisymmetric_lift_slope(aspect_ratio, sweep_half_chord, mach=0.0, section_s
     chapter XI; chapter from memory).  The half-aspect-ratio slope is taken
     from :func:`lift_curve_slope`.
 
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the lifting-line roll damping of an elliptic wing
+    (tests/test_estimation_checks.py lists the checks).
+
     >>> round(float(antisymmetric_lift_slope(12.0, 0.0)), 4) == round(float(lift_curve_slope(6.0, 0.0)), 4)
     True
     """
@@ -174,6 +182,10 @@ def flap_effectiveness(chord_fraction):
     tests against the thin-aerofoil integral evaluated numerically.
     Range: small deflections, attached flow; it over-predicts real flaps,
     whose measured effectiveness falls below it at large deflection.
+
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the thin-aerofoil integral evaluated numerically
+    (tests/test_estimation_checks.py lists the checks).
 
     Parameters
     ----------

@@ -41,6 +41,10 @@ def side_force_dihedral(dihedral):
     and radian of dihedral: -0.3283 |Gamma|.  Range: any subsonic wing; the
     term is small.
 
+    Worked example: DATCOM section 5.1.1.1 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
+
     >>> round(float(side_force_dihedral(np.radians(5.0))), 5)
     -0.02865
     """
@@ -61,6 +65,10 @@ def roll_dihedral(dihedral, taper, roll_slope):
     (:func:`latdyn.estimation.planform.antisymmetric_lift_slope`).
     Range: |Gamma| <= 15 deg, A >= 3 (strip theory; common practice).
 
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the strip integral by quadrature and the published case of NASA
+    CR-96008 (tests/test_estimation_checks.py lists the checks).
+
     >>> round(float(roll_dihedral(np.radians(6.0), 1.0, 4.0)), 6)
     -0.10472
     """
@@ -80,6 +88,10 @@ def roll_sweep(lift_coefficient, sweep_quarter, taper):
 
     (a derivation). Range: |Lambda_c/4| <= 45 deg, A >= 3, linear lift
     (common practice).
+
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the cos-squared strip model differentiated numerically
+    (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(roll_sweep(0.5, np.radians(45.0), 1.0)), 6)
     -0.25
@@ -103,6 +115,10 @@ def yaw_sideslip(lift_coefficient, aspect_ratio, sweep_quarter, arm_over_chord):
     Range: subsonic (M <= 0.6), linear lift (common practice).
 
     Unswept: C_L^2 / (4 pi A).
+
+    Worked example: DATCOM section 5.1.3.1 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(yaw_sideslip(0.5, 8.0, 0.0, 0.0)), 7)
     0.0024868
@@ -131,6 +147,11 @@ def roll_damping(roll_slope, taper):
     (checked in the tests).  Range: A >= 3, |Lambda_c/4| <= 30 deg,
     M < 0.8, attached flow (common practice).
 
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the strip integral by quadrature, the lifting-line limit and
+    the published case of NASA CR-96008 (tests/test_estimation_checks.py lists the
+    checks).
+
     >>> round(float(roll_damping(4.0, 1.0)), 6)
     -0.666667
     """
@@ -151,6 +172,10 @@ def yaw_due_to_roll(lift_coefficient, aspect_ratio, sweep_quarter, arm_over_chor
     no flaps (common practice).
 
     Unswept: -C_L A / (6 (A + 4)).
+
+    Worked example: DATCOM section 7.1.2.2 has worked sample problems (from memory); no
+    copy could be consulted, so none is reproduced and the doctest is a hand evaluation,
+    not the source's example (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(yaw_due_to_roll(0.6, 8.0, 0.0, 0.0)), 6)
     -0.066667
@@ -174,6 +199,10 @@ def roll_due_to_yaw(lift_coefficient, taper):
 
     Range: A >= 3, |Lambda_c/4| <= 30 deg, no dihedral effect (common practice).
 
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the strip integral by quadrature and the published case of NASA
+    CR-96008 (tests/test_estimation_checks.py lists the checks).
+
     >>> round(float(roll_due_to_yaw(0.6, 1.0)), 6)
     0.2
     """
@@ -191,6 +220,10 @@ def yaw_damping(drag_coefficient, taper):
 
     Range: A >= 3, attached flow; it omits the lifting-surface terms that
     the DATCOM charts add (common practice).
+
+    Worked example: none printed; the method is the derivation above (no source works
+    it), checked against the strip integral by quadrature
+    (tests/test_estimation_checks.py lists the checks).
 
     >>> round(float(yaw_damping(0.03, 1.0)), 6)
     -0.01
