@@ -211,7 +211,7 @@ def _estimated_again(cases, values):
 def case_inputs(cases: CaseSet) -> dict:
     """Every input of the case set, nominal values with the overrides applied [SI, rad]."""
     from latdyn.atmosphere import standard_atmosphere
-    from latdyn.studies.fin import fin_increments
+    from latdyn.studies.fin import resized_values
 
     aircraft, condition = cases.aircraft, cases.condition
     derivatives, flight = condition.derivatives, condition.flight
@@ -253,13 +253,11 @@ def case_inputs(cases: CaseSet) -> dict:
         from latdyn.aircraft import Geometry
 
         geometry = Geometry(values["wing_area"], values["span"])
-        increments = fin_increments(aircraft.fin, geometry, values["alpha"], derivatives.axes,
-                                    1.0 if ratios[0] is None else ratios[0],
-                                    1.0 if ratios[1] is None else ratios[1], flight.mach,
-                                    {name: getattr(derivatives, name) for name in RUDDER})
-        for name, increment in increments.items():
-            if name not in estimated:
-                values[name] = values[name] + increment
+        values.update(resized_values(
+            {name: values[name] for name in names}, aircraft.fin, geometry, values["alpha"],
+            derivatives.axes, 1.0 if ratios[0] is None else ratios[0],
+            1.0 if ratios[1] is None else ratios[1], flight.mach, estimated,
+            {name: getattr(derivatives, name) for name in RUDDER}))
     values["nondimensional"] = nondimensional
     return values
 

@@ -30,7 +30,7 @@ from latdyn.estimation.fin import (FIN_DERIVATIVES, RUDDER_DERIVATIVES, _arms, f
 from latdyn.estimation.planform import flap_effectiveness
 
 __all__ = ["FIN_DERIVATIVES", "RUDDER_DERIVATIVES", "fin_contributions", "fin_increments",
-           "fin_share", "rudder_share", "slope_of"]
+           "fin_share", "rudder_share", "slope_of", "resized_values", "resized_condition"]
 
 
 def slope_of(fin, mach=0.0):
@@ -134,3 +134,93 @@ def fin_increments(fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ra
         nominal = share(fin, geometry, alpha, axes, 1.0, 1.0, mach, **extra)
         out.update({name: resized[name] - nominal[name] for name in resized})
     return out
+
+
+def resized_values(values, fin, geometry, alpha=0.0, axes="body", area_ratio=1.0, arm_ratio=1.0,
+                   mach=0.0, keep=(), rudder=None):
+    """Non-dimensional derivatives with the fin resized: C + C_F(k_S, k_l) - C_F(1, 1).
+
+    Parameters
+    ----------
+    values : mapping
+        Derivative name -> value (float or array) in ``axes``, with at least the
+        :data:`FIN_DERIVATIVES` and :data:`RUDDER_DERIVATIVES` [1/rad].
+    fin, geometry, alpha, axes, area_ratio, arm_ratio, mach
+        As for :func:`fin_increments`.
+    keep : iterable of str
+        Names left as they are (derivatives estimated from the geometry, which the
+        build-up recomputes from the resized fin itself).
+    rudder : mapping or None
+        The rudder derivatives taken as wholly the fin's when it has no rudder fractions
+        (:func:`rudder_share`); default those of ``values``.
+
+    Returns
+    -------
+    dict
+        A copy of ``values`` with the fin's increments added.
+
+    Examples
+    --------
+    >>> from latdyn.aircraft import Fin, Geometry
+    >>> fin, wing = Fin(4.0, 8.0, 1.5, 3.0, 0.9), Geometry(32.0, 17.6)
+    >>> base = dict.fromkeys(FIN_DERIVATIVES + RUDDER_DERIVATIVES, 0.0)
+    >>> bigger = resized_values(base, fin, wing, area_ratio=2.0)
+    >>> bool(np.isclose(bigger["Cn_beta"], fin_share(fin, wing)["Cn_beta"]))
+    True
+    """
+    if rudder is None:
+        rudder = {name: values[name] for name in RUDDER_DERIVATIVES}
+    increments = fin_increments(fin, geometry, alpha, axes, area_ratio, arm_ratio, mach, rudder)
+    keep = set(keep)
+    out = dict(values)
+    for name, increment in increments.items():
+        if name not in keep:
+            out[name] = values[name] + increment
+    return out
+
+
+def resized_condition(aircraft, condition, area_ratio=1.0, arm_ratio=1.0):
+    """A condition of an aircraft with a ``[fin]`` table, its fin resized by k_S and k_l.
+
+    The one-case form of the sweep keys ``fin.area_ratio`` and ``fin.arm_ratio``
+    (:func:`resized_values`), for the library's own studies: the returned condition
+    goes to any analysis (modes, levels, :func:`latdyn.steady.steady_balance`).
+
+    Parameters
+    ----------
+    aircraft : latdyn.aircraft.Aircraft
+        With a ``[fin]`` table.
+    condition : latdyn.aircraft.Condition or str
+        With non-dimensional derivatives.
+    area_ratio, arm_ratio : float
+        k_S, k_l [-].
+
+    Returns
+    -------
+    latdyn.aircraft.Condition
+
+    Raises
+    ------
+    ValueError
+        The aircraft has no ``[fin]`` table, or the condition gives dimensional derivatives
+        (the fin's share is known only in coefficient form).
+    """
+    from dataclasses import replace
+
+    from latdyn.aircraft import NondimensionalDerivatives
+    from latdyn.model import COEFFICIENT_NAMES
+
+    if isinstance(condition, str):
+        condition = aircraft.condition(condition)
+    derivatives = condition.derivatives
+    if aircraft.fin is None:
+        raise ValueError(f"{aircraft.file}: no [fin] table to resize")
+    if not isinstance(derivatives, NondimensionalDerivatives):
+        raise ValueError(f'{aircraft.file}: condition "{condition.name}" gives dimensional '
+                         "derivatives; the fin can be resized only in coefficient form")
+    flight = condition.flight
+    values = {name: getattr(derivatives, name) for name in COEFFICIENT_NAMES}
+    resized = resized_values(values, aircraft.fin, aircraft.geometry, flight.alpha, derivatives.axes,
+                             area_ratio, arm_ratio, flight.mach, condition.estimated)
+    return replace(condition, derivatives=replace(
+        derivatives, **{name: float(value) for name, value in resized.items()}))
