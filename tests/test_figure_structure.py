@@ -164,3 +164,50 @@ FIGURES = ["dutch_roll_chart", "dutch_roll_chart_pass_fail", "dutch_roll_chart_v
 @pytest.mark.parametrize("name", FIGURES)
 def test_no_text_outside_the_figure_or_its_axes_and_none_overlapping(report, cruise, name):
     assert layout_problems(_figures(report, cruise)[name]()) == []
+
+
+def test_bode_colour_means_one_output_in_every_column(cruise):
+    """Each output has one colour whichever control drives it; the names are typeset."""
+    figure = responses.bode_figure(cruise.transfers, cruise.result.modes)
+    colours = {}
+    for axis in figure.axes:
+        if axis.get_legend() is None:
+            continue
+        for line in axis.get_lines():
+            label = line.get_label()
+            if label.startswith("_"):
+                continue
+            output = label.split(" / ")[0]
+            colours.setdefault(output, set()).add(to_hex(line.get_color()))
+    assert len(colours) >= 3 and all(len(c) == 1 for c in colours.values())
+    assert len({next(iter(c)) for c in colours.values()}) == len(colours)
+    assert SYMBOLS["phi"] in colours and SYMBOLS["beta"] in colours
+
+
+def _other_figures(report, cruise):
+    from latdyn.augmentation import condition_model
+    from latdyn.plots.steady import steady_figure
+    from latdyn.plots.turbulence import spectra_figure
+    from latdyn.steady import steady
+    from latdyn.turbulence import Gust, turbulence_response
+
+    aircraft = report.aircraft[0].aircraft
+    model = condition_model(aircraft, aircraft.condition("cruise"))
+    gust = turbulence_response(model, Gust(1.5, 533.0), aircraft.geometry.span)
+    def identification():
+        from latdyn.flight_data import read_flight_csv
+        from latdyn.identification import identify
+        from latdyn.plots.identification import identification_figure
+
+        records = sorted((ROOT / "aircraft" / "flight-test").glob("*.csv"))
+        return identification_figure(identify(aircraft, "cruise", [read_flight_csv(p) for p in records]))
+
+    return {"identification": identification,
+            "bode": lambda: responses.bode_figure(cruise.transfers, cruise.result.modes, title=aircraft.name),
+            "spectra": lambda: spectra_figure([("cruise", "bare airframe", gust)], title=aircraft.name),
+            "steady": lambda: steady_figure([(aircraft, r) for r in steady(aircraft)])}
+
+
+@pytest.mark.parametrize("name", ["bode", "spectra", "steady", "identification"])
+def test_other_figures_keep_their_text_inside_and_apart(report, cruise, name):
+    assert layout_problems(_other_figures(report, cruise)[name]()) == []

@@ -12,8 +12,10 @@ import numpy as np
 
 __all__ = ["identification_figure"]
 
-_LABELS = {"beta": ("\u03b2", "deg"), "p": ("p", "deg/s"), "r": ("r", "deg/s"),
-           "phi": ("\u03c6", "deg"), "ny": ("n_y", "g")}
+_LABELS = {"beta": (r"$\beta$", "deg"), "p": (r"$p$", "deg/s"), "r": (r"$r$", "deg/s"),
+           "phi": (r"$\phi$", "deg"), "ny": (r"$n_y$", "g")}
+#: Residual colour of each channel: the palette after the two the model traces use.
+_RESIDUAL_COLOURS = {"beta": 2, "p": 3, "r": 4, "phi": 5, "ny": 6}
 
 
 def identification_figure(result, figure=None):
@@ -31,7 +33,7 @@ def identification_figure(result, figure=None):
     """
     from matplotlib.figure import Figure
 
-    from latdyn.plots.style import MUTED, PALETTE, style_axis
+    from latdyn.plots.style import INPUT_COLOURS, INPUT_STYLES, MUTED, PALETTE, plain, style_axis
 
     records = result.records
     channels = [c for c in ("beta", "p", "r", "phi", "ny") if any(c in r.channels for r in records)]
@@ -49,9 +51,9 @@ def identification_figure(result, figure=None):
         residual_axis = axes[-1, j]
         control_axis = axes[0, j]
         style_axis(control_axis)
-        for k, (control, style) in enumerate((("aileron", "-"), ("rudder", (0, (5, 2))))):
-            control_axis.plot(record.time, np.degrees(record.inputs[:, k]), color=PALETTE[2 + k],
-                              linewidth=1.1, linestyle=style, label=control)
+        for k, control in enumerate(("aileron", "rudder")):
+            control_axis.plot(record.time, np.degrees(record.inputs[:, k]), color=INPUT_COLOURS[control],
+                              linewidth=1.1, linestyle=INPUT_STYLES[control], label=control)
         control_axis.legend(fontsize=7, loc="upper right", frameon=False)
         if j == 0:
             control_axis.set_ylabel("control [deg]", fontsize=8)
@@ -73,7 +75,8 @@ def identification_figure(result, figure=None):
                           label="identified model")
                 residual = (record.measured[:, k] - simulated[:, k])
                 scale = np.max(np.abs(record.measured[:, k] - record.measured[:, k].mean())) or 1.0
-                residual_axis.plot(record.time, residual / scale, linewidth=0.7, label=symbol)
+                residual_axis.plot(record.time, residual / scale, linewidth=0.7, label=symbol,
+                                   color=PALETTE[_RESIDUAL_COLOURS[channel]])
             if j == 0:
                 axis.set_ylabel(f"{symbol} [{unit}]", fontsize=8)
         style_axis(residual_axis)
@@ -82,7 +85,7 @@ def identification_figure(result, figure=None):
             residual_axis.set_ylabel("residual /\nrange [-]", fontsize=8)
         residual_axis.legend(fontsize=7, ncol=len(channels), loc="upper right", frameon=False)
         name = record.file.replace("\\", "/").rsplit("/", 1)[-1] or f"record {j + 1}"
-        axes[0, j].set_title(name, fontsize=9, loc="left")
+        axes[0, j].set_title(plain(name), fontsize=9, loc="left")
     axes[1, 0].legend(fontsize=7, loc="upper right", frameon=False)
-    figure.suptitle(f'Identification, condition "{result.condition}": {result.fit["method"]}', fontsize=10)
+    figure.suptitle(plain(f'Identification, condition "{result.condition}": {result.fit["method"]}'), fontsize=10)
     return figure

@@ -20,7 +20,7 @@ from __future__ import annotations
 import numpy as np
 
 from latdyn.display import SI, SIGNAL_QUANTITIES, format_number
-from latdyn.plots.style import (BAND, GRID, INPUT_COLOURS, INPUT_STYLES, LEVEL_INK, MUTED, SYMBOLS, TEXT,
+from latdyn.plots.style import (BAND, GRID, INPUT_COLOURS, INPUT_STYLES, LEVEL_INK, MUTED, PALETTE, SYMBOLS, TEXT,
                                 case_colour, figure_for, plain, style_axis)
 
 __all__ = ["time_history_figure", "bode_figure"]
@@ -65,6 +65,19 @@ def _end_words(response, readout):
     if abs(rate) < _STEADY_RATE:
         return words + "steady"
     return words + f"still {'building' if rate * final > 0 else 'decaying'} at {_fmt(rate)} {_unit('phi')}/s"
+
+
+#: Colour of each output on the Bode figure (the same output has the same colour in every column).
+_OUTPUT_COLOURS = {"beta": PALETTE[0], "p": PALETTE[1], "r": PALETTE[2], "phi": PALETTE[3], "ny": PALETTE[4]}
+#: Control symbols of the transfer-function names.
+_CONTROL_SYMBOLS = {"aileron": SYMBOLS["delta_a"], "rudder": SYMBOLS["delta_r"]}
+
+
+def _transfer_name(transfer) -> str:
+    """``phi/da`` typeset: the output's symbol over the control's."""
+    output = _SYMBOLS.get(transfer.output, plain(transfer.output))
+    control = _CONTROL_SYMBOLS.get(transfer.input, plain(transfer.input))
+    return f"{output} / {control}"
 
 
 def _eigen_dutch(modes):
@@ -307,9 +320,9 @@ def bode_figure(transfers, modes=None, omega=None, title=None, fig=None):
     if modes is not None:
         dutch = modes.get("dutch_roll")
         if dutch is not None and dutch.natural_frequency:
-            marks.append((dutch.natural_frequency, "\u03c9 Dutch roll"))
-        for name, text in (("roll_subsidence", "1/T roll"), ("spiral", "1/T spiral"),
-                           ("roll_spiral", "\u03c9 roll-spiral")):
+            marks.append((dutch.natural_frequency, f"{SYMBOLS['omega_nd']} Dutch roll"))
+        for name, text in (("roll_subsidence", f"1/{SYMBOLS['T_R']} roll"), ("spiral", f"1/{SYMBOLS['T_s']} spiral"),
+                           ("roll_spiral", f"{SYMBOLS['omega_rs']} roll-spiral")):
             mode = modes.get(name)
             if mode is not None and abs(mode.eigenvalue) > 0:
                 marks.append((abs(mode.eigenvalue), text))
@@ -320,10 +333,11 @@ def bode_figure(transfers, modes=None, omega=None, title=None, fig=None):
             axis.set_xscale("log")
             axis.set_xlim(omega[0], omega[-1])
         chosen = [t for t in transfers if t.input == control]
-        for index, transfer in enumerate(chosen):
+        for transfer in chosen:
             data = bode_data(transfer, omega)
-            colour = case_colour(index)
-            magnitude_axis.plot(data.omega, data.magnitude_db, color=colour, linewidth=1.5, label=data.name)
+            colour = _OUTPUT_COLOURS.get(transfer.output, MUTED)
+            magnitude_axis.plot(data.omega, data.magnitude_db, color=colour, linewidth=1.5,
+                                label=_transfer_name(transfer))
             phase_axis.plot(data.omega, data.phase_deg, color=colour, linewidth=1.5)
         for frequency, text in marks:
             for axis in (magnitude_axis, phase_axis):
@@ -333,11 +347,11 @@ def bode_figure(transfers, modes=None, omega=None, title=None, fig=None):
                                     color=MUTED, rotation=90, va="bottom")
         magnitude_axis.set_title(f"{control} inputs", fontsize=9.5, color=TEXT, loc="left")
         magnitude_axis.legend(loc="upper right", fontsize=8, frameon=False)
-        phase_axis.set_xlabel("frequency \u03c9 [rad/s]", color=TEXT, fontsize=9)
+        phase_axis.set_xlabel(f"frequency {SYMBOLS['omega']} [rad/s]", color=TEXT, fontsize=9)
         if column == 0:
             magnitude_axis.set_ylabel("magnitude [dB]", color=TEXT, fontsize=9)
             phase_axis.set_ylabel("phase [deg]", color=TEXT, fontsize=9)
-    figure.suptitle("Lateral-directional transfer functions" + (f": {title}" if title else ""),
+    figure.suptitle("Lateral-directional transfer functions" + (f": {plain(title)}" if title else ""),
                     fontsize=11.5, color=TEXT, fontweight="bold", x=0.01, ha="left")
     figure.supxlabel("Magnitude of output per control deflection: rad per rad, (rad/s) per rad "
                      "(the same in degrees). Dashed: mode frequencies (|root|).", fontsize=7.5,

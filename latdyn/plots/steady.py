@@ -19,9 +19,11 @@ import numpy as np
 
 __all__ = ["steady_figure", "sideslip_axes", "engine_out_axes"]
 
-_RUDDER, _AILERON, _BANK, _BETA = "#c4572f", "#2a8c7a", "#22416b", "#8a5a9e"
-_GRID, _MUTED, _TEXT = "#d9dde2", "#6b7780", "#1f2933"
+from latdyn.plots.style import GRID as _GRID, MUTED as _MUTED, PALETTE, TEXT as _TEXT, SYMBOLS, plain
 from latdyn.units import KNOT as _KNOT
+
+#: One colour per quantity (the style's palette): rudder, aileron, bank, sideslip.
+_RUDDER, _AILERON, _BANK, _BETA = PALETTE[1], PALETTE[2], PALETTE[3], PALETTE[0]
 
 
 def _style(ax):
@@ -72,7 +74,7 @@ def sideslip_axes(ax, result, travel=(None, None)):
     secondary.set_xlabel("90\u00b0 crosswind component held [kt]", fontsize=8)
     secondary.tick_params(labelsize=7)
     ax.set_xlim(0.0, float(np.degrees(beta[-1])))
-    ax.set_xlabel("sideslip \u03b2 [deg] (wind from the right)")
+    ax.set_xlabel(f"sideslip {SYMBOLS['beta']} [deg] (wind from the right)")
     ax.set_ylabel("deflection, bank [deg]")
     ax.legend(fontsize=7, loc="lower left", frameon=False)
     _style(ax)
@@ -124,7 +126,7 @@ def engine_out_axes(ax, result, travel=(None, None), altitude=None):
     ax.set_ylim(-limit, limit)
     markers.append(float(convert(result.balance.speed)) / _KNOT)
     ax.set_xlim(max(float(x[0]), 0.6 * min(markers)), min(float(x[-1]), 1.4 * max(markers)))
-    ax.set_xlabel(f"{word} airspeed [kt], \u201c{e.failed_engine}\u201d engine failed")
+    ax.set_xlabel(plain(f"{word} airspeed [kt], \u201c{e.failed_engine}\u201d engine failed"))
     ax.set_ylabel("deflection, sideslip [deg]")
     ax.legend(fontsize=6.5, loc="upper right", frameon=False, ncol=2)
     _style(ax)
@@ -157,7 +159,7 @@ def steady_figure(cases, figure=None):
         travel = control_travel(condition)
         sideslip_axes(axes[row, 0], result, travel)
         engine_out_axes(axes[row, 1], result, travel, condition.flight.altitude)
-        axes[row, 0].set_title(f"{aircraft.name}: \u201c{result.condition}\u201d, steady sideslips",
+        axes[row, 0].set_title(plain(f"{aircraft.name}: \u201c{result.condition}\u201d, steady sideslips"),
                                fontsize=9, loc="left")
         axes[row, 1].set_title("one engine out (non-dimensional derivatives held)", fontsize=9,
                                loc="left")
