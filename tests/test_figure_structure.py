@@ -73,6 +73,12 @@ def test_variants_on_the_dutch_roll_chart_each_in_its_colour_with_their_levels(r
         result = next(e for e in entries if e.mode == "dutch_roll").result
         assert f'{name}: "cruise" ({result})' in legend
     assert any("wing-tip tanks" in text and "(Level 2)" in text for text in legend)
+    assert "worse than the base (loses a level or a pass)" in legend
+    tip = variants[[v.aircraft for v in variants].index(next(n for n in words if "wing-tip" in n))]
+    mode = tip.conditions[0].modes.get("dutch_roll")
+    rings = [line for axis in figure.axes for line in axis.get_lines() if line.get_markersize() == 16]
+    assert [(float(r.get_xdata()[0]), float(r.get_ydata()[0])) for r in rings] == \
+        [(mode.natural_frequency, mode.damping_ratio)]
     assert "Levels (guidance only):" in legend and "Level 1" in legend and "Level 2" in legend
 
 

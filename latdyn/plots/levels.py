@@ -35,6 +35,9 @@ __all__ = ["LEVEL_COLOURS", "LEVEL_INK", "dutch_roll_chart", "roll_spiral_chart"
            "write_assessment_figures"]
 
 
+#: Ring round a variant's point that is graded worse than the base's in the same condition.
+_LOSS = dict(marker="o", markersize=16, markerfacecolor="none", markeredgecolor=LEVEL_INK[4], markeredgewidth=1.4,
+             linestyle="none", zorder=7)
 #: Line styles of the damping limits of a pass/fail set (one per row of the set).
 _LIMIT_STYLES = ("-", (0, (5, 2)), (0, (1, 1.5)), (0, (6, 2, 1, 2)))
 
@@ -210,7 +213,7 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
     zeta_axis = np.linspace(zeta_bottom, zeta_top, resolution)
     omega_grid, zeta_grid = np.meshgrid(omega_axis, zeta_axis)
     extent = (0.0, omega_top, zeta_bottom, zeta_top)
-    flagged, shown_levels, undecided = [], set(), False
+    flagged, shown_levels, undecided, losses = [], set(), False, False
     handles = []
     for axis, category in zip(axes, categories):
         style_axis(axis)
@@ -257,12 +260,16 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
                                   markerfacecolor="white" if k == 0 else colour, markeredgecolor=colour,
                                   markeredgewidth=1.6, label=label))
             if k > 0:
-                base = next(((m.natural_frequency, m.damping_ratio) for j, c, m, _ in points
+                base = next(((m, e) for j, c, m, e in points
                              if j == 0 and c.name == condition.name and c.category == condition.category), None)
                 if base is not None:
-                    axis.annotate("", (mode.natural_frequency, mode.damping_ratio), xytext=base,
+                    axis.annotate("", (mode.natural_frequency, mode.damping_ratio),
+                                  xytext=(base[0].natural_frequency, base[0].damping_ratio),
                                   arrowprops=dict(arrowstyle="-|>", color=colour, linewidth=0.9,
                                                   shrinkA=5, shrinkB=5), zorder=5)
+                    if entry is not None and base[1] is not None and entry.severity > base[1].severity > 0:
+                        axis.plot(mode.natural_frequency, mode.damping_ratio, **_LOSS)
+                        losses = True
             rule = criteria.mode("dutch_roll").phi_to_beta_rule
             if rule and mode.phi_to_beta is not None and \
                     mode.natural_frequency ** 2 * mode.phi_to_beta > rule.threshold:
@@ -281,6 +288,8 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
     title = plain(f"Dutch roll: {result.aircraft}") + ("" if not variants else " and its variants") + \
         "\n" + plain(f"{criteria.name}: {criteria.edition}")
     figure.suptitle(title, fontsize=TITLE_SIZE, color=TEXT)
+    if losses:
+        handles.append(Line2D([], [], label="worse than the base (loses a level or a pass)", **_LOSS))
     handles += level_handles(sorted(shown_levels) or (1, 2, 3, 4), undecided=undecided, pass_fail=pass_fail)
     key_axis(key, handles, "Configuration: condition (result)" if len(configurations) > 1
              else "Condition (result)")
