@@ -217,3 +217,15 @@ def _other_figures(report, cruise):
 @pytest.mark.parametrize("name", ["bode", "spectra", "steady", "identification"])
 def test_other_figures_keep_their_text_inside_and_apart(report, cruise, name):
     assert layout_problems(_other_figures(report, cruise)[name]()) == []
+
+
+def test_every_figure_of_the_comparison_report_keeps_its_text_inside_and_apart(report):
+    """Every figure the demo comparison report draws (charts, responses, roll performance ...)."""
+    from latdyn.report.blocks import Figure
+    from latdyn.report.content import report_content
+    from latdyn.report.figures import draw
+
+    specs = [b for b in report_content(report).blocks if isinstance(b, Figure)]
+    assert {"dutch_roll", "time_history", "roll_performance"} <= {s.kind for s in specs}
+    problems = {spec.name: layout_problems(draw(spec)) for spec in specs}
+    assert {name: found for name, found in problems.items() if found} == {}

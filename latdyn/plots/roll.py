@@ -11,8 +11,8 @@ import math
 
 import numpy as np
 
-from latdyn.plots.style import (LABEL_SIZE, LEVEL_INK, MUTED, NOTE_SIZE, PALETTE, TEXT, TITLE_SIZE,
-                                add_notice, figure_for, style_axis)
+from latdyn.plots.style import (LABEL_SIZE, LEVEL_INK, MUTED, PALETTE, SYMBOLS, TEXT, TITLE_SIZE, add_notice,
+                                figure_for, key_axis, plain, style_axis)
 
 __all__ = ["roll_performance_figure"]
 
@@ -36,8 +36,8 @@ def roll_performance_figure(roll, requirements=(), title=None, fig=None):
     -------
     matplotlib.figure.Figure
     """
-    figure = figure_for(fig, 7.2, 4.6)
-    axis = figure.add_subplot(1, 1, 1)
+    figure = figure_for(fig, 9.2, 4.6)
+    axis, key = figure.subplots(1, 2, width_ratios=[1.0, 0.05])
     style_axis(axis)
     t = np.asarray(roll.times)
     limit_time = max([r[2] for r in requirements], default=0.0)
@@ -48,24 +48,23 @@ def roll_performance_figure(roll, requirements=(), title=None, fig=None):
     if roll.bank_coordinated is not None:
         axis.plot(t[keep], np.degrees(roll.bank_coordinated[keep]), color=PALETTE[1], linewidth=1.4,
                   linestyle=(0, (5, 2)), label="rudder coordinated (zero sideslip, not graded)")
-    for index, (label, change, allowed, result) in enumerate(requirements):
+    for label, change, allowed, result in requirements:
         degrees = math.degrees(change)
         ink = LEVEL_INK.get(int(result[-1]) if result[-1:].isdigit() else 0, TEXT) \
             if result.startswith("Level") else (LEVEL_INK[1] if result == "pass" else LEVEL_INK[4])
         axis.plot([0.0, allowed, allowed], [degrees, degrees, 0.0], color=MUTED, linewidth=0.8,
                   linestyle=":")
         axis.plot([allowed], [degrees], marker="s", markersize=6, color=ink, linestyle="none",
-                  label=f"{label}: {result}")
-        axis.annotate(f"{degrees:.3g} deg in {allowed:.3g} s", (allowed, degrees), xytext=(5, -11 - 9 * index),
-                      textcoords="offset points", fontsize=NOTE_SIZE, color=ink)
+                  label=plain(f"{label}: {result}"))
     axis.set_xlim(0.0, end)
     axis.set_ylim(bottom=0.0)
     axis.set_xlabel("time after the roll command [s]", fontsize=LABEL_SIZE)
-    axis.set_ylabel("bank-angle change [deg]", fontsize=LABEL_SIZE)
+    axis.set_ylabel(f"bank-angle change {SYMBOLS['delta_phi']} [deg]", fontsize=LABEL_SIZE)
     rate = (f" at {math.degrees(roll.aileron_rate):.3g} deg/s" if roll.aileron_rate else ", abrupt")
-    axis.set_title(title or f"Roll performance: full aileron {math.degrees(roll.aileron):.3g} deg{rate}",
+    axis.set_title(plain(title) if title else f"Roll performance: full aileron {math.degrees(roll.aileron):.3g} deg{rate}",
                    fontsize=TITLE_SIZE, color=TEXT)
-    axis.legend(fontsize=NOTE_SIZE, loc="lower right", frameon=False)
+    handles, _ = axis.get_legend_handles_labels()
+    key_axis(key, handles, "Rolls and requirements\n(marker ink: result, guidance only)")
     add_notice(figure, "Linear model, from wings level; a reversal roll is taken as a bank-angle change "
                        "from wings level.")
     return figure

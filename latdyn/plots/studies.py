@@ -288,7 +288,7 @@ def level_map_figure(result, fig=None):
                     if np.isfinite(field).sum() < 4 or not (np.nanmin(field) < 0 < np.nanmax(field)):
                         continue
                     panel.contour(X, Y, field, levels=[0.0], colors=TEXT, linewidths=0.9,
-                                  linestyles=_MODE_LINES[mode])
+                                  linestyles=[_MODE_LINES[mode]])
                     drawn.add(mode)
             if all(np.isfinite(current.values)):
                 mark_current(panel, *current.values)

@@ -61,7 +61,7 @@ SYMBOLS = {
     "omega_rs": r"$\omega_{RS}$", "T_R": r"$T_R$", "T_2": r"$T_2$", "T_s": r"$T_S$",
     "phi_beta": r"$|\phi/\beta|_d$", "omega2_phi_beta": r"$\omega_{nd}^2\,|\phi/\beta|_d$",
     "zeta_omega": r"$\zeta_d\,\omega_{nd}$", "sigma_v": r"$\sigma_v$", "L_v": r"$L_v$",
-    "P": r"$P$", "delta_a": r"$\delta_a$", "delta_r": r"$\delta_r$",
+    "P": r"$P$", "delta_phi": r"$\Delta\phi$", "delta_a": r"$\delta_a$", "delta_r": r"$\delta_r$",
 }
 #: Type sizes [pt].
 TITLE_SIZE, LABEL_SIZE, TICK_SIZE, NOTE_SIZE = 10.5, 8.5, 8, 7
