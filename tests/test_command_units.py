@@ -53,6 +53,7 @@ COMMANDS = {
     "compare": (["compare", "{f}/kestrel-k40.toml", "{f}/kestrel-k40-tip-tanks.toml"], True),
     "sweep-speed": (["sweep", "{f}/kestrel-k40.toml", "--condition", "cruise", "--vary", "{speed}"], True),
     "respond": (["respond", "{f}/kestrel-k40.toml", "--condition", "all", "--transfer-functions"], False),
+    "sensitivity": (["sensitivity", "{f}/kestrel-k40.toml", "--condition", "cruise", "--top", "4"], True),
     "steady": (["steady", "{f}/kestrel-k40.toml", "--bank-deg", "3"], True),
     "steady-csv": (["steady", "{f}/kestrel-k40.toml", "--format", "csv"], True),
     "compare-csv": (["compare", "{f}/kestrel-k40.toml", "{f}/kestrel-k40-tip-tanks.toml", "--format", "csv"],

@@ -125,6 +125,17 @@ def _dashes(line):
     return bool(line) and bool(_DASHES.match(line) or _MARKDOWN_RULE.match(line))
 
 
+def _heading_unit(title):
+    """The unit a column heading names: ``[unit]``, "%" for a percentage ("% per %"), "-" for a
+    rank."""
+    found = re.search(r"\[([^\]]+)\]", title)
+    if found:
+        return found.group(1)
+    if title.strip().lower() in ("rank", "n", "count"):
+        return "-"  # a count: no unit, whatever the row's
+    return "%" if "%" in title else None
+
+
 def _cells(line, spans):
     """The cells of a table row: by column spans (terminal text) or between pipes (Markdown)."""
     if spans is None:
@@ -139,10 +150,7 @@ def _table(lines, index):
     spans = None if lines[index].strip().startswith("|") else [
         m.span() for m in re.finditer(r"-+", lines[index])]
     titles = _cells(lines[index - 1], spans)
-    units = []
-    for title in titles:
-        found = re.search(r"\[([^\]]+)\]", title)
-        units.append(found.group(1) if found else None)
+    units = [_heading_unit(title) for title in titles]
     unit_column = next((k for k, t in enumerate(titles) if t == "Unit"), None)
     return spans, units, unit_column
 
@@ -174,7 +182,11 @@ def _compare_line(si, us, default_unit=None, rel=1e-9, convert=True):
     checked = 0
     for a, b in zip(si_tokens, us_tokens):
         unit = b.group(3) or b.group(4) or default_unit
-        expected_unit, size = US_TO_SI.get(unit, (unit, 1.0)) if convert else (unit, 1.0)
+        if convert and unit and unit.startswith("per ") and unit[4:] in US_TO_SI:  # a derivative per unit
+            si_unit, per = US_TO_SI[unit[4:]]
+            expected_unit, size = "per " + si_unit, 1.0 / per
+        else:
+            expected_unit, size = US_TO_SI.get(unit, (unit, 1.0)) if convert else (unit, 1.0)
         if b.group(4) or b.group(3):
             assert (a.group(4) or a.group(3)) == expected_unit, (si, us)
         if b.group(4):
@@ -230,7 +242,8 @@ def _compare_row(si_cells, us_cells, units, unit_column, rel, convert):
             checked += b in US_TO_SI
             continue
         alone = re.fullmatch(_NUMBER, b) is not None  # a value, not words with numbers
-        checked += _compare_line(a, b, (units[k] or row_unit) if alone else None, rel, convert)
+        unit = f"per {row_unit}" if units[k] == "per parameter unit" else (units[k] or row_unit)
+        checked += _compare_line(a, b, unit if alone else None, rel, convert)
     return checked
 
 
@@ -255,8 +268,7 @@ def agree_csv(si_text, us_text, rel=1e-9, convert=True):
                 checked += _compare_line(a, b, rel=rel, convert=convert)
             continue
         # a heading's [unit]; the raw CSV's "knots" column holds airspeeds in knots in either system
-        units = ["kt" if h == "knots" else (re.search(r"\[([^\]]+)\]", h) or [None, None])[1]
-                 for h in header]
+        units = ["kt" if h == "knots" else _heading_unit(h) for h in header]
         unit_column = next((k for k, h in enumerate(header) if h.lower() == "unit"), None)
         checked += _compare_row(si_cells, us_cells, units, unit_column, rel, convert)
     return checked
