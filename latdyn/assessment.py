@@ -242,6 +242,9 @@ class ConditionAssessment:
         Where the eigenvectors do not confirm two modes' names
         (:func:`latdyn.modes.naming_ambiguity`): the ambiguity, both readings'
         results per criteria set and the reading graded (the more conservative).
+    steady : latdyn.steady.SteadyResult or None
+        The steady solution the static checks were graded from (None when no
+        check group was graded).
     """
 
     name: str
@@ -257,6 +260,7 @@ class ConditionAssessment:
     roll_response: object = None
     departure: object = None
     ambiguous_naming: dict | None = None
+    steady: object = None
 
     def __iter__(self):
         return iter(self.assessments)
@@ -337,6 +341,9 @@ class AircraftAssessment:
         File-wide notes (what is missing).
     notice : str
         :data:`NOTICE`.
+    checks : tuple of latdyn.steady_checks.CheckGroup
+        The static-check groups graded beside the criteria sets (pass/fail;
+        each is a criteria name of the condition's rows).
     """
 
     aircraft: str
@@ -346,6 +353,12 @@ class AircraftAssessment:
     conditions: tuple
     notes: tuple = ()
     notice: str = NOTICE
+    checks: tuple = ()
+
+    @property
+    def graded_sets(self) -> tuple:
+        """The criteria sets and the static-check groups, in the order of their rows."""
+        return tuple(self.criteria) + tuple(self.checks)
 
     def __iter__(self):
         return iter(self.conditions)
@@ -372,7 +385,7 @@ class AircraftAssessment:
         return {"latdyn_version": version, "aircraft": self.aircraft, "notice": self.notice,
                 "conditions": [c.as_dict() for c in self.conditions], "file": self.file,
                 "criteria": [{"name": c.name, "edition": c.edition, "title": c.title,
-                              "document": c.document} for c in self.criteria],
+                              "document": c.document} for c in self.graded_sets],
                 "notes": list(self.notes)}
 
     def __repr__(self):
@@ -854,7 +867,8 @@ def _roll_missing(entry, airplane_class, category, flight_phase, mass, condition
     return tuple(missing)
 
 
-def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) -> AircraftAssessment:
+def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True,
+           static_checks=None) -> AircraftAssessment:
     """Assess every condition of an aircraft against handling-qualities criteria.
 
     Pipeline: :func:`latdyn.aircraft.load_aircraft` ->
@@ -878,6 +892,11 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
         For each augmented condition also fit the equivalent low-order system
         (:func:`latdyn.equivalent_systems.fit_equivalent_system`) and grade its
         Dutch roll, roll and spiral with the same criteria sets.
+    static_checks : iterable of latdyn.steady_checks.CheckGroup, optional
+        The static checks of steady flight (sideslip senses, dihedral limit,
+        static stability, crosswind, engine-out minimum control speed) to
+        grade; default the built-in groups tied to the criteria sets used
+        (:func:`latdyn.steady_checks.groups_for`); ``()`` grades none.
 
     Returns
     -------
@@ -893,11 +912,13 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
     from latdyn.departure import departure_indicators
     from latdyn.results import condition_modes
     from latdyn.roll_response import roll_response
+    from latdyn.steady_checks import assess_steady, groups_for
 
     if not hasattr(aircraft, "conditions"):
         aircraft = load_aircraft(aircraft)
     airplane_class = aircraft.airplane_class
     sets = _load_sets(criteria_sets if criteria_sets is not None else default_criteria(airplane_class))
+    groups = groups_for(sets) if static_checks is None else tuple(static_checks)
     flight_phases = dict(flight_phases or {})
     conditions = []
     for condition in aircraft.conditions:
@@ -923,11 +944,12 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
             fitted = fit_equivalent_system(model, modes)
             graded = assess_modes(fitted.modes, sets, airplane_class, flight.category, phase,
                                   flight.altitude, condition.name)
+        static, steady = assess_steady(aircraft, condition, groups, flight_phase=phase)
         conditions.append(ConditionAssessment(condition.name, flight.category, airplane_class, phase,
-                                              flight.altitude, assessments + rolls, modes, roll, fitted, graded,
-                                              roll_response=response,
+                                              flight.altitude, assessments + rolls + static, modes, roll,
+                                              fitted, graded, roll_response=response,
                                               departure=departure_indicators(aircraft, condition),
-                                              ambiguous_naming=naming))
+                                              ambiguous_naming=naming, steady=steady))
     notes = []
     if airplane_class is None and any(s.assessment == "levels" for s in sets):
         notes.append("the aircraft file gives no airplane_class: military levels are given only where "
@@ -942,4 +964,4 @@ def assess(aircraft, criteria_sets=None, flight_phases=None, equivalent=True) ->
                      + ": levels are given only where every category gives the same result")
     files = getattr(aircraft, "files", ())
     return AircraftAssessment(aircraft.name, files[0] if files else None, airplane_class, sets,
-                              tuple(conditions), tuple(notes))
+                              tuple(conditions), tuple(notes), checks=groups)

@@ -620,14 +620,13 @@ class CrosswindResult:
                 "notes": list(self.notes)}
 
 
-from latdyn.units import KNOT as _KNOT
-
-
 def civil_crosswind_components(stall_speeds) -> dict:
     """Crosswind components the civil rules ask for, from the stall speeds given [m/s].
 
     14 CFR 23.233(a): at least 0.2 V_S0 (S).  14 CFR 25.237 (S) / 25.233 (V):
-    20 kt or 0.2 V_SR0, whichever is greater, need not exceed 25 kt.
+    20 kt or 0.2 V_SR0, whichever is greater, need not exceed 25 kt.  The
+    numbers are read from the static-checks data file
+    (:func:`latdyn.steady_checks.rule_limits`).
 
     Examples
     --------
@@ -636,14 +635,9 @@ def civil_crosswind_components(stall_speeds) -> dict:
     >>> round(r["14 CFR 23.233"], 6), round(r["14 CFR 25.237"] / (1852 / 3600), 6)
     (8.0, 20.0)
     """
-    out = {}
-    if stall_speeds is None:
-        return out
-    if stall_speeds.V_S0 is not None:
-        out["14 CFR 23.233"] = 0.2 * stall_speeds.V_S0
-    if stall_speeds.V_SR0 is not None:
-        out["14 CFR 25.237"] = min(max(20.0 * _KNOT, 0.2 * stall_speeds.V_SR0), 25.0 * _KNOT)
-    return out
+    from latdyn.steady_checks import rule_limits
+
+    return rule_limits("crosswind_component", stall_speeds)
 
 
 def crosswind_capability(balance, aileron_max=None, rudder_max=None, stall_speeds=None,
@@ -829,12 +823,9 @@ def engine_out(balance, engines, aileron_max=None, rudder_max=None, stall_speeds
     -------
     EngineOutResult
     """
-    limits = {}
-    if stall_speeds is not None:
-        if stall_speeds.V_S1 is not None:
-            limits["14 CFR 23.149(b)"] = 1.2 * stall_speeds.V_S1
-        if stall_speeds.V_SR is not None:
-            limits["14 CFR 25.149(c)"] = 1.13 * stall_speeds.V_SR
+    from latdyn.steady_checks import rule_limits
+
+    limits = rule_limits("minimum_control_speed", stall_speeds)
     if len(engines) < 2:
         reason = "no [[engine]] tables" if not engines else "one engine only"
         return EngineOutResult(None, None, None, limits, (f"{reason}: engine-out control not computed",))

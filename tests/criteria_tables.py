@@ -122,3 +122,33 @@ LB = 0.45359237            # kg per lb (exact definition)
 # EASA AMC 25.147(f) [secondary: a quotation of the EASA page]: a roll from a steady 30 deg bank
 # through 60 deg to reverse the turn in at most 7 s, en-route and approach.
 AMC25_147F = (60.0, 7.0)
+
+# Static checks of steady flight (the project's criteria-sources reading, 2026, sections 2.3, 2.4
+# and 2.7).  (group, check) -> (sense, limit, exclusive, confidence); a limit that is a factor of a
+# stall speed is (reference, factor, at least [kt], at most [kt]).
+#   MIL-F-8785C (5 November 1980) 3.3.6.1 right pedal gives left sideslip, 3.3.6.2 more right
+#     bank with more right sideslip [from memory]; 3.3.6.3 left roll control with left sideslip
+#     [secondary, sign convention]; 3.3.6.3.2 at most 75 % of the roll control power for the
+#     dihedral effect, 3.3.7.1 at least 10 deg of sideslip in the power approach within 75 % roll
+#     control [secondary, printed p. 33].  The 10 deg at which 3.3.6.3.2 is taken is latdyn's
+#     reading (the paragraph says "sideslip angles that might be met in service").
+#   14 CFR 23.149(b) V_MC at most 1.2 V_S1 [published, 1-1-14 edition p. 199]; 25.149(c) at most
+#     1.13 V_SR [published, 2003 edition pp. 354-355]; 23.177(a)(1), (b)(1) [published, p. 203]
+#     and 25.177(a), (b) [published, pp. 391-392]: directional stability positive, lateral
+#     stability not negative; 23.233(a) at least 0.2 V_S0 and 25.237(a) 20 kt or 0.2 V_SR0,
+#     whichever is greater, need not exceed 25 kt [secondary: quotations of the rules].
+STEADY_CHECKS = {
+    ("mil-f-8785c-steady", "rudder_sense"): ("at_most", 0.0, True, "recalled"),
+    ("mil-f-8785c-steady", "bank_sense"): ("at_least", 0.0, True, "recalled"),
+    ("mil-f-8785c-steady", "roll_control_sense"): ("at_least", 0.0, True, "secondary"),
+    ("mil-f-8785c-steady", "dihedral_roll_control"): ("at_most", 0.75, False, "secondary"),
+    ("mil-f-8785c-steady", "crosswind_sideslip"): ("at_least", 0.17453292519943295, False, "secondary"),
+    ("14cfr23-steady", "directional_stability"): ("at_least", 0.0, True, "published"),
+    ("14cfr23-steady", "lateral_stability"): ("at_most", 0.0, False, "published"),
+    ("14cfr23-steady", "crosswind_component"): ("at_least", ("V_S0", 0.2, None, None), False, "secondary"),
+    ("14cfr23-steady", "minimum_control_speed"): ("at_most", ("V_S1", 1.2, None, None), False, "published"),
+    ("14cfr25-steady", "directional_stability"): ("at_least", 0.0, True, "published"),
+    ("14cfr25-steady", "lateral_stability"): ("at_most", 0.0, False, "published"),
+    ("14cfr25-steady", "crosswind_component"): ("at_least", ("V_SR0", 0.2, 20.0, 25.0), False, "secondary"),
+    ("14cfr25-steady", "minimum_control_speed"): ("at_most", ("V_SR", 1.13, None, None), False, "published"),
+}

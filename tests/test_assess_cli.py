@@ -78,7 +78,9 @@ def test_csv_rows(demo_files, capsys):
     assert rows and {"condition", "criteria", "edition", "mode", "level", "worst", "source"} <= set(rows[0])
     conditions = {r["condition"] for r in rows}
     for name in conditions:
-        assert sum(r["worst"] == "true" for r in rows if r["condition"] == name) == 1   # one set by default
+        # one criteria set by default, and its static-check group (mil-f-8785c-steady)
+        assert {r["criteria"] for r in rows} == {"mil-f-8785c", "mil-f-8785c-steady"}
+        assert sum(r["worst"] == "true" for r in rows if r["condition"] == name) == 2
 
 
 def test_table_shows_levels_margins_sources(demo_files, capsys):

@@ -128,11 +128,11 @@ def test_criteria_does_not_swallow_the_file(capsys):
     status, out, err = run(capsys, "assess", "--criteria", "mil-f-8785c", DEMO, "--format", "json")
     assert status == 0, err
     names = {e["criteria"] for c in json.loads(out)["conditions"] for e in c["assessments"]}
-    assert names == {"mil-f-8785c"}
+    assert names == {"mil-f-8785c", "mil-f-8785c-steady"}     # and the set's static checks
     status, out, _ = run(capsys, "assess", DEMO, "--criteria", "mil-f-8785c,14cfr23-181",
                          "--format", "json")
     names = {e["criteria"] for c in json.loads(out)["conditions"] for e in c["assessments"]}
-    assert status == 0 and names == {"mil-f-8785c", "14cfr23-181"}
+    assert status == 0 and names == {"mil-f-8785c", "14cfr23-181", "mil-f-8785c-steady", "14cfr23-steady"}
 
 
 @pytest.mark.parametrize("fmt", ["table", "markdown", "csv", "json"])

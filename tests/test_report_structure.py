@@ -48,9 +48,13 @@ def test_report_content_is_built_without_matplotlib():
     assert found["matplotlib"] == []
     assert "summary" in found["tables"] and "kestrel-k40-cruise-assessment" in found["tables"]
     assert "roll-response" in found["tables"]
-    assert len(found["tables"]) == 30                    # the demo report's CSV files (roll-response indicators and the mass and geometry as given included)
+    # the demo report's CSV files (roll-response indicators and the mass and geometry as given included),
+    # and per condition the three steady-flight tables with the static checks of MIL-F-8785C 3.3.6
+    # (3.3.7.1 in the Category C approach only)
+    assert len(found["tables"]) == 30 + 3 * 3 + 3 + 1
     assert ["kestrel-k40-s-plane", "s_plane"] in found["figures"]
-    assert len(found["figures"]) == 14                    # 28 files: PNG and SVG (a roll-performance figure per condition)
+    # PNG and SVG files: a roll-performance figure and a steady figure per condition
+    assert len(found["figures"]) == 14 + 3
     # the demo's spiral diverges slowly: the one row marked, in the report's words
     assert found["status"] == ["stable", "stable", "DIVERGENT"] and found["emphasis"] == [2]
 
@@ -69,7 +73,7 @@ def test_write_report_leaves_the_matplotlib_backend_alone(tmp_path, backend):
         print(before, matplotlib.get_backend(), "matplotlib.pyplot" in sys.modules)
     """)
     assert out.split() == [backend, backend, "False"]
-    assert len(list((tmp_path / "r" / "figures").glob("*.png"))) == 5
+    assert len(list((tmp_path / "r" / "figures").glob("*.png"))) == 5 + 1     # and the steady figure
 
 
 @pytest.fixture(scope="module")
@@ -96,7 +100,7 @@ def test_report_markdown_tables_are_recognised(demo_report):
     text = (demo_report / "report.md").read_text(encoding="utf-8")
     tokens = MarkdownIt("commonmark").enable("table").parse(text)
     report = build_report(DEMO, VARIANTS)
-    assert sum(t.type == "table_open" for t in tokens) == len(report.tables) == 30
+    assert sum(t.type == "table_open" for t in tokens) == len(report.tables) == 30 + 3 * 3 + 3 + 1
     headings = []
     for i, token in enumerate(tokens):
         if token.type == "th_open":

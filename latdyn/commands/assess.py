@@ -62,7 +62,7 @@ def worst_lines(result):
     >>> worst_lines(type("R", (), {"conditions": ()})())
     []
     """
-    from latdyn.modes import MODE_LABELS
+    from latdyn.report.tables import check_label
 
     lines = []
     for condition in result.conditions:
@@ -72,19 +72,19 @@ def worst_lines(result):
             if entry is None:
                 parts.append(f"{name}: not assessed")
             else:
-                parts.append(f"{name}: {entry.result} ({MODE_LABELS.get(entry.mode, entry.mode)})")
+                parts.append(f"{name}: {entry.result} ({check_label(entry.mode)})")
         lines.append(f"{condition.name}: " + "; ".join(parts))
     return lines
 
 
 def _notes(result):
     """"conditions / mode / criteria: note" lines, what is missing included."""
-    from latdyn.modes import MODE_LABELS
+    from latdyn.report.tables import check_label
 
     grouped = {}
     for condition in result.conditions:
         for a in condition.assessments:
-            label = MODE_LABELS.get(a.mode, a.mode)
+            label = check_label(a.mode)
             for note in list(a.notes) + [f"missing {item}" for item in a.missing]:
                 grouped.setdefault((label, a.criteria, note), []).append(condition.name)
     return [f"{', '.join(names)} / {label} / {criteria}: {note}"
@@ -129,7 +129,7 @@ def render_assessment(result, style="table", units=None) -> str:
     response = roll_response_table(result, units).select(RESPONSE_TEXT_VIEW)
     sources = assessment_sources(result)
     notes = list(result.notes) + _notes(result)
-    criteria = [f"{c.name}: {c.edition}" for c in result.criteria]
+    criteria = [f"{c.name}: {c.edition}" for c in result.graded_sets]
     explain = ("Worst: the row that limits each condition under each criteria set. "
                "Margin: to the next-better boundary, positive inside.")
     if style == "markdown":
@@ -199,7 +199,7 @@ def render_assessments(results, style="table", units=None) -> str:
                              for r, u in zip(results, units)) + "\n"
     lines = [f"# {NOTICE}"]
     for result in results:
-        for c in result.criteria:
+        for c in result.graded_sets:
             line = f"# criteria {c.name}: {c.edition}"
             if line not in lines:
                 lines.append(line)

@@ -67,6 +67,8 @@ class ConditionData:
         The component build-up of the derivatives (an aircraft with geometry tables only).
     variants : tuple of VariantCondition
         The compared variants' conditions of the same name (the base file of a comparison only).
+    steady : latdyn.steady.SteadyResult or None
+        Steady sideslips, crosswind capability and engine-out control.
     """
 
     result: object
@@ -76,6 +78,7 @@ class ConditionData:
     bank_ratios: tuple | None
     buildup: object = None
     variants: tuple = ()
+    steady: object = None
 
 
 @dataclass(frozen=True)
@@ -204,9 +207,14 @@ def _condition(aircraft, result, assessment, step):
         from latdyn.estimation import build_up
 
         buildup = build_up(aircraft, result.condition)
+    steady = getattr(assessment, "steady", None)
+    if steady is None:
+        from latdyn.steady import steady as solve_steady
+
+        (steady,) = solve_steady(aircraft, result.condition.name)
     if step is not None:
         step()
-    return ConditionData(result, assessment, responses, transfers, ratios, buildup)
+    return ConditionData(result, assessment, responses, transfers, ratios, buildup, steady=steady)
 
 
 def _with_variants(conditions, variants, assessments):

@@ -22,12 +22,12 @@ from latdyn.report.blocks import Figure, Heading, Notice, Paragraph, Report
 from latdyn.report.tables import (comparison_tables, flight_condition_table, given_table, mass_table,
                                   MODE_REPORT_VIEW, ASSESSMENT_REPORT_VIEW, assessment_table, mode_table,
                                   provenance_tables, readout_table, roll_response_table, summary_table,
-                                  transfer_table)
+                                  transfer_table, check_label)
 
 __all__ = ["SECTIONS", "report_content", "slug", "summary_section", "comparison_section",
            "conclusion_sentences", "document_table", "DOCUMENT_FIELDS",
            "aircraft_section", "condition_section", "warnings_section", "provenance_section",
-           "results_document", "buildup_blocks"]
+           "results_document", "buildup_blocks", "steady_blocks"]
 
 
 def slug(text) -> str:
@@ -59,9 +59,7 @@ def front_section(data, units=DEFAULT) -> list:
 
 def _check_words(entry):
     """"Dutch roll damping ratio 0.073 against 0.08 (margin -0.007, -8.8 %)" of an assessment."""
-    from latdyn.modes import MODE_LABELS
-
-    words = MODE_LABELS.get(entry.mode, entry.mode)
+    words = check_label(entry.mode)
     if entry.governing and entry.value is not None and entry.limit is not None:
         name = entry.governing.replace("_", " ")
         unit = f" {entry.unit}" if entry.unit and entry.unit != "-" else ""
@@ -93,11 +91,10 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
     []
     """
     from latdyn.assessment import below_level, level_words
-    from latdyn.modes import MODE_LABELS
 
     out = []
     for assessment in assessments:
-        for criteria in assessment.criteria:
+        for criteria in assessment.graded_sets:
             entries = [(condition.name, entry) for condition in assessment.conditions
                        for entry in condition.for_criteria(criteria.name) if entry.severity > 0]
             if not entries:
@@ -124,7 +121,7 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
             chosen = [(name, c) for name, c in moves if c.verdict == verdict]
             if chosen:
                 out.append(f"{comparison.variant} {word} against the base: " + "; ".join(
-                    f'"{name}" {MODE_LABELS.get(c.mode, c.mode)} under {c.criteria} '
+                    f'"{name}" {check_label(c.mode)} under {c.criteria} '
                     f"{level_words(c.base_level, c.base_pass)} -> {level_words(c.variant_level, c.variant_pass)}"
                     for name, c in chosen) + ".")
         if not moves:
@@ -134,7 +131,7 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
                          key=lambda item: -abs(item[1].change_percent))[:3]
         if changes:
             out.append(f"Largest changes of {comparison.variant}: " + "; ".join(
-                f'"{name}" {MODE_LABELS.get(f.mode, f.mode)} {f.figure.replace("_", " ")} '
+                f'"{name}" {check_label(f.mode)} {f.figure.replace("_", " ")} '
                 f"{format_number(f.change_percent, 1, style='fixed', signed=True)} %"
                 for name, f in changes) + ".")
     return out
@@ -314,6 +311,63 @@ def condition_section(item, data, units=DEFAULT) -> list:
         omega, zeta = data.bank_ratios
         blocks.append(Paragraph(f"Bank-to-aileron numerator: omega_phi/omega_d = {format_number(omega)}, "
                                 f"zeta_phi/zeta_d = {format_number(zeta)} (indicator, no level bands)."))
+    return blocks + steady_blocks(item, data, name, units)
+
+
+def _minimum_control_words(engine_out, units) -> str:
+    """The engine-out sentence: V_MC with the limiting control, the held derivatives beside it."""
+    from latdyn.steady import HELD_NOTE
+
+    case = engine_out.banked
+    if case is None or engine_out.failed_engine is None:
+        return "Engine out: " + "; ".join(engine_out.notes) + "."
+    bank = f"{abs(case.bank) * 180 / 3.141592653589793:g} deg bank toward the operating engine"
+    if case.minimum_control_speed is None:
+        return (f'Engine out ("{engine_out.failed_engine}" failed, {bank}): no minimum control speed '
+                f"in the speed range ({case.state}); {HELD_NOTE}.")
+    speed = case.calibrated_airspeed if case.calibrated_airspeed is not None else case.equivalent_airspeed
+    kind = "CAS" if case.calibrated_airspeed is not None else "EAS"
+    return (f'Engine out ("{engine_out.failed_engine}" failed, {bank}): minimum control speed '
+            f"{format_number(units.convert(speed, 'speed'))} {units.label('speed')} {kind}, limited by the "
+            f"{case.limited_by}; {HELD_NOTE}.")
+
+
+def steady_blocks(item, data, name, units=DEFAULT) -> list:
+    """Steady flight of one condition: sideslips, crosswind, engine out, each with its table, the
+    static checks graded beside it (guidance only) and the limiting control named."""
+    from latdyn.assessment import NOTICE
+    from latdyn.report.tables import STEADY_PARTS, assessment_table, steady_table
+
+    result = data.steady
+    if result is None:
+        return []
+    condition = result.condition
+    blocks = [Heading(4, f"{condition}: steady sideslip, crosswind and engine out", f"{name}-steady"),
+              Notice(NOTICE)]
+    graded = assessment_table(item.assessment, condition, f"{name}-static-checks",
+                              "Static checks (guidance only)").select(ASSESSMENT_REPORT_VIEW)
+    groups = {g.name for g in getattr(item.assessment, "checks", ())}
+    for part, (title, checks) in STEADY_PARTS.items():
+        blocks.append(Heading(5, title, f"{name}-steady-{part}"))
+        blocks.append(steady_table((result,), f"{name}-steady-{part}", units, part=part))
+        labels = {check_label(c) for c in checks}
+        rows = [i for i, row in enumerate(graded.rows)
+                if row["criteria"] in groups and row["mode"] in labels]
+        if rows:
+            blocks.append(replace(graded, name=f"{name}-static-checks-{part}",
+                                  caption=f"{title}: static checks (guidance only)",
+                                  rows=tuple(graded.rows[i] for i in rows),
+                                  emphasis=tuple(k for k, i in enumerate(rows) if i in graded.emphasis)))
+        if part == "crosswind" and result.crosswind.limited_by is not None:
+            blocks.append(Paragraph(f"Crosswind capability limited by the {result.crosswind.limited_by} "
+                                    f"(at most {100 * result.crosswind.roll_control_fraction:g} % of the "
+                                    "roll control)."))
+        if part == "engine_out":
+            blocks.append(Paragraph(_minimum_control_words(result.engine_out, units)))
+    blocks.append(Figure(f"{name}-steady", "Control deflections against sideslip, and rudder, aileron and "
+                         "sideslip against airspeed with one engine out (minimum control speed marked; "
+                         "the non-dimensional derivatives held over the speed range). Guidance only.",
+                         "steady", {"aircraft": item.aircraft, "result": result}))
     return blocks
 
 

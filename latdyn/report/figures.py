@@ -48,9 +48,15 @@ def _identification(result):
     return identification_figure(result)
 
 
+def _steady(aircraft, result):
+    from latdyn.plots.steady import steady_figure
+
+    return steady_figure([(aircraft, result)])
+
+
 #: ``Figure.kind`` -> function of the figure's arguments returning a matplotlib Figure.
 PLOTS = {"identification": _identification, "s_plane": _s_plane, "roll_spiral": _roll_spiral, "dutch_roll": _dutch_roll,
-         "time_history": _time_history, "roll_performance": _roll_performance}
+         "time_history": _time_history, "roll_performance": _roll_performance, "steady": _steady}
 
 
 def draw(spec):

@@ -28,7 +28,7 @@ __all__ = [
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
     "turbulence_table", "equivalent_table", "roll_response_table", "FIGURE_LABELS", "buildup_table", "buildup_caption",
-    "steady_table",
+    "steady_table", "check_label", "STEADY_PARTS",
 ]
 
 
@@ -446,6 +446,36 @@ def _worst_ids(condition):
     return ids
 
 
+def check_label(name) -> str:
+    """A mode or a static check in words (the name itself when it has no label).
+
+    >>> check_label("dutch_roll"), check_label("minimum_control_speed")
+    ('Dutch roll', 'Engine out: V_MC')
+    """
+    from latdyn.steady_checks import CHECK_LABELS
+
+    return MODE_LABELS.get(name, CHECK_LABELS.get(name, name))
+
+
+def _governing_label(entry) -> str:
+    from latdyn.steady_checks import QUANTITY_SYMBOLS
+
+    if entry.bank_change is not None:
+        return f"t to {math.degrees(entry.bank_change):.0f} deg [s]"
+    if entry.governing in QUANTITY_SYMBOLS:
+        unit = "deg" if entry.unit == "rad" else entry.unit
+        symbol = QUANTITY_SYMBOLS[entry.governing]
+        return f"{symbol} [{unit}]" if unit else symbol
+    return parameter_label(entry.mode, entry.governing)
+
+
+def _display_angle(entry, value):
+    """Static-check angles are shown in degrees (the JSON keeps radians)."""
+    if value is None or entry.unit != "rad":
+        return value
+    return math.degrees(value)
+
+
 def _assessment_row(assessment, condition, entry, sources, worst):
     ref = "-"
     if entry.source:
@@ -455,14 +485,14 @@ def _assessment_row(assessment, condition, entry, sources, worst):
         "condition": condition.name,
         "category": condition.category or Absent("not given"),
         "airplane_class": condition.airplane_class,
-        "mode": MODE_LABELS.get(entry.mode, entry.mode), "mode_name": entry.mode,
+        "mode": check_label(entry.mode), "mode_name": entry.mode,
         "criteria": entry.criteria, "edition": entry.edition,
         "level": entry.level, "pass": entry.passed, "result": entry.result,
-        "governing": parameter_label(entry.mode, entry.governing) if entry.bank_change is None
-        else f"t to {math.degrees(entry.bank_change):.0f} deg [s]", "governing_name": entry.governing,
+        "governing": _governing_label(entry), "governing_name": entry.governing,
         "unit": entry.unit,
-        "value": entry.value if entry.value is not None else Absent(value_reason(entry)),
-        "limit": entry.limit, "margin": entry.margin, "margin_fraction": entry.margin_fraction,
+        "value": _display_angle(entry, entry.value) if entry.value is not None else Absent(value_reason(entry)),
+        "limit": _display_angle(entry, entry.limit), "margin": _display_angle(entry, entry.margin),
+        "margin_fraction": entry.margin_fraction,
         "margin_percent": None if entry.margin_fraction is None else 100 * entry.margin_fraction,
         "ref": ref, "source": entry.source, "notes": " | ".join(entry.notes),
         "missing": " | ".join(entry.missing), "worst": id(entry) in worst,
@@ -514,7 +544,7 @@ def summary_table(assessments, name="summary", caption="Worst result per conditi
     for assessment in assessments:
         sources = assessment_sources(assessment)
         for item in assessment.conditions:
-            for criteria in assessment.criteria:
+            for criteria in assessment.graded_sets:
                 worst = item.worst(criteria.name)
                 if worst is not None:
                     closeness = worst.margin_fraction if worst.margin_fraction is not None else (
@@ -552,7 +582,7 @@ def comparison_tables(comparison, prefix="comparison", units=DEFAULT) -> tuple:
     for condition in comparison.conditions:
         for item in condition.figures:
             figures.append({"condition": condition.name,
-                            "mode": MODE_LABELS.get(item.mode) or _FIGURE_GROUPS[item.mode],
+                            "mode": MODE_LABELS.get(item.mode) or _FIGURE_GROUPS.get(item.mode) or check_label(item.mode),
                             "figure": item.figure, "unit": item.unit, "base": item.base,
                             "variant": item.variant, "change": item.change,
                             "change_percent": item.change_percent})
@@ -560,7 +590,7 @@ def comparison_tables(comparison, prefix="comparison", units=DEFAULT) -> tuple:
             verdict = item.verdict.upper() if item.verdict in ("improved", "degraded") else item.verdict
             if verdict != item.verdict:
                 moved.append(len(levels))
-            levels.append({"condition": condition.name, "mode": MODE_LABELS[item.mode],
+            levels.append({"condition": condition.name, "mode": check_label(item.mode),
                            "criteria": item.criteria,
                            "base": level_words(item.base_level, item.base_pass),
                            "variant": level_words(item.variant_level, item.variant_pass),
@@ -930,21 +960,44 @@ def roll_response_table(assessments, units=DEFAULT, name="roll-response") -> Tab
                  "pedals free)", columns, tuple(rows))
 # ------------------------------------------------------------------ steady flight
 
-def steady_table(results, name="steady", units=DEFAULT, aircraft=None) -> Table:
+#: Parts of the steady-flight results, with the static checks shown beside each.
+STEADY_PARTS = {
+    "sideslip": ("Steady sideslips", ("rudder_sense", "bank_sense", "roll_control_sense",
+                                      "dihedral_roll_control", "directional_stability",
+                                      "lateral_stability")),
+    "crosswind": ("Crosswind capability", ("crosswind_sideslip", "crosswind_component")),
+    "engine_out": ("One engine out", ("minimum_control_speed",)),
+}
+
+
+def _steady_part(quantity) -> str:
+    if quantity.startswith(("crosswind", )):
+        return "crosswind"
+    if quantity.startswith(("minimum control speed", "limit of", "engine-out")):
+        return "engine_out"
+    return "sideslip"
+
+
+def steady_table(results, name="steady", units=DEFAULT, aircraft=None, part=None) -> Table:
     """Steady sideslips, crosswind capability and engine-out control of
     :func:`latdyn.steady.steady` results: one row per condition and quantity
     (with an ``aircraft`` column holding ``aircraft`` when it is given).
 
     ``value`` is in the display unit of ``units`` named in ``unit`` (angles in
     degrees, per-degree gradients in deg/deg), airspeeds also in knots.
+    ``part`` ("sideslip", "crosswind" or "engine_out") keeps the rows of one
+    part (:data:`STEADY_PARTS`); None keeps all.
     """
     from latdyn.steady import HELD_NOTE, LINEAR_NOTE
+    from latdyn.steady_checks import rule_words
     from latdyn.units import KNOT
 
     held = "non-dimensional derivatives held over the speed range"
     rows = []
 
     def add(condition, quantity, value, kind, limited_by=None, note=""):
+        if part is not None and _steady_part(quantity) != part:
+            return
         if kind == "speed":
             unit, shown = units.label("speed"), units.convert(value, "speed")
             knots = None if value is None else value / KNOT
@@ -998,9 +1051,9 @@ def steady_table(results, name="steady", units=DEFAULT, aircraft=None) -> Table:
                 kind = "CAS" if case.calibrated_airspeed is not None else "EAS"
                 value = case.calibrated_airspeed if kind == "CAS" else case.equivalent_airspeed
                 add(name_, f"minimum control speed ({kind}), {label}", value, "speed", case.limited_by, held)
+        words = rule_words("minimum_control_speed")
         for rule, value in e.limits.items():
-            add(name_, f"limit of {rule} (CAS)", value, "speed", None,
-                "1.2 V_S1" if "23" in rule else "1.13 V_SR")
+            add(name_, f"limit of {rule} (CAS)", value, "speed", None, words.get(rule, ""))
         extra = [n for n in e.notes if n != HELD_NOTE]
         if extra:
             add(name_, "engine-out notes", None, "none", None, "; ".join(extra))
@@ -1010,7 +1063,8 @@ def steady_table(results, name="steady", units=DEFAULT, aircraft=None) -> Table:
     if aircraft is not None:
         columns = (Column("aircraft", "Aircraft"),) + columns
         rows = [{"aircraft": aircraft, **row} for row in rows]
-    return Table(name, "Steady sideslips, crosswind and engine out", columns, tuple(rows))
+    caption = "Steady sideslips, crosswind and engine out" if part is None else STEADY_PARTS[part][0]
+    return Table(name, caption, columns, tuple(rows))
 
 
 
