@@ -52,7 +52,7 @@ __all__ = [
     "crosswind_component", "thrust_moments", "engine_out_solution", "minimum_control_speed",
     "SteadyBalance", "SideslipResult", "CrosswindResult", "EngineOutCase", "EngineOutResult",
     "SteadyResult", "steady_balance", "steady_sideslip", "crosswind_capability", "engine_out",
-    "steady", "control_travel",
+    "steady", "control_travel", "primed_forcing", "static_derivatives",
 ]
 
 #: Said beside every engine-out result.
@@ -263,13 +263,13 @@ def thrust_moments(positions, thrusts, failed, failed_drag):
 
     Parameters
     ----------
-    positions : array (n,)
-        Lateral positions y_i [m].
+    positions : array (..., n)
+        Lateral positions y_i [m] (the engines along the last axis).
     thrusts : array (..., n)
         Thrust of every engine [N].
     failed : int
         Index of the failed engine.
-    failed_drag : float
+    failed_drag : float or array
         Its drag [N].
 
     Examples
@@ -281,9 +281,78 @@ def thrust_moments(positions, thrusts, failed, failed_drag):
     """
     y = np.asarray(positions, dtype=float)
     T = np.array(thrusts, dtype=float)
-    operating = np.ones(y.shape, dtype=bool)
+    operating = np.ones(y.shape[-1], dtype=bool)
     operating[failed] = False
-    return -np.sum(np.where(operating, y * T, 0.0), axis=-1) + y[failed] * failed_drag
+    return -np.sum(np.where(operating, y * T, 0.0), axis=-1) + y[..., failed] * failed_drag
+
+
+def primed_forcing(yawing_moment_body, angle, Ixx, Izz, Ixz):
+    """Primed forcing rows (..., 3) of a body-axis yawing moment N_b [N m].
+
+    The body moment (0, N_b) seen in axes rotated by ``angle`` about y (alpha
+    for stability-axis derivatives, 0 for body axes): L = sin(angle) N_b,
+    N = cos(angle) N_b; primed with the inertias of those axes,
+    L' = (L/Ixx + (Ixz/Ixx) N/Izz) / (1 - Ixz^2/(Ixx Izz)) and likewise N'
+    (Etkin & Reid, 3rd ed., 1996, section 4.9).  Broadcasts over every argument.
+
+    Examples
+    --------
+    >>> primed_forcing(1000.0, 0.0, 2000.0, 5000.0, 0.0).tolist()
+    [0.0, 0.0, 0.2]
+    """
+    N_b = np.asarray(yawing_moment_body, dtype=float)
+    angle, Ixx, Izz, Ixz = (np.asarray(v, dtype=float) for v in (angle, Ixx, Izz, Ixz))
+    L, N = np.sin(angle) * N_b, np.cos(angle) * N_b
+    gain = 1.0 / (1.0 - Ixz**2 / (Ixx * Izz))
+    rolling = gain * (L / Ixx + (Ixz / Ixx) * N / Izz)
+    yawing = gain * (N / Izz + (Ixz / Izz) * L / Ixx)
+    rolling, yawing = np.broadcast_arrays(rolling, yawing)
+    return np.stack([np.zeros_like(rolling), rolling, yawing], axis=-1)
+
+
+def static_derivatives(values, primed, derivatives, alpha, inertia):
+    """Static directional and lateral derivatives in stability axes, over a batch.
+
+    Non-dimensional files: (Cn_beta, Cl_beta) [1/rad], rotated from body axes
+    by alpha (:func:`latdyn.model.rotate_coefficients`).  Dimensional files:
+    the unprimed (N_beta, L_beta) [1/s^2], L = L' - (Ixz/Ixx) N' and
+    N = N' - (Ixz/Izz) L' (the inverse of :func:`latdyn.model.prime`) where the
+    inertias are known, the primed values otherwise: each has the sign of its
+    coefficient.
+
+    Parameters
+    ----------
+    values : mapping
+        Inputs as given (the coefficients of a non-dimensional file) [SI].
+    primed : mapping
+        Primed dimensional derivatives in the derivatives' axes.
+    derivatives : NondimensionalDerivatives or DimensionalDerivatives
+        For the kind of file and its axes.
+    alpha : float or array
+        [rad].
+    inertia : array (..., 3) or None
+        (Ixx, Izz, Ixz) in the derivatives' axes [kg m^2].
+
+    Returns
+    -------
+    (directional, lateral) : arrays
+    """
+    from latdyn.aircraft import NondimensionalDerivatives
+    from latdyn.model import rotate_coefficients, rotate_inertia, rotate_primed
+
+    if isinstance(derivatives, NondimensionalDerivatives):
+        coefficients = {k: values[k] for k in ("Cy_beta", "Cl_beta", "Cn_beta")}
+        if derivatives.axes == "body":
+            coefficients = rotate_coefficients(coefficients, alpha)
+        return np.asarray(coefficients["Cn_beta"], float), np.asarray(coefficients["Cl_beta"], float)
+    stab = primed if derivatives.axes == "stability" else rotate_primed(primed, alpha)
+    L, N = np.asarray(stab["L_beta"], float), np.asarray(stab["N_beta"], float)
+    if inertia is not None:
+        Ixx, Izz, Ixz = (np.asarray(inertia, float)[..., k] for k in range(3))
+        if derivatives.axes != "stability":
+            Ixx, Izz, Ixz = rotate_inertia(Ixx, Izz, Ixz, alpha)
+        L, N = L - (Ixz / Ixx) * N, N - (Ixz / Izz) * L
+    return N, L
 
 
 def engine_out_solution(matrix, reference_speed, speeds, forcing, sin_bank):
@@ -407,23 +476,14 @@ class SteadyBalance:
         """Primed forcing rows (..., 3) of a body-axis yawing moment [N m] (None without inertia)."""
         if self.inertia is None:
             return None
-        N_b = np.asarray(yawing_moment_body, dtype=float)
         angle = self.alpha if self.axes == "stability" else 0.0
-        # body moment (0, N_b) in the derivatives' axes: M' = R M, R = [[c, s], [-s, c]]
-        L, N = math.sin(angle) * N_b, math.cos(angle) * N_b
-        Ixx, Izz, Ixz = self.inertia
-        gain = 1.0 / (1.0 - Ixz**2 / (Ixx * Izz))
-        out = np.zeros(N_b.shape + (3,))
-        out[..., 1] = gain * (L / Ixx + (Ixz / Ixx) * N / Izz)
-        out[..., 2] = gain * (N / Izz + (Ixz / Izz) * L / Ixx)
-        return out
+        return primed_forcing(yawing_moment_body, angle, *self.inertia)
 
 
 def steady_balance(aircraft, condition) -> SteadyBalance:
     """The balance of a condition (see :func:`balance_matrix`)."""
     from latdyn.aircraft import NondimensionalDerivatives
-    from latdyn.model import (DIMENSIONAL_NAMES, primed_derivatives, rotate_coefficients,
-                              rotate_inertia, rotate_primed)
+    from latdyn.model import DIMENSIONAL_NAMES, primed_derivatives, rotate_inertia
 
     if isinstance(condition, str):
         condition = aircraft.condition(condition)
@@ -441,22 +501,15 @@ def steady_balance(aircraft, condition) -> SteadyBalance:
             inertia = tuple(float(v) for v in rotate_inertia(m.Ixx, m.Izz, m.Ixz, angle))
     derivatives = condition.derivatives
     lift = None
+    given = {k: getattr(derivatives, k) for k in ("Cy_beta", "Cl_beta", "Cn_beta")} \
+        if isinstance(derivatives, NondimensionalDerivatives) else {}
+    N, L = (float(v) for v in static_derivatives(given, values, derivatives, flight.alpha, inertia))
     if isinstance(derivatives, NondimensionalDerivatives):
-        coefficients = {k: getattr(derivatives, k) for k in ("Cy_beta", "Cl_beta", "Cn_beta")}
-        if derivatives.axes == "body":
-            coefficients = rotate_coefficients(coefficients, flight.alpha)
-        static = {k: float(coefficients[k]) for k in ("Cy_beta", "Cl_beta", "Cn_beta")}
+        static = {"Cy_beta": float(given["Cy_beta"]), "Cl_beta": L, "Cn_beta": N}
         if m is not None and m.mass is not None and aircraft.geometry is not None:
             lift = (m.mass * STANDARD_GRAVITY * math.cos(flight.gamma)
                     / (flight.dynamic_pressure * aircraft.geometry.wing_area))
     else:
-        stab = values if primed.axes == "stability" else rotate_primed(values, flight.alpha)
-        L, N = float(stab["L_beta"]), float(stab["N_beta"])
-        if inertia is not None:
-            Ixx, Izz, Ixz = inertia
-            if primed.axes != "stability":
-                Ixx, Izz, Ixz = (float(v) for v in rotate_inertia(*inertia, flight.alpha))
-            L, N = L - (Ixz / Ixx) * N, N - (Ixz / Izz) * L  # unprimed: L = L' - (Ixz/Ixx) N'
         static = {"Y_beta": float(flight.speed * values["Y_v"]), "L_beta": L, "N_beta": N}
     return SteadyBalance(matrix, flight.speed, flight.density, flight.gamma, flight.alpha,
                          primed.axes, inertia, lift, static)

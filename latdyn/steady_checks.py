@@ -211,6 +211,7 @@ class CheckGroup:
     checks: tuple
     assessment: str = "pass_fail"
     grades: int = 1
+    roll_performance = None  # criteria-set interface: no roll-performance rows
 
     @property
     def document(self) -> str:

@@ -129,5 +129,7 @@ def test_wheel_installs_and_assesses_in_a_fresh_environment(sdist, tmp_path):
     document = json.loads(result.stdout)
     assert document["latdyn_version"] == latdyn.__version__
     grades = [a for c in document["conditions"] for a in c["assessments"]]
-    assert {a["criteria"] for a in grades} == {"mil-f-8785c"}
-    assert all(a["level"] in (1, 2, 3, 4) for a in grades)
+    assert {a["criteria"] for a in grades} == {"mil-f-8785c", "mil-f-8785c-steady"}
+    assert all(a["level"] in (1, 2, 3, 4) for a in grades if a["criteria"] == "mil-f-8785c")
+    # the static checks' data file (latdyn/criteria/steady/) is in the wheel
+    assert all(a["pass"] in (True, False) for a in grades if a["criteria"] == "mil-f-8785c-steady")

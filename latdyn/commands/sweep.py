@@ -23,8 +23,9 @@ def add_arguments(parser):
                              "condition.derivatives.Cn_beta, N_r), mass, Ixx, Izz, Ixz, speed, "
                              "altitude, density, alpha_deg, gamma_deg, fin.area_ratio, "
                              "fin.arm_ratio, controls.aileron_deg, controls.rudder_deg, "
-                             "controls.aileron_rate_deg_s, controls.rudder_rate_deg_s; values in the "
-                             "file's units and degrees")
+                             "controls.aileron_rate_deg_s, controls.rudder_rate_deg_s, "
+                             "engine.NAME.thrust, engine.NAME.lateral_position, "
+                             "engine.NAME.failed_drag; values in the file's units and degrees")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     parser.add_argument("--roll-performance", action="store_true",
                         help="grade roll performance at every point and root-find its level "

@@ -106,7 +106,9 @@ def sweep_figure(result, fig=None):
             ("dutch_roll_damping", axis_label("damping ratio", "zeta", "-"), "dutch_roll", False),
             ("roll_time_constant", axis_label("roll", "T_R", "s"), "roll_subsidence", True),
             ("spiral_time_to_double", axis_label("spiral (divergent)", "T_2", "s"), "spiral", True))
-    sets = list(dict.fromkeys(name for item in result.conditions for name, _ in item.result.levels))
+    # the modes' levels (the static checks of steady flight are in the sweep's tables and JSON)
+    sets = list(dict.fromkeys(name for item in result.conditions for name, mode in item.result.levels
+                              if mode in MODE_COLOURS))
     for column, (item, current) in enumerate(zip(result.conditions, currents)):
         f, here = item.result.figures, current.result.figures
         panels = grid[:, column]
@@ -135,6 +137,8 @@ def sweep_figure(result, fig=None):
                           va="center", fontsize=7.5, color=MUTED)
         bottom = panels[-1]
         for (name, mode), grades in item.result.levels.items():
+            if mode not in MODE_COLOURS:
+                continue
             level = grades.level.astype(float)
             level[level == 0] = np.nan
             k = sets.index(name)
@@ -260,7 +264,8 @@ def level_map_figure(result, fig=None):
     from latdyn.studies.sweep import current_design
 
     first, second = result.axes
-    sets = [c for c in result.criteria if c.assessment == "levels"] or list(result.criteria)
+    modal = [c for c in result.criteria if getattr(c, "checks", None) is None]   # not the static checks
+    sets = [c for c in modal if c.assessment == "levels"] or modal
     rows, columns = len(result.conditions), len(sets)
     figure = figure_for(fig, 5.0 * columns + 3.0, 4.6 * rows + 1.0)
     panels = figure.subplots(rows, columns + 1, squeeze=False, width_ratios=[1.0] * columns + [0.05])

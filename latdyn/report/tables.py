@@ -723,7 +723,7 @@ def sweep_table(result, name="sweep") -> Table:
                 value = float(getattr(figures, column.key)[i])
                 row[column.key] = value if np.isfinite(value) else None
             for criteria in result.criteria:
-                parts = [f"{_MODE_SHORT[mode]} {level_text(criteria, grades.level[i])}"
+                parts = [f"{_MODE_SHORT.get(mode, mode)} {level_text(criteria, grades.level[i])}"
                          for (set_name, mode), grades in item.result.levels.items()
                          if set_name == criteria.name and int(grades.level[i]) != 0]
                 row[f"levels:{criteria.name}"] = ", ".join(parts) or "-"

@@ -20,8 +20,13 @@ axes), ``speed`` (true airspeed), ``density``, ``altitude`` (sets the
 density from the 1976 standard atmosphere, true airspeed held), ``alpha``,
 ``gamma``, ``wing_area``, ``span``, ``fin.area_ratio``,
 ``fin.arm_ratio`` (see :mod:`latdyn.studies.fin`), the augmentation's
-gains and time constants :data:`AUGMENTATION_PARAMETERS` [s, rad/rad], and
-the control travel and rate limits :data:`CONTROL_PARAMETERS` [rad, rad/s].
+gains and time constants :data:`AUGMENTATION_PARAMETERS` [s, rad/rad],
+the control travel and rate limits :data:`CONTROL_PARAMETERS` [rad, rad/s], and
+for an aircraft with engines ``engine.<name>.lateral_position`` [m],
+``engine.<name>.thrust`` and ``engine.<name>.failed_drag`` [N]
+(:func:`latdyn.studies.steady_batch.engine_parameters`), which only the
+static checks of steady flight use (a case set with static-check groups among
+its criteria gets their verdicts, :func:`latdyn.studies.steady_batch.steady_grades`).
 
 Roll performance (:mod:`latdyn.roll_performance`) is graded, where asked for
 (``roll=True``) or where the cases vary a control key (:func:`grades_roll`),
@@ -53,7 +58,7 @@ __all__ = [
     "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
     "condition_set", "geometry_names", "sweep_notes", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
     "takes_augmented_path", "closed_loop_matrices", "mode_arrays", "CONTROL_PARAMETERS", "roll_models",
-    "roll_levels", "grades_roll",
+    "roll_levels", "grades_roll", "case_primed",
 ]
 
 #: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
@@ -148,6 +153,9 @@ def parameter_names(aircraft, condition) -> tuple:
         names += geometry_names(aircraft)
     names += list(AUGMENTATION_PARAMETERS)
     names += list(CONTROL_PARAMETERS)
+    from latdyn.studies.steady_batch import engine_parameters
+
+    names += list(engine_parameters(aircraft))
     return tuple(names)
 
 
@@ -262,6 +270,22 @@ def case_inputs(cases: CaseSet) -> dict:
     return values
 
 
+def case_primed(cases: CaseSet, inputs=None):
+    """(inputs, primed dimensional derivatives) of every case (:func:`case_inputs`, or ``inputs``
+    where already computed; :func:`latdyn.model.primed_values`) [SI, rad]."""
+    v = case_inputs(cases) if inputs is None else inputs
+    derivatives = cases.condition.derivatives
+    mass = cases.aircraft.mass
+    nondimensional = v["nondimensional"]
+    names = COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES
+    primed = primed_values({name: v[name] for name in names}, nondimensional,
+                           getattr(derivatives, "primed", False), derivatives.axes,
+                           mass.axes if mass is not None else None, v["alpha"], v["wing_area"],
+                           v["span"], v["mass"], v["Ixx"], v["Izz"], v["Ixz"], v["density"],
+                           v["speed"])
+    return v, primed
+
+
 def case_matrices(cases: CaseSet) -> np.ndarray:
     """State matrices (N, 4, 4) of the case set (:func:`latdyn.model.lateral_matrices`)."""
     return case_models(cases, outputs=False)[0]
@@ -274,17 +298,8 @@ def case_models(cases: CaseSet, outputs=True, inputs=None):
     """
     from latdyn.model import output_matrices
 
-    v = case_inputs(cases) if inputs is None else inputs
-    condition = cases.condition
-    derivatives = condition.derivatives
-    mass = cases.aircraft.mass
-    nondimensional = v["nondimensional"]
-    names = COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES
-    primed = primed_values({name: v[name] for name in names}, nondimensional,
-                           getattr(derivatives, "primed", False), derivatives.axes,
-                           mass.axes if mass is not None else None, v["alpha"], v["wing_area"],
-                           v["span"], v["mass"], v["Ixx"], v["Izz"], v["Ixz"], v["density"],
-                           v["speed"])
+    v, primed = case_primed(cases, inputs)
+    derivatives = cases.condition.derivatives
     alpha_equations, theta = equation_angles(derivatives.axes, v["alpha"], v["gamma"])
     A, B = lateral_matrices(primed, v["speed"], alpha_equations, theta)
     n = cases.size
@@ -616,9 +631,11 @@ def _concatenate(parts):
 
 
 def _load_sets(criteria_sets):
+    """Criteria sets (loaded by name or path) and static-check groups, as given."""
     from latdyn.criteria_sets import CriteriaSet, load_criteria
+    from latdyn.steady_checks import CheckGroup
 
-    return tuple(c if isinstance(c, CriteriaSet) else load_criteria(c) for c in criteria_sets)
+    return tuple(c if isinstance(c, (CriteriaSet, CheckGroup)) else load_criteria(c) for c in criteria_sets)
 
 
 def grades_roll(cases: CaseSet, roll=None) -> bool:
@@ -644,14 +661,22 @@ def _chunk_result(cases, criteria_sets, phase, path=False, levels_only=False, ro
         figures = mode_figures(track_modes(A))
     else:
         figures = mode_figures(analyse_stack(case_matrices(cases), vectors=False))
+    from latdyn.steady_checks import CheckGroup
+
     flight = cases.condition.flight
     altitude = cases.overrides.get("altitude", flight.altitude)
-    levels = assess_figures(figures, criteria_sets, cases.aircraft.airplane_class, flight.category,
-                            phase, altitude, levels_only) if criteria_sets else {}
-    rolls, time, change = roll_levels(cases, criteria_sets, phase, levels_only) if roll else ({}, None, None)
+    groups = [c for c in criteria_sets if isinstance(c, CheckGroup)]
+    sets = [c for c in criteria_sets if not isinstance(c, CheckGroup)]
+    levels = assess_figures(figures, sets, cases.aircraft.airplane_class, flight.category,
+                            phase, altitude, levels_only) if sets else {}
+    rolls, time, change = roll_levels(cases, sets, phase, levels_only) if roll else ({}, None, None)
     if rolls:
         levels.update(rolls)
         figures = replace(figures, time_to_bank=time, bank_change=change)
+    if groups:
+        from latdyn.studies.steady_batch import steady_grades
+
+        levels.update(steady_grades(cases, groups, phase))
     return BatchResult(figures, levels)
 
 

@@ -8,10 +8,12 @@ A key is a derivative (``Cn_beta`` or ``condition.derivatives.Cn_beta``;
 ``fin.area_ratio`` / ``fin.arm_ratio``, ``mach``, a geometry key of a
 file whose derivatives are estimated (``wing.dihedral_deg``, ``fin.area``,
 ``fuselage.volume``, ...; see :mod:`latdyn.estimation`), or an augmentation gain or time
-constant (``augmentation.yaw_damper_gain`` ..., always SI: s and rad/rad), or a control
+constant (``augmentation.yaw_damper_gain`` ..., always SI: s and rad/rad), a control
 travel or rate limit (``controls.aileron_deg``, ``controls.rudder_deg`` in degrees each way,
 ``controls.aileron_rate_deg_s``, ``controls.rudder_rate_deg_s`` in degrees per second;
-optionally with ``condition.``).  Values are in the units of the
+optionally with ``condition.``), or an engine's ``engine.<name>.lateral_position``,
+``engine.<name>.thrust`` (a constant thrust) or ``engine.<name>.failed_drag`` (file units:
+m or ft, N or lbf).  Values are in the units of the
 aircraft file (its ``units`` word) and degrees for the angles; they are
 converted to SI and radians here, at the edge.
 """
@@ -111,6 +113,10 @@ def _dimension(name):
         return keys.get(field) if isinstance(keys.get(field), str) else "none"
     if name.startswith("augmentation."):
         return "ratio" if name == "augmentation.interconnect_gain" else "second"
+    if name.startswith("engine."):
+        from latdyn.studies.steady_batch import ENGINE_FIELDS
+
+        return ENGINE_FIELDS.get(name.rsplit(".", 1)[-1], "none")
     for table in (SCHEMA["condition"]["dimensional"], SCHEMA["condition"], SCHEMA["mass"],
                   SCHEMA["geometry"]):
         if name in table and isinstance(table[name], str):

@@ -6,8 +6,10 @@ mass, inertias, speed, density, area and span; Ixz^2 < Ixx Izz; |alpha|,
 |gamma| and |alpha + gamma| below 90 degrees; the altitude inside the
 standard atmosphere; control travel above 0 and below 90 degrees each way and
 rate limits above 0; every number inside the plausible range of its
-dimension (:data:`latdyn.aircraft_file.PLAUSIBLE_RANGES`); and the fin ratios
-of :mod:`latdyn.studies.fin` (area ratio >= 0, arm ratio > 0).
+dimension (:data:`latdyn.aircraft_file.PLAUSIBLE_RANGES`); an engine's
+lateral position, thrust (>= 0) and failed drag (>= 0) as its ``[[engine]]``
+table; and the fin ratios of :mod:`latdyn.studies.fin` (area ratio >= 0, arm
+ratio > 0).
 
 * A sweep grid is checked at its corners through the file's own loader
   (the aircraft file with the corner's values put in, then
@@ -73,6 +75,13 @@ def _check_direct(aircraft, condition, key, value, others):
                 f"{' ' + key.unit if key.unit else ''}, a plausible range", others)
 
 
+def _engine_entry(tree, aircraft, name):
+    """The ``[[engine]]`` table of the engine ``name`` (named, or "engine N" by its place)."""
+    engines = tree.get("engine", [])
+    index = [e.name for e in aircraft.engines].index(name)
+    return engines[index]
+
+
 def _condition_entry(tree, name):
     for entry in tree.get("condition", []):
         leaf = entry.get("name")
@@ -104,7 +113,7 @@ def check_grid(aircraft, condition, axes):
         through_file = []
         for key, value in pairs:
             others = [(k, v) for k, v in pairs if k is not key]
-            if key.name in _TREE_PATHS:
+            if key.name in _TREE_PATHS or key.name.startswith("engine."):
                 through_file.append((key, value))
             else:
                 _check_direct(aircraft, condition, key, value, others)
@@ -115,6 +124,10 @@ def check_grid(aircraft, condition, axes):
         trial = copy.deepcopy(tree)
         entry = _condition_entry(trial, condition.name)
         for key, value in through_file:
+            if key.name.startswith("engine."):
+                engine, field = key.name[len("engine."):].rsplit(".", 1)
+                _engine_entry(trial, aircraft, engine)[field] = Leaf(value, aircraft.file, key.units)
+                continue
             table, name = _TREE_PATHS[key.name]
             if table == "condition.controls":
                 target = entry.setdefault("controls", {})
@@ -128,7 +141,9 @@ def check_grid(aircraft, condition, axes):
         except InputError as error:
             key, value = through_file[0]
             for candidate, candidate_value in through_file:
-                if error.key and error.key.endswith(_TREE_PATHS[candidate.name][1]):
+                field = (candidate.name.rsplit(".", 1)[1] if candidate.name.startswith("engine.")
+                         else _TREE_PATHS[candidate.name][1])
+                if error.key and error.key.endswith(field):
                     key, value = candidate, candidate_value
             others = [(k, v) for k, v in pairs if k is not key]
             _refuse(aircraft, condition, key, value, error.expected, others)

@@ -10,6 +10,14 @@ variant of regula falsi (Dowell and Jarratt, BIT 11, 1971) on the margin of
 the full pipeline, each iteration one call of the batched engine for all
 brackets.
 
+The static checks of steady flight tied to the criteria sets
+(:mod:`latdyn.steady_checks`; the engine-out minimum control speed against
+1.2 V_S1 or 1.13 V_SR, ...) are graded at every point as pass/fail sets of
+their own (:mod:`latdyn.studies.steady_batch`), so their boundaries are
+root-found the same way: for example the rudder power ``Cn_dr`` at which
+V_MC reaches 1.2 V_S1.  Each point's ``static_checks`` in the JSON gives
+their values, limits and signed margins.
+
 Levels are guidance only (:data:`latdyn.assessment.NOTICE`).
 """
 
@@ -29,7 +37,7 @@ from latdyn.studies.rules import check_grid
 __all__ = ["SweepAxis", "Crossing", "ConditionSweep", "SweepResult", "parse_range", "sweep",
            "find_crossings", "boundary_name", "MAX_POINTS", "level_text",
            "sweep_document", "SUMMARY_POINTS", "level_shares", "figure_ranges", "CurrentDesign",
-           "current_design"]
+           "current_design", "static_check_groups", "STATIC_CHECK_POINTS"]
 
 #: Largest grid (points per condition) a sweep accepts [-].
 MAX_POINTS = 1_000_000
@@ -378,6 +386,7 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False,
                          f"{math.prod(r[3] for r in ranges)}")
     sets = _load_sets(criteria_sets if criteria_sets is not None
                       else default_criteria(aircraft.airplane_class))
+    sets += static_check_groups(sets, math.prod(r[3] for r in ranges))
     chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
     words = file_units(aircraft)
     items, notes = [], ()
@@ -398,6 +407,13 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False,
         crossings = find_crossings(aircraft, item, axes, result, sets, roll)
         items.append(ConditionSweep(item, result, crossings))
         notes += sweep_notes(aircraft, item, [axis.key.name for axis in axes])
+        if any(key == (g.name, "minimum_control_speed") for g in sets for key in result.levels):
+            from latdyn.steady import HELD_NOTE
+
+            notes += (f"{item.name}: engine-out minimum control speed: {HELD_NOTE} at each point",)
+    if math.prod(r[3] for r in ranges) > STATIC_CHECK_POINTS and static_check_groups(sets, 1):
+        notes += (f"static checks of steady flight not graded on grids above {STATIC_CHECK_POINTS} "
+                  "points",)
     return SweepResult(aircraft, axes, sets, tuple(items), tuple(notes))
 
 
@@ -468,6 +484,23 @@ def current_design(result: SweepResult) -> tuple:
             values.append(math.nan if value is None else float(axis.key.from_si(float(np.ravel(value)[0]))))
         out.append(CurrentDesign(item.condition.name, tuple(values), run_batch(cases, result.criteria)))
     return tuple(out)
+
+
+#: Largest grid (points per condition) on which a sweep grades the static checks of steady flight
+#: (the engine-out minimum control speed is a search per point).
+STATIC_CHECK_POINTS = 100_000
+
+
+def static_check_groups(sets, points) -> tuple:
+    """The static-check groups tied to the criteria sets (:func:`latdyn.steady_checks.groups_for`)
+    not already among them; none on grids above :data:`STATIC_CHECK_POINTS` points."""
+    from latdyn.steady_checks import CheckGroup, groups_for
+
+    if points > STATIC_CHECK_POINTS:
+        return ()
+    present = {c.name for c in sets if isinstance(c, CheckGroup)}
+    return tuple(g for g in groups_for([c for c in sets if not isinstance(c, CheckGroup)])
+                 if g.name not in present)
 
 
 #: Grids larger than this (points per condition) print a summary, not every point, as a table.
@@ -544,6 +577,7 @@ def sweep_document(result: SweepResult) -> dict:
     from latdyn.assessment import NOTICE
 
     grid = result.grid()
+    groups = {c.name for c in result.criteria if getattr(c, "checks", None) is not None}
     conditions = []
     for item in result.conditions:
         figures = item.result.figures
@@ -556,6 +590,12 @@ def sweep_document(result: SweepResult) -> dict:
                 value = None if word == "-" else (word if criteria.assessment == "pass_fail"
                                                   else int(grades.level[i]))
                 levels.setdefault(name, {})[mode] = value
+            static = {}
+            for (name, mode), grades in item.result.levels.items():
+                if name in groups:
+                    static.setdefault(name, {})[mode] = {
+                        "value": _json_number(grades.value[i]), "limit": _json_number(grades.limit[i]),
+                        "margin": _json_number(grades.margin[i])}
             points.append({
                 "parameters": {axis.key.text: float(grid[i, k]) for k, axis in enumerate(result.axes)},
                 "pattern": int(figures.pattern[i]),
@@ -566,6 +606,7 @@ def sweep_document(result: SweepResult) -> dict:
                 "time_to_bank": _json_number(figures.time_to_bank[i]),
                 "bank_change": _json_number(figures.bank_change[i]),
                 "levels": levels,
+                **({"static_checks": static} if static else {}),
             })
         conditions.append({"name": item.condition.name, "category": item.condition.flight.category,
                            "points": points})
