@@ -44,6 +44,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from latdyn.units import KNOT as _KNOT
 from latdyn.units import STANDARD_GRAVITY
 
 __all__ = [
