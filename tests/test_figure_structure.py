@@ -131,13 +131,22 @@ def test_a_bank_angle_still_building_is_not_called_a_residual(cruise):
     assert not any("residual" in n for n in notes)
 
 
-def test_names_from_files_are_shown_as_written(cruise):
+@pytest.mark.parametrize("chart", [levels.dutch_roll_chart, levels.roll_spiral_chart, levels.s_plane_map],
+                         ids=lambda f: f.__name__)
+def test_names_from_files_are_shown_as_written(chart):
     """A name holding mathtext is drawn literally (escaped), and the drawing does not fail."""
     hostile = "K-40 $\\frac{ and $x$"
     assessment = replace(assess(load_aircraft(BASE)), aircraft=hostile)
-    figure = levels.dutch_roll_chart(assessment)
+    figure = chart(assessment)
     rendered(figure)
-    assert plain(hostile) in figure._suptitle.get_text()
+    titles = [figure._suptitle.get_text() if figure._suptitle else ""] + [a.get_title() for a in figure.axes]
+    assert any(plain(hostile) in title for title in titles)
+
+
+def test_roll_spiral_chart_typesets_its_symbols():
+    figure = levels.roll_spiral_chart(assess(load_aircraft(BASE)))
+    labels = [a.get_xlabel() for a in figure.axes]
+    assert any(SYMBOLS["T_R"] in label for label in labels) and any(SYMBOLS["T_2"] in label for label in labels)
 
 
 def _figures(report, cruise):

@@ -368,7 +368,7 @@ def roll_spiral_chart(result, criteria=None, fig=None):
     roll_rows, spiral_rows = [], []
     for condition in result.conditions:
         modes = condition.modes
-        label = f"{condition.name} ({condition.category or '?'})"
+        label = plain(f"{condition.name} ({condition.category or '?'})")
         entries = {a.mode: a for a in condition.assessments if a.criteria == criteria.name}
         for mode_name, rows, key in (("roll_subsidence", roll_rows, "max_time_constant"),
                                      ("spiral", spiral_rows, "min_time_to_double")):
@@ -392,14 +392,14 @@ def roll_spiral_chart(result, criteria=None, fig=None):
                          "result": entry.result if entry else ""})
     figure = figure_for(fig, 10.0, 1.6 + 0.55 * max(len(roll_rows), 1) + 0.9)
     left, right = figure.subplots(1, 2)
-    _strip(left, roll_rows, "limits", "value", "Roll mode: time constant T_R",
-           "T_R [s] (shorter is better)", 0.02, 30.0)
-    _strip(right, spiral_rows, "limits", "value", "Spiral: time to double T_2 (divergent spiral)",
-           "T_2 [s] (longer is better)", 1.0, 1000.0)
+    _strip(left, roll_rows, "limits", "value", f"Roll mode: time constant {SYMBOLS['T_R']}",
+           axis_label("roll time constant", "T_R", "s") + " (shorter is better)", 0.02, 30.0)
+    _strip(right, spiral_rows, "limits", "value", f"Spiral: time to double {SYMBOLS['T_2']} (divergent spiral)",
+           axis_label("spiral time to double", "T_2", "s") + " (longer is better)", 1.0, 1000.0)
     handles = [Patch(color=LEVEL_COLOURS[k], label=_level_words(k)) for k in (1, 2, 3, 4)]
     figure.legend(handles=handles, loc="outside right upper", fontsize=8, frameon=False)
     cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given (no bands drawn)"
-    figure.suptitle(f"Roll and spiral modes: {result.aircraft}, {cls}\n{criteria.name}: {criteria.edition}",
+    figure.suptitle(plain(f"Roll and spiral modes: {result.aircraft}, {cls}\n{criteria.name}: {criteria.edition}"),
                     fontsize=TITLE_SIZE, color=TEXT)
     add_notice(figure)
     return figure
@@ -452,14 +452,14 @@ def s_plane_map(result, ax=None):
               color=LEVEL_INK[4])
     axis.axvline(0.0, color=RULE, linewidth=0.8)
     axis.axhline(0.0, color=RULE, linewidth=0.8)
-    axis.set_xlabel("real part [1/s] (symmetric log scale, linear within +-0.1)", fontsize=LABEL_SIZE, color=TEXT)
+    axis.set_xlabel("real part [1/s] (symmetric log scale, linear within \u00b10.1)", fontsize=LABEL_SIZE, color=TEXT)
     axis.set_ylabel("imaginary part [rad/s]", fontsize=LABEL_SIZE, color=TEXT)
     handles = [Line2D([], [], marker=m, linestyle="none", color=PALETTE[5], label=MODE_LABELS[name])
                for name, m in MODE_MARKERS.items()]
     handles += [Line2D([], [], marker="o", linestyle="none", color=case_colour(i),
-                       label=c.name) for i, c in enumerate(result.conditions)]
+                       label=plain(c.name)) for i, c in enumerate(result.conditions)]
     axis.legend(handles=handles, fontsize=7.5, frameon=False, loc="upper left")
-    title = f"Roots of every condition: {result.aircraft}"
+    title = plain(f"Roots of every condition: {result.aircraft}")
     if ax is None:
         figure.suptitle(title, fontsize=TITLE_SIZE, color=TEXT)
     else:
