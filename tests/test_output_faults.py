@@ -751,3 +751,46 @@ def test_a_signal_while_a_file_is_written_leaves_no_temporary(name, number, tmp_
     assert status == 128 + number, err
     one_line(err, f"interrupted ({signal.Signals(number).name})")
     assert snapshot(out) == {"keep.txt": b"already here"}
+
+
+def test_the_portable_swap_puts_the_old_report_back_when_the_new_cannot_move_in(tmp_path, monkeypatch):
+    """Without renameat2: old moved aside, new moved in; should the second step fail, the old is put back."""
+    import latdyn.output_folders as folders
+
+    monkeypatch.setattr(folders, "_RENAMEAT2", [None])
+    old, new = tmp_path / "out", tmp_path / ".out.latdyn-partial.abc"
+    for folder, text in ((old, "old"), (new, "new")):
+        folder.mkdir()
+        (folder / "index.html").write_text(text)
+
+    def refused(source, target):
+        raise OSError(errno.EIO, os.strerror(errno.EIO), target)
+
+    monkeypatch.setattr(folders, "rename_exclusive", refused)
+    with pytest.raises(OSError):
+        folders.exchange(new, old)
+    assert (old / "index.html").read_text() == "old" and (new / "index.html").read_text() == "new"
+    assert sorted(p.name for p in tmp_path.iterdir()) == [".out.latdyn-partial.abc", "out"]
+
+
+def test_a_folder_swapped_in_just_before_the_replacement_is_put_back(old_report, small, tmp_path, capsys,
+                                                                      monkeypatch, renames):
+    """--force checked the report, then someone put their own folder there before the swap: swapped back."""
+    import latdyn.output_folders as folders
+
+    out, _ = old_report
+    original = folders.exchange
+
+    def exchange(new, old):
+        if not (pathlib.Path(old) / "thesis.tex").exists():  # only before the first swap
+            shutil.rmtree(old)
+            pathlib.Path(old).mkdir()
+            (pathlib.Path(old) / "thesis.tex").write_text("mine")
+        original(new, old)
+
+    monkeypatch.setattr(folders, "exchange", exchange)
+    status, _, err = run(["report", small, "-o", out, "--force"], capsys)
+    assert status == 2
+    one_line(err, "appeared while the report was written and is not a latdyn report folder")
+    assert snapshot(out) == {"thesis.tex": b"mine"}
+    assert temporaries(tmp_path) == []
