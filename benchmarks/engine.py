@@ -14,6 +14,10 @@ of the invented demo Kestrel K-40 approach condition), best of ``--repeat``:
 * **sweeps**: cost per grid point of ``latdyn.studies.sweep.sweep`` with its
   root-found level crossings at 50x50, 200x200 and 400x400 (target: under
   10 us at 200x200);
+* **roll performance**: the batched pipeline per case with roll performance
+  graded (``run_batch(..., roll=True)``: a time response searched for each
+  bank-angle change) against the same pipeline without it (no target; why
+  the studies grade it only where asked or where a control key is swept);
 * **memory**: peak resident memory of ``latdyn uncertainty`` at 1e6 and 1e7
   samples, each in a process of its own (target: under 1 GB at 1e7);
 * **report**: wall time of ``latdyn report`` on the demo scenario (target:
@@ -115,6 +119,21 @@ def sweep_section(aircraft, sides, repeat):
     print("  target: under 10 us per grid point at 200x200")
 
 
+def roll_section(aircraft, count, repeat):
+    from latdyn.studies.batch import condition_set, run_batch
+
+    rng = np.random.default_rng(4)
+    nominal = aircraft.condition("approach").derivatives
+    overrides = {"Cl_da": nominal.Cl_da * rng.uniform(0.6, 1.4, count),
+                 "Cl_p": nominal.Cl_p * rng.uniform(0.7, 1.3, count)}
+    cases = condition_set(aircraft, "approach", overrides)
+    modes = best(lambda: run_batch(cases, ["mil-f-8785c"], roll=False), repeat)
+    rolls = best(lambda: run_batch(cases, ["mil-f-8785c"], roll=True), repeat)
+    print(f"roll performance graded in a batch of {count} (approach, MIL-F-8785C Table IXa):")
+    print(f"  modes and levels {1e6 * modes / count:.2f} us per case; with roll performance "
+          f"{1e6 * rolls / count:.2f} us per case ({rolls / modes:.0f}x)")
+
+
 def memory_section(sizes):
     print("peak memory of latdyn uncertainty (one process each):")
     for samples in sizes:
@@ -153,6 +172,7 @@ def main():
     sizes = [10_000, 100_000, 1_000_000] + ([] if args.quick else [10_000_000])
     roots_section(aircraft, sizes, args.repeat)
     sweep_section(aircraft, [50, 200] + ([] if args.quick else [400]), args.repeat)
+    roll_section(aircraft, 20_000, args.repeat)
     memory_section([1_000_000] + ([] if args.quick else [10_000_000]))
     report_section()
     print(f"(peak memory of this process: {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024:.0f} MB)")
