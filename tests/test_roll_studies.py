@@ -277,3 +277,12 @@ def test_roll_performance_in_a_study_where_asked_or_a_control_key_is_swept(capsy
     document = json.loads(capsys.readouterr().out)
     modes = [entry["mode"] for entry in document["conditions"][0]["levels"]]
     assert "roll_performance" in modes
+
+
+def test_asked_roll_performance_without_aileron_travel_says_so():
+    aircraft = load_aircraft(DEMO)
+    bare = dataclasses.replace(aircraft, conditions=tuple(
+        dataclasses.replace(c, controls=Controls()) for c in aircraft.conditions))
+    result = sweep(bare, [("Cl_da", 0.05, 0.2, 3)], "approach", ["mil-f-8785c"], roll_performance=True)
+    assert ("mil-f-8785c", "roll_performance") not in result.conditions[0].result.levels
+    assert any("roll performance not graded: no aileron travel" in note for note in result.notes)

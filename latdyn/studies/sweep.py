@@ -411,6 +411,12 @@ def sweep(aircraft, ranges, condition=None, criteria_sets=None, progress=False,
             from latdyn.steady import HELD_NOTE
 
             notes += (f"{item.name}: engine-out minimum control speed: {HELD_NOTE} at each point",)
+        if roll and not any(key == "roll_performance" for _, key in result.levels):
+            notes += (f"{item.name}: roll performance not graded: "
+                      + ("no aileron travel (aircraft file [controls] aileron_deg, or sweep "
+                         "controls.aileron_deg)" if "controls.aileron" not in cases.overrides
+                         and getattr(getattr(item, "controls", None), "aileron", None) is None
+                         else "no criteria set has a roll-performance row for this condition"),)
     if math.prod(r[3] for r in ranges) > STATIC_CHECK_POINTS and static_check_groups(sets, 1):
         notes += (f"static checks of steady flight not graded on grids above {STATIC_CHECK_POINTS} "
                   "points",)
