@@ -9,11 +9,14 @@ The commands add no algorithms: they call the library.
 from __future__ import annotations
 
 import argparse
+import contextlib
 import importlib
+import re
 import sys
 import warnings
 
 from latdyn.errors import InputError, LatdynWarning, UnresolvedRoots
+from latdyn.text import printable
 
 __all__ = ["main", "COMMANDS", "build_parser", "parse_arguments"]
 
@@ -119,14 +122,69 @@ def _quiet_stdout():
     """Point standard output at the null device, so the final flush at exit cannot fail again."""
     import os
 
-    if sys.stdout is not sys.__stdout__:
+    if getattr(sys.stdout, "_stream", sys.stdout) is not sys.__stdout__:
         return
     try:
         null = os.open(os.devnull, os.O_WRONLY)
-        os.dup2(null, sys.stdout.fileno())
+        os.dup2(null, sys.__stdout__.fileno())
         os.close(null)
     except (OSError, ValueError):
         pass
+
+
+class _TerminalStream:
+    """A text stream that never fails on a character and never passes a control character.
+
+    Control characters other than ``keep`` (line ends, tabs) are shown escaped
+    (``\\x1b``): a name holding an escape sequence cannot drive the terminal.
+    A character the stream's encoding lacks (a Latin-1 or ASCII locale) is
+    written backslash-escaped instead of ending the run with
+    ``UnicodeEncodeError``.
+    """
+
+    def __init__(self, stream, keep):
+        self._stream = stream
+        self._controls = re.compile("[" + "".join(f"\\x{c:02x}" for c in [*range(32), *range(127, 160)]
+                                                  if chr(c) not in keep) + "]")
+
+    def write(self, text):
+        text = self._controls.sub(lambda match: printable(match.group()), text)
+        try:
+            return self._stream.write(text)
+        except UnicodeEncodeError:
+            encoding = getattr(self._stream, "encoding", None) or "ascii"
+            return self._stream.write(text.encode(encoding, "backslashreplace").decode(encoding))
+
+    def __getattr__(self, name):
+        return getattr(self._stream, name)
+
+
+def _one_line_warning(message, category, filename, lineno, file=None, line=None):
+    """A library warning as one line on stderr: ``latdyn: warning: <text> (<category>)``."""
+    print(f"latdyn: warning: {printable(' '.join(str(message).split()))} ({category.__name__})",
+          file=sys.stderr if file is None else file)
+
+
+#: Library warnings that are noise for the person at the terminal (the output is complete):
+#: matplotlib's layout engine giving up on a crowded figure, a glyph missing from the font.
+NOISE = (r"constrained_layout not applied", r"Glyph \d+ .*missing from", r"Tight layout not applied")
+
+
+@contextlib.contextmanager
+def _terminal():
+    """stdout and stderr as :class:`_TerminalStream`; warnings as one line each, noise silenced."""
+    streams = sys.stdout, sys.stderr
+    sys.stdout, sys.stderr = _TerminalStream(sys.stdout, "\n\t"), _TerminalStream(sys.stderr, "\n\r\t")
+    try:
+        with warnings.catch_warnings():
+            warnings.showwarning = _one_line_warning
+            for pattern in NOISE:
+                warnings.filterwarnings("ignore", message=pattern)
+            # the commands print these texts themselves (from Aircraft.warnings and the read-outs)
+            warnings.simplefilter("ignore", LatdynWarning)
+            yield
+    finally:
+        sys.stdout, sys.stderr = streams
 
 
 def main(argv=None) -> int:
@@ -137,42 +195,43 @@ def main(argv=None) -> int:
     standard output ends quietly with status 141 (128 + SIGPIPE, as a
     program ended by the pipe); SIGINT and SIGTERM clean up (no temporary
     file or folder is left) and give 130 and 143 (128 + the signal).
+    Whatever the locale and the names in the files, the terminal gets text
+    it can show (:class:`_TerminalStream`), and a library warning is one line.
     """
     from latdyn.input_files import recording_inputs
     from latdyn.output_files import interruptible, write_error
 
     args = parse_arguments(sys.argv[1:] if argv is None else argv)
     debug = getattr(args, "debug", False)
-    try:
-        with warnings.catch_warnings(), interruptible(), recording_inputs():
-            # the commands print these texts themselves (from Aircraft.warnings and the read-outs)
-            warnings.simplefilter("ignore", LatdynWarning)
-            _refuse_empty_values(args)
-            status = _command_module(args.command).run(args)
-            sys.stdout.flush()  # a full standard output is found here, not at exit
-    except (InputError, UnresolvedRoots) as error:
-        if debug:
-            raise
-        print(f"latdyn: {error}", file=sys.stderr)
-        return 2
-    except BrokenPipeError:
-        _quiet_stdout()
-        return 141
-    except KeyboardInterrupt as error:
-        if debug:
-            raise
-        import signal
+    with _terminal():
+        try:
+            with interruptible(), recording_inputs():
+                _refuse_empty_values(args)
+                status = _command_module(args.command).run(args)
+                sys.stdout.flush()  # a full standard output is found here, not at exit
+        except (InputError, UnresolvedRoots) as error:
+            if debug:
+                raise
+            print(f"latdyn: {error}", file=sys.stderr)
+            return 2
+        except BrokenPipeError:
+            _quiet_stdout()
+            return 141
+        except KeyboardInterrupt as error:
+            if debug:
+                raise
+            import signal
 
-        number = getattr(error, "signal", signal.SIGINT)
-        print(f"latdyn: interrupted ({signal.Signals(number).name})", file=sys.stderr)
-        return 128 + number
-    except OSError as error:  # standard output on a full disk (file outputs say so as InputError)
-        if debug:
-            raise
-        _quiet_stdout()
-        print(f"latdyn: {write_error(error.filename or 'standard output', error, 'an output that can be written')}",
-              file=sys.stderr)
-        return 2
+            number = getattr(error, "signal", signal.SIGINT)
+            print(f"latdyn: interrupted ({signal.Signals(number).name})", file=sys.stderr)
+            return 128 + number
+        except OSError as error:  # standard output on a full disk (file outputs say so as InputError)
+            if debug:
+                raise
+            _quiet_stdout()
+            print(f"latdyn: {write_error(error.filename or 'standard output', error, 'an output that can be written')}",
+                  file=sys.stderr)
+            return 2
     return int(status or 0)
 
 

@@ -85,11 +85,9 @@ def format_problem(file, key, expected, found, condition=None) -> str:
 
 def _one_line(text):
     """Line breaks and other control characters shown escaped (\\n, \\r, \\x1b)."""
-    if text.isprintable():
-        return text
-    return "".join(c if c.isprintable() or c == " " else
-                   {"\n": "\\n", "\r": "\\r", "\t": "\\t"}.get(c, f"\\x{ord(c):02x}")
-                   for c in text)
+    from latdyn.text import printable
+
+    return printable(text)
 
 
 class InputError(ValueError):

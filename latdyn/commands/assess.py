@@ -252,8 +252,9 @@ def run(args):
     if args.plots:
         from latdyn.plots.levels import write_assessment_figures
 
+        used = set()  # one set of file names for the folder: two aircraft never share one
         for result in results:
-            written += write_assessment_figures(result, args.plots)
+            written += write_assessment_figures(result, args.plots, used)
     sys.stdout.write(text)
     for path in written:
         print(f"wrote {path}", file=sys.stderr)

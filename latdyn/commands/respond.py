@@ -13,7 +13,6 @@ from __future__ import annotations
 
 import math
 import os
-import re
 import sys
 
 __all__ = ["add_arguments", "run", "case_csv_paths", "respond_document", "FIGURE_SUFFIXES"]
@@ -126,24 +125,21 @@ def _labels(cases):
 
 
 def case_csv_paths(path, labels):
-    """CSV path of each case: ``path`` itself for one case, else ``stem-<label>.csv``.
+    """CSV path of each case: ``path`` itself for one case, else ``stem-<label>.csv``, the label
+    as a safe slug (:func:`latdyn.text.file_name`), numbered where two collide.
 
     Examples
     --------
-    >>> case_csv_paths("out.csv", ["climb", "approach / flaps 25"])
-    ['out-climb.csv', 'out-approach-flaps-25.csv']
+    >>> case_csv_paths("out.csv", ["climb", "approach / flaps 25", "../climb"])
+    ['out-climb.csv', 'out-approach-flaps-25.csv', 'out-climb-2.csv']
     """
+    from latdyn.text import file_name, numbered
+
     if len(labels) == 1:
         return [path]
     stem, suffix = os.path.splitext(path)
-    names = []
-    for label in labels:
-        slug = re.sub(r"[^A-Za-z0-9._]+", "-", label).strip("-") or "case"
-        candidate = f"{stem}-{slug}{suffix or '.csv'}"
-        while candidate in names:
-            candidate = f"{stem}-{slug}-{len(names) + 1}{suffix or '.csv'}"
-        names.append(candidate)
-    return names
+    used = set()
+    return [f"{stem}-{numbered(file_name(label), used)}{suffix or '.csv'}" for label in labels]
 
 
 def _histories(args, reference_defaults, models):
@@ -392,7 +388,9 @@ def run(args):
         from latdyn.report.tables import transfer_table
 
         if simulating:
-            text = "\n".join((f"# {label}\n" if len(labels) > 1 else "") + csv_text(response)
+            from latdyn.text import printable
+
+            text = "\n".join((f"# {printable(label)}\n" if len(labels) > 1 else "") + csv_text(response)
                              for label, response in zip(labels, responses))
         else:
             tables = [transfer_table(transfers) for transfers in all_transfers]

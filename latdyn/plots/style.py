@@ -82,12 +82,16 @@ def plain(text) -> str:
     r"""Text from an input file (aircraft, condition, criteria names) shown as it is written.
 
     matplotlib reads a pair of ``$`` as mathtext; escaped, a ``$`` is drawn as a
-    dollar sign, so a name is never parsed (nor able to break the drawing).
+    dollar sign, so a name is never parsed (nor able to break the drawing); control
+    characters are shown escaped (no missing glyph).  The rule is
+    :func:`latdyn.text.plain`.
 
     >>> plain("K-40 $\\frac{")
     'K-40 \\$\\frac{'
     """
-    return str(text).replace("$", r"\$")
+    from latdyn.text import plain as plain_text
+
+    return plain_text(text)
 
 
 def unit_text(word) -> str:

@@ -168,7 +168,24 @@ class Report:
     document: dict = field(default_factory=dict)
 
     def add(self, *blocks):
-        self.blocks.extend(blocks)
+        """Append blocks; a table's or figure's name is made a safe file name (ASCII letters,
+        digits and dashes, length-limited: :func:`latdyn.text.file_name`) and numbered where
+        another of its kind has it already (``tables/<name>.csv``, ``figures/<name>.png``).
+
+        Examples
+        --------
+        >>> report = Report("r")
+        >>> report.add(Figure("a/../b", ""), Figure("A-B", ""), Table("a-b", "", (), ()))
+        >>> [block.name for block in report.blocks]
+        ['a-b', 'a-b-2', 'a-b']
+        """
+        from latdyn.text import file_name, numbered
+
+        for block in blocks:
+            if isinstance(block, (Table, Figure)):
+                used = {b.name.lower() for b in self.blocks if type(b) is type(block)}
+                block = replace(block, name=numbered(file_name(block.name), used))
+            self.blocks.append(block)
 
     @property
     def tables(self) -> list:

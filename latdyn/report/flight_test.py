@@ -16,7 +16,7 @@ import datetime
 import os
 
 from latdyn.report.blocks import Figure, Heading, Notice, Paragraph, Report
-from latdyn.report.content import slug
+from latdyn.text import slug
 
 __all__ = ["identification_content", "write_identification_report"]
 
@@ -112,7 +112,8 @@ def write_identification_report(output, aircraft, result, predicted_modes, ident
 
     The folder holds ``index.html``, ``report.md``, ``tables/*.csv``,
     ``figures/*.png|svg``, ``results.json`` and ``<name>-identified.toml``
-    (extends the original aircraft file, relative to the folder).
+    (``<name>``: the aircraft file's name as a safe slug; it extends the
+    original aircraft file, relative to the folder).
 
     Returns
     -------
@@ -133,8 +134,8 @@ def write_identification_report(output, aircraft, result, predicted_modes, ident
     from latdyn.identification import write_variant
     from latdyn.report.write import write_files, write_folder
 
-    stem = os.path.splitext(os.path.basename(aircraft.file))[0]
-    variant_name = f"{stem}-identified.toml"
+    variant_name = slug(os.path.splitext(os.path.basename(aircraft.file))[0], default="aircraft") \
+        + "-identified.toml"
     final = os.path.normpath(os.fspath(output))
 
     def fill(temporary):

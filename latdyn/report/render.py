@@ -21,6 +21,7 @@ from functools import lru_cache
 
 from latdyn.display import DASH, format_number, format_root
 from latdyn.report.blocks import Absent, Figure, Heading, Notice, Paragraph, Table
+from latdyn.text import printable, spreadsheet_cell
 
 __all__ = ["KEEP_ROWS", "page_style", "cell_text", "render_text", "render_markdown_table", "render_csv", "render_html_table",
            "table_records", "render", "escape_markdown", "render_markdown", "render_html", "css"]
@@ -78,9 +79,10 @@ def _is_number(value):
 # ------------------------------------------------------------------ plain text
 
 def render_text(table: Table) -> str:
-    """Plain-text table with aligned columns (the terminal)."""
-    headings = [c.heading for c in table.columns]
-    cells = [[cell_text(row.get(c.key), c) for c in table.columns] for row in table.rows]
+    """Plain-text table with aligned columns (the terminal); control characters in a name
+    (an escape sequence, a line break) shown escaped (:func:`latdyn.text.printable`)."""
+    headings = [printable(c.heading) for c in table.columns]
+    cells = [[printable(cell_text(row.get(c.key), c)) for c in table.columns] for row in table.rows]
     widths = [max(len(h), *(len(c[i]) for c in cells)) if cells else len(h)
               for i, h in enumerate(headings)]
     lines = ["  ".join(h.ljust(w) for h, w in zip(headings, widths)).rstrip(),
@@ -92,7 +94,7 @@ def render_text(table: Table) -> str:
 
 # ------------------------------------------------------------------ Markdown
 
-_MD_ALWAYS = re.compile(r"([\\`*~<|])")
+_MD_ALWAYS = re.compile(r"([\\`*~<|$])")
 _MD_UNDERSCORE = re.compile(r"(?<![A-Za-z0-9])_|_(?![A-Za-z0-9])")
 _MD_LINK = re.compile(r"(!?)\[(?=[^\]]*\][(\[:])")
 _MD_ENTITY = re.compile(r"&(?=#?[A-Za-z0-9]+;)")
@@ -103,12 +105,14 @@ _MD_ORDERED = re.compile(r"^(\s*\d{1,9})([.)])(?=\s|$)")
 def escape_markdown(text, block=True) -> str:
     """Text that Markdown (CommonMark with tables) shows as written.
 
-    Backslash-escapes what would make markup: a backslash or a backtick, ``*``, ``~``, ``<``, ``|``, an
+    Backslash-escapes what would make markup: a backslash or a backtick, ``*``, ``~``, ``<``, ``|``,
+    ``$`` (math in renderers that typeset it), an
     underscore that could open or close emphasis (not one inside a word such
     as ``omega_n``), a ``[`` that would open a link, an ``&`` that would make
     an entity, and, with ``block`` (text that starts a line: headings,
     paragraphs, list items, not table cells), a block marker at the start
-    (``#``, ``>``, and ``-`` or ``1.`` before a space); line breaks become spaces.
+    (``#``, ``>``, and ``-`` or ``1.`` before a space); line breaks become spaces and other
+    control characters are shown escaped (``\\x1b``: :func:`latdyn.text.printable`).
 
     Examples
     --------
@@ -117,7 +121,7 @@ def escape_markdown(text, block=True) -> str:
     >>> escape_markdown("# [x](y) _a_"), escape_markdown("-0.25"), escape_markdown("1. x")
     ('\\\\# \\\\[x](y) \\\\_a\\\\_', '-0.25', '1\\\\. x')
     """
-    text = " ".join(str(text).splitlines())
+    text = printable(" ".join(str(text).splitlines()))
     text = _MD_ALWAYS.sub(r"\\\1", text)
     text = _MD_UNDERSCORE.sub(r"\\_", text)
     text = _MD_LINK.sub(r"\1\\[", text)
@@ -163,7 +167,9 @@ def render_csv(table: Table, raw=True, header=None) -> str:
     raw : bool
         True: the raw values (every digit of a float, empty where none; the
         report's ``tables/*.csv``, the assess CSV). False: the display text
-        (the study commands' ``--format csv``).
+        (the study commands' ``--format csv``).  Either way a text cell (a
+        name from a file) that a spreadsheet would read as a formula is
+        guarded (:func:`latdyn.text.spreadsheet_cell`); numbers are not.
     header : {"keys", "headings"}, optional
         The header row; default the column keys for raw values, the
         headings for display text.
@@ -172,13 +178,22 @@ def render_csv(table: Table, raw=True, header=None) -> str:
     writer = csv.writer(buffer, lineterminator="\n")
     header = header or ("keys" if raw else "headings")
     writer.writerow([c.key if header == "keys" else c.heading for c in table.columns])
-    if raw:
-        for row in table.rows:
-            writer.writerow([_raw_csv(row.get(c.key)) for c in table.columns])
-    else:
-        for row in table.rows:
-            writer.writerow([cell_text(row.get(c.key), c) for c in table.columns])
+    show = _raw_csv if raw else cell_text
+    for row in table.rows:
+        cells = []
+        for c in table.columns:
+            value = row.get(c.key)
+            text = show(value) if raw else show(value, c)
+            cells.append(spreadsheet_cell(text) if _is_text(value) else text)
+        writer.writerow(cells)
     return buffer.getvalue()
+
+
+def _is_text(value):
+    """A text value (a name from a file): its CSV cell is guarded against formulas; numbers are not."""
+    if isinstance(value, (tuple, list)):
+        return any(_is_text(v) for v in value)
+    return isinstance(value, str)
 
 
 # ------------------------------------------------------------------ JSON, HTML
@@ -214,17 +229,23 @@ def table_records(table: Table) -> dict:
             "rows": [{c.key: _json_value(row.get(c.key)) for c in table.columns} for row in table.rows]}
 
 
+def _html(text) -> str:
+    """Text for HTML: markup characters escaped and control characters (invalid in HTML) shown
+    escaped; line breaks kept."""
+    return html.escape(printable(text, keep="\n\t"))
+
+
 def render_html_table(table: Table) -> str:
     """An HTML ``<table>`` with its caption; numbers right-aligned, emphasised rows marked."""
-    out = [f"<table><caption>{html.escape(table.caption)}</caption><thead><tr>"
-           + "".join(f"<th>{html.escape(c.heading)}</th>" for c in table.columns) + "</tr></thead><tbody>"]
+    out = [f"<table><caption>{_html(table.caption)}</caption><thead><tr>"
+           + "".join(f"<th>{_html(c.heading)}</th>" for c in table.columns) + "</tr></thead><tbody>"]
     for index, row in enumerate(table.rows):
         mark = ' class="mark"' if index in table.emphasis else ""
         cells = []
         for c in table.columns:
             value = row.get(c.key)
             cls = ' class="num"' if _is_number(value) else ""
-            cells.append(f"<td{cls}>{html.escape(cell_text(value, c))}</td>")
+            cells.append(f"<td{cls}>{_html(cell_text(value, c))}</td>")
         out.append(f"<tr{mark}>" + "".join(cells) + "</tr>")
     out.append("</tbody></table>")
     return "\n".join(out)
@@ -364,7 +385,7 @@ def render_html(report, folder) -> str:
     a row with a long cell counts its wrapped lines), and a whole run where the run fits
     (``div.tables.keep``)."""
     out = ["<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
-           f"<title>{html.escape(report.title)}</title>", f"<style>\n{css()}</style>",
+           f"<title>{_html(report.title)}</title>", f"<style>\n{css()}</style>",
            f"<style>\n{page_style(report)}</style></head><body>"]
     headings = [b for b in report.blocks if isinstance(b, Heading) and b.level == 2]
     nav_done = False
@@ -374,22 +395,22 @@ def render_html(report, folder) -> str:
         elif isinstance(block, Heading):
             if block.level == 2 and not nav_done:
                 out.append("<nav><strong>Contents</strong><ul>" + "".join(
-                    f'<li><a href="#{html.escape(h.anchor)}">{html.escape(h.text)}</a></li>' for h in headings)
+                    f'<li><a href="#{_html(h.anchor)}">{_html(h.text)}</a></li>' for h in headings)
                     + "</ul></nav>")
                 nav_done = True
-            out.append(f'<h{block.level} id="{html.escape(block.anchor)}">{html.escape(block.text)}'
+            out.append(f'<h{block.level} id="{_html(block.anchor)}">{_html(block.text)}'
                        f"</h{block.level}>")
         elif isinstance(block, Notice):
-            out.append(f'<div class="notice">{html.escape(block.text)}</div>')
+            out.append(f'<div class="notice">{_html(block.text)}</div>')
         elif isinstance(block, Paragraph):
-            style = f' class="{html.escape(block.style)}"' if block.style else ""
-            out.append(f"<p{style}>{html.escape(block.text)}</p>")
+            style = f' class="{_html(block.style)}"' if block.style else ""
+            out.append(f"<p{style}>{_html(block.text)}</p>")
         elif isinstance(block, Table):
             out.append(render_html_table(block))
         elif isinstance(block, Figure):
             with open(os.path.join(folder, "figures", block.name + ".png"), "rb") as handle:
                 data = base64.b64encode(handle.read()).decode("ascii")
-            out.append(f'<figure><img alt="{html.escape(block.caption)}" src="data:image/png;base64,{data}">'
-                       f"<figcaption>{html.escape(block.caption)}</figcaption></figure>")
+            out.append(f'<figure><img alt="{_html(block.caption)}" src="data:image/png;base64,{data}">'
+                       f"<figcaption>{_html(block.caption)}</figcaption></figure>")
     out.append("</body></html>")
     return "\n".join(out) + "\n"

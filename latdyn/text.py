@@ -1,0 +1,142 @@
+"""Names from input files are data: safe file names and text escaped for each place it goes.
+
+An aircraft, condition or criteria-set name is free text from a file.  It
+never becomes a path (:func:`slug`, :func:`file_name`, :func:`numbered`: ASCII
+letters, digits and dashes, length-limited, collisions numbered) and never
+markup: control characters are shown escaped on a terminal
+(:func:`printable`), a spreadsheet cell cannot start a formula
+(:func:`spreadsheet_cell`) and matplotlib draws it as plain text, never
+mathtext (:func:`plain`).  HTML and Markdown escaping live with their
+renderers (:mod:`latdyn.report.render`).
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+
+__all__ = ["SLUG_LIMIT", "NAME_LIMIT", "FORMULA_STARTS", "slug", "file_name", "numbered", "printable", "spreadsheet_cell",
+           "plain"]
+
+#: Longest slug of one name [characters].
+SLUG_LIMIT = 40
+#: Longest file name built from names, without its suffix [characters] (file systems allow 255 bytes).
+NAME_LIMIT = 120
+
+_NOT_SLUG = re.compile(r"[^a-z0-9]+")
+
+
+def slug(text, limit=SLUG_LIMIT, default="item") -> str:
+    """A file-name-safe form of a name: lower-case ASCII letters, digits and single dashes.
+
+    Accents are dropped (``é`` -> ``e``), every other run of characters
+    becomes one dash, and the result is cut to ``limit`` characters; a name
+    with nothing left (``"../"``, ``"$$"``) gives ``default``.
+
+    Examples
+    --------
+    >>> slug("Kestrel K-40 / cruise"), slug("../../escape"), slug("Tōhoku $\\\\frac{"), slug("..")
+    ('kestrel-k-40-cruise', 'escape', 'tohoku-frac', 'item')
+    >>> len(slug("x" * 300))
+    40
+    """
+    ascii_text = unicodedata.normalize("NFKD", str(text)).encode("ascii", "ignore").decode("ascii")
+    out = _NOT_SLUG.sub("-", ascii_text.lower()).strip("-")
+    out = out[:limit].rstrip("-")
+    return out or default
+
+
+def file_name(*parts, limit=NAME_LIMIT) -> str:
+    """A file name (without suffix) from names and fixed words: each part a :func:`slug`, joined
+    by dashes, cut to ``limit`` characters.
+
+    Examples
+    --------
+    >>> file_name("Kestrel K-40", "approach/../x", "dutch-roll", "MIL-F-8785C")
+    'kestrel-k-40-approach-x-dutch-roll-mil-f-8785c'
+    """
+    joined = "-".join(slug(part, limit) for part in parts)
+    return joined[:limit].rstrip("-") or "item"
+
+
+def numbered(name, used, limit=NAME_LIMIT) -> str:
+    """``name``, or ``name-2``, ``name-3``, ... when taken: the first not in ``used``.
+
+    ``used`` holds the names taken so far (compared without regard to case,
+    as some file systems do); the name returned is added to it.
+
+    Examples
+    --------
+    >>> used = set()
+    >>> [numbered(n, used) for n in ("cruise", "cruise", "Cruise", "cruise-2")]
+    ['cruise', 'cruise-2', 'Cruise-3', 'cruise-2-2']
+    """
+    candidate, number = name, 1
+    while candidate.lower() in used:
+        number += 1
+        tail = f"-{number}"
+        candidate = name[:limit - len(tail)].rstrip("-") + tail
+    used.add(candidate.lower())
+    return candidate
+
+
+def printable(text, keep="") -> str:
+    r"""Text with its control and other unprintable characters shown escaped (``\n``, ``\x1b``,
+    ``\u202e``): one line on a terminal, no escape sequence reaching it.
+
+    Parameters
+    ----------
+    text : str
+    keep : str
+        Characters left as they are (``"\n"``: line breaks of a paragraph).
+
+    Examples
+    --------
+    >>> print(printable("a\x1b[31mred\nb\x00"))
+    a\x1b[31mred\nb\x00
+    >>> printable("Zürich ±"), printable("a\nb", keep="\n")
+    ('Zürich ±', 'a\nb')
+    """
+    text = str(text)
+    if text.isprintable():
+        return text
+    return "".join(c if c.isprintable() or c == " " or c in keep else _escape(c) for c in text)
+
+
+def _escape(character):
+    code = ord(character)
+    named = {"\n": "\\n", "\r": "\\r", "\t": "\\t"}.get(character)
+    if named:
+        return named
+    if code < 0x100:
+        return f"\\x{code:02x}"
+    return f"\\u{code:04x}" if code < 0x10000 else f"\\U{code:08x}"
+
+
+#: First characters that make a spreadsheet read a cell as a formula (or a field separator).
+FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
+
+
+def spreadsheet_cell(text) -> str:
+    """A text cell that a spreadsheet shows as text: one starting with ``= + - @``, a tab or a
+    carriage return gets a leading apostrophe.  For text cells only: numbers stay numbers.
+
+    Examples
+    --------
+    >>> spreadsheet_cell("=HYPERLINK(1)"), spreadsheet_cell("cruise"), spreadsheet_cell("")
+    ("'=HYPERLINK(1)", 'cruise', '')
+    """
+    text = str(text)
+    return "'" + text if text.startswith(FORMULA_STARTS) else text
+
+
+def plain(text) -> str:
+    r"""A name for a matplotlib text artist, drawn as written: dollar signs escaped (no mathtext)
+    and control characters shown escaped (no missing glyphs).
+
+    Examples
+    --------
+    >>> print(plain("$\\frac{$ a\x00"))
+    \$\frac{\$ a\x00
+    """
+    return printable(text).replace("$", r"\$")
