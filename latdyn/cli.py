@@ -170,10 +170,27 @@ def _one_line_warning(message, category, filename, lineno, file=None, line=None)
 NOISE = (r"constrained_layout not applied", r"Glyph \d+ .*missing from", r"Tight layout not applied")
 
 
+def _utf8_unless_terminal(stream):
+    """Output redirected to a file or a pipe is UTF-8 whatever the locale (a terminal keeps the
+    locale's encoding); returns the encoding replaced, or None."""
+    import codecs
+
+    encoding = getattr(stream, "encoding", None)
+    try:
+        if not encoding or codecs.lookup(encoding).name == "utf-8" or stream.isatty():
+            return None
+        stream.reconfigure(encoding="utf-8")
+    except (AttributeError, LookupError, OSError, ValueError):
+        return None
+    return encoding
+
+
 @contextlib.contextmanager
 def _terminal():
-    """stdout and stderr as :class:`_TerminalStream`; warnings as one line each, noise silenced."""
+    """stdout and stderr as :class:`_TerminalStream` (redirected stdout in UTF-8); warnings as one
+    line each, noise silenced."""
     streams = sys.stdout, sys.stderr
+    replaced = _utf8_unless_terminal(sys.stdout)
     sys.stdout, sys.stderr = _TerminalStream(sys.stdout, "\n\t"), _TerminalStream(sys.stderr, "\n\r\t")
     try:
         with warnings.catch_warnings():
@@ -185,6 +202,9 @@ def _terminal():
             yield
     finally:
         sys.stdout, sys.stderr = streams
+        if replaced:
+            with contextlib.suppress(AttributeError, OSError, ValueError):
+                sys.stdout.reconfigure(encoding=replaced)
 
 
 def main(argv=None) -> int:

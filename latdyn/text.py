@@ -117,17 +117,25 @@ def _escape(character):
 FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
 
 
+_NUMBER = re.compile(r"[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?")
+
+
 def spreadsheet_cell(text) -> str:
     """A text cell that a spreadsheet shows as text: one starting with ``= + - @``, a tab or a
-    carriage return gets a leading apostrophe.  For text cells only: numbers stay numbers.
+    carriage return gets a leading apostrophe, unless it is a plain number (``-0.62``, as a
+    file gave it) or a lone dash (nothing to show).  For text cells only: numbers stay numbers.
 
     Examples
     --------
-    >>> spreadsheet_cell("=HYPERLINK(1)"), spreadsheet_cell("cruise"), spreadsheet_cell("")
-    ("'=HYPERLINK(1)", 'cruise', '')
+    >>> spreadsheet_cell("=HYPERLINK(1)"), spreadsheet_cell("-1+2"), spreadsheet_cell("cruise")
+    ("'=HYPERLINK(1)", "'-1+2", 'cruise')
+    >>> spreadsheet_cell("-0.62"), spreadsheet_cell("-"), spreadsheet_cell("")
+    ('-0.62', '-', '')
     """
     text = str(text)
-    return "'" + text if text.startswith(FORMULA_STARTS) else text
+    if not text.startswith(FORMULA_STARTS) or text in ("-", "+") or _NUMBER.fullmatch(text):
+        return text
+    return "'" + text
 
 
 def plain(text) -> str:

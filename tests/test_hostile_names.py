@@ -228,9 +228,10 @@ def test_plain_text_is_never_mathtext(text):
 
 
 @pytest.mark.parametrize("text,expected", [
-    ("=SUM(A1)", "'=SUM(A1)"), ("+1", "'+1"), ("-cmd", "'-cmd"), ("@x", "'@x"), ("\tx", "'\tx"),
-    ("\rx", "'\rx"), ("cruise", "cruise"), ("", "")], ids=["equals", "plus", "minus", "at", "tab", "cr",
-                                                        "plain", "empty"])
+    ("=SUM(A1)", "'=SUM(A1)"), ("+A1", "'+A1"), ("-cmd", "'-cmd"), ("-1+2", "'-1+2"), ("@x", "'@x"),
+    ("\tx", "'\tx"), ("\rx", "'\rx"), ("cruise", "cruise"), ("", ""), ("-0.62", "-0.62"), ("+1e-3", "+1e-3"),
+    ("-", "-")], ids=["equals", "plus", "minus", "arithmetic", "at", "tab", "cr", "plain", "empty",
+                      "number-as-given", "signed-exponent", "dash"])
 def test_spreadsheet_cells(text, expected):
     assert spreadsheet_cell(text) == expected
 
