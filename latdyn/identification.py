@@ -768,12 +768,21 @@ def identify(aircraft, condition, records, fix=(), method="output_error") -> Ide
         full_correlation, parameter_names = correlation, tuple(free)
     else:
         start = {k: v for k, v in first.values.items() if k in free and _plausible_start(k, v, predicted)}
-        estimate = output_error(records, model, start=start, free=free)
-        if not estimate["converged"]:
-            retry = output_error(records, model, start=None, free=free)
-            if retry["converged"] and retry["cost"] <= estimate["cost"]:
+        try:
+            with np.errstate(all="ignore"):  # numbers that are not finite are caught below
+                estimate = output_error(records, model, start=start, free=free)
+                retry = output_error(records, model, start=None, free=free) if not estimate["converged"] else None
+            if retry is not None and retry["converged"] and retry["cost"] <= estimate["cost"]:
                 estimate = retry
                 notes.append("the equation-error start did not converge; restarted from the prediction")
+        except (np.linalg.LinAlgError, FloatingPointError, OverflowError) as error:
+            estimate = {"values": {}, "covariance": np.array(np.nan), "failure": str(error)}
+        if not (all(np.isfinite(v) for v in estimate["values"].values())
+                and np.all(np.isfinite(estimate["covariance"]))):
+            # a stiff or extreme model: no finite estimate to report, one line instead of a traceback
+            raise InputError(aircraft.file, None, "a model and records that output error fits in finite numbers "
+                             "(check the magnitudes of the derivatives, or try --method equation-error)",
+                             estimate.get("failure", "estimates or bounds that are not finite"), condition.name)
         values = estimate["values"]
         covariance_all = estimate["covariance"]
         P = len(free)

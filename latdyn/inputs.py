@@ -812,7 +812,9 @@ def run_settings(defaults, tables=(), amplitude=None, half_period=None, start=No
     Raises
     ------
     InputError
-        A step not smaller than the duration, or a run of too many samples.
+        A step not smaller than the duration, or a run of too many samples
+        (naming the option that was given, or, when neither the duration nor
+        the step was, what sized the default run and the options that fix it).
 
     Examples
     --------
@@ -839,6 +841,18 @@ def run_settings(defaults, tables=(), amplitude=None, half_period=None, start=No
             raise InputError(longest.file, 'column "time"', f"a last time that keeps the run within "
                              f"{MAX_RUN_SAMPLES} samples at a step of {dt:g} s (or set "
                              f"{options['duration']}, {options['step']})", f"{run:g} s")
+        if step is None and duration is None:
+            # neither was given: say what sized the default run, and the options that shorten it
+            period = d.dutch_roll_period
+            why = (f"a Dutch roll period of {period:.4g} s (barely oscillatory) sizes the default duration"
+                   if period and not spiral and 10 * period > run else "the default duration")
+            raise InputError(source, options["duration"], f"a run of at most {MAX_RUN_SAMPLES} samples (give "
+                             f"{options['duration']} for a shorter run, or {options['step']} for a longer step)",
+                             f"{why}: {run:g} s at the default step of {dt:g} s, {run / dt:.3g} samples")
+        if step is None:
+            raise InputError(source, options["duration"], f"at most {MAX_RUN_SAMPLES} samples at the default step "
+                             f"of {dt:g} s (a shorter run, or {options['step']} for a longer step)",
+                             f"{run:g} s, {run / dt:.3g} samples")
         raise InputError(source, options["step"], f"at most {MAX_RUN_SAMPLES} samples over {run:g} s",
                          f"{run / dt:.3g} samples with a step of {dt:g} s")
     return RunSettings(chosen_amplitude, chosen_half, chosen_start, run, dt)

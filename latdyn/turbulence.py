@@ -335,7 +335,15 @@ def time_history(system: TurbulenceSystem, duration, step, seed):
     M[:n, :n] = -A * step
     M[:n, n:] = B @ B.T * step
     M[n:, n:] = A.T * step
-    E = expm(M)
+    with np.errstate(all="ignore"):
+        E = expm(M)
+    if not np.all(np.isfinite(E)):
+        # exp(|lambda| h) beyond double precision: a root far faster than the step (a stiff model)
+        from latdyn.errors import InputError
+
+        fastest = float(np.max(np.abs(np.linalg.eigvals(A)))) if np.all(np.isfinite(A)) else math.inf
+        raise InputError("command line", "--dt", f"a step short enough for the fastest root ({fastest:.3g} 1/s) "
+                         f"to be sampled in double precision (at most {500.0 / fastest:.2g} s)", f"{step:g} s")
     Phi = E[n:, n:].T
     Q = Phi @ E[:n, n:]
     Q = 0.5 * (Q + Q.T)

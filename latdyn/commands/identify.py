@@ -88,8 +88,9 @@ def run(args):
     from latdyn.flight_data import read_flight_csv
     from latdyn.identification import identified_model, identify, write_variant
     from latdyn.model import lateral_model
-    from latdyn.modes import find_modes
+    from latdyn.modes import UnresolvedRoots, find_modes
     from latdyn.output_files import check_output_file, check_outputs
+    from latdyn.results import condition_modes
     from latdyn.report.render import render, render_csv
     from latdyn.report.tables import (identification_fit_table, identified_derivative_table,
                                       identified_mode_table)
@@ -111,8 +112,13 @@ def run(args):
     method = args.method.replace("-", "_")
     result = identify(aircraft, condition, records, fix=args.fix, method=method)
     model = lateral_model(aircraft, condition)
-    predicted_modes = find_modes(model)
-    identified_modes = find_modes(identified_model(model, result))
+    predicted_modes = condition_modes(aircraft, condition, model)
+    try:
+        identified_modes = find_modes(identified_model(model, result))
+    except UnresolvedRoots as error:
+        raise InputError(aircraft.file, None, "flight-test records that identify a model whose roots double "
+                         "precision can resolve", f"{error} (identified from {', '.join(args.data)})",
+                         condition.name) from None
     if args.plot:
         from latdyn.plots import save_figure
         from latdyn.plots.identification import identification_figure
