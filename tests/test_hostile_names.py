@@ -142,7 +142,7 @@ def test_a_hostile_report_writes_inside_its_folder_with_safe_names(hostile_repor
         assert "\x1b" not in stream and "Traceback" not in stream
     assert set(_files_under(folder.parent)) == set(_files_under(folder))
     for path in _files_under(folder):
-        assert re.fullmatch(r"[a-z0-9-]{1,120}\.(png|svg|csv|md|html|json)", path.name), path.name
+        assert re.fullmatch(r"\.?[a-z0-9-]{1,120}\.(png|svg|csv|md|html|json)", path.name), path.name
     # three conditions under two criteria sets: six Dutch roll charts, none overwritten
     assert len(list((folder / "figures").glob("*-dutch-roll-*.png"))) == 6
 
