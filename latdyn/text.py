@@ -140,11 +140,11 @@ def spreadsheet_cell(text) -> str:
 
 def plain(text) -> str:
     r"""A name for a matplotlib text artist, drawn as written: dollar signs escaped (no mathtext)
-    and control characters shown escaped (no missing glyphs).
+    and control characters other than line breaks shown escaped (no missing glyphs).
 
     Examples
     --------
     >>> print(plain("$\\frac{$ a\x00"))
     \$\frac{\$ a\x00
     """
-    return printable(text).replace("$", r"\$")
+    return printable(text, keep="\n").replace("$", r"\$")

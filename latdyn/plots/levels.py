@@ -21,7 +21,6 @@ is :mod:`latdyn.plots.style`.
 from __future__ import annotations
 
 import os
-import re
 
 import numpy as np
 
@@ -468,34 +467,40 @@ def s_plane_map(result, ax=None):
     return figure
 
 
-def _slug(result):
-    if result.file:
-        stem = os.path.splitext(os.path.basename(result.file))[0]
-    else:
-        stem = result.aircraft
-    return re.sub(r"[^A-Za-z0-9._-]+", "-", stem).strip("-").lower() or "aircraft"
-
-
-def write_assessment_figures(result, folder) -> list:
+def write_assessment_figures(result, folder, used=None) -> list:
     """Write the Dutch roll chart (one per criteria set), the roll/spiral chart and the s-plane map.
 
     Files: ``<aircraft>-dutch-roll-<set>``, ``<aircraft>-roll-spiral-<set>``
-    and ``<aircraft>-s-plane``, each as .png and .svg, in ``folder``.
+    and ``<aircraft>-s-plane``, each as .png and .svg, in ``folder``; the
+    names are safe slugs of the aircraft file's name (or the aircraft's) and
+    the set's (:func:`latdyn.text.file_name`), numbered where they collide.
+
+    Parameters
+    ----------
+    result : latdyn.assessment.AssessmentResult
+    folder : str
+    used : set of str, optional
+        File names (without suffix) taken already in ``folder``; the new ones are added.
 
     Returns
     -------
     list of str
         The paths written.
     """
+    from latdyn.text import file_name, numbered, slug
+
+    used = set() if used is None else used
     written = []
-    slug = _slug(result)
-    dutch_sets = [c for c in result.criteria if c.mode("dutch_roll")]
-    for criteria in dutch_sets:
-        figure = dutch_roll_chart(result, criteria)
-        written += save_both(figure, os.path.join(folder, f"{slug}-dutch-roll-{criteria.name}.png"))
+    stem = os.path.splitext(os.path.basename(result.file))[0] if result.file else result.aircraft
+    aircraft = slug(stem, default="aircraft")
+
+    def path(*words):
+        return os.path.join(folder, numbered(file_name(aircraft, *words), used) + ".png")
+
+    for criteria in [c for c in result.criteria if c.mode("dutch_roll")]:
+        written += save_both(dutch_roll_chart(result, criteria), path("dutch-roll", criteria.name))
     for criteria in result.criteria:
         if criteria.assessment == "levels" and criteria.mode("spiral") and criteria.mode("roll_subsidence"):
-            figure = roll_spiral_chart(result, criteria)
-            written += save_both(figure, os.path.join(folder, f"{slug}-roll-spiral-{criteria.name}.png"))
-    written += save_both(s_plane_map(result), os.path.join(folder, f"{slug}-s-plane.png"))
+            written += save_both(roll_spiral_chart(result, criteria), path("roll-spiral", criteria.name))
+    written += save_both(s_plane_map(result), path("s-plane"))
     return written

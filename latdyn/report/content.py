@@ -14,7 +14,6 @@ blocks``; a new section is one more function and one line in
 from __future__ import annotations
 
 import os
-import re
 from dataclasses import replace
 
 from latdyn.display import DEFAULT, format_number
@@ -23,22 +22,12 @@ from latdyn.report.tables import (comparison_tables, flight_condition_table, giv
                                   MODE_REPORT_VIEW, ASSESSMENT_REPORT_VIEW, assessment_table, mode_table,
                                   provenance_tables, readout_table, roll_response_table, summary_table,
                                   transfer_table, check_label)
+from latdyn.text import slug
 
-__all__ = ["SECTIONS", "report_content", "slug", "summary_section", "comparison_section",
+__all__ = ["SECTIONS", "report_content", "summary_section", "comparison_section",
            "conclusion_sentences", "document_table", "DOCUMENT_FIELDS",
            "aircraft_section", "condition_section", "warnings_section", "provenance_section",
            "results_document", "buildup_blocks", "steady_blocks"]
-
-
-def slug(text) -> str:
-    """A file-name-safe, lower-case form of a name.
-
-    Examples
-    --------
-    >>> slug("Kestrel K-40 / cruise")
-    'kestrel-k-40-cruise'
-    """
-    return re.sub(r"[^A-Za-z0-9]+", "-", text).strip("-").lower() or "item"
 
 
 def _title(data):
@@ -231,7 +220,7 @@ def aircraft_section(data, units=DEFAULT) -> list:
                           {"result": assessment})]
         for criteria in assessment.criteria:
             if criteria.assessment == "levels" and criteria.mode("spiral") and criteria.mode("roll_subsidence"):
-                blocks.append(Figure(f"{name}-roll-spiral-{criteria.name}",
+                blocks.append(Figure(f"{name}-roll-spiral-{slug(criteria.name)}",
                                      f"Roll time constant and spiral time to double against the {criteria.name} "
                                      f"limits ({criteria.edition}). Guidance only.", "roll_spiral",
                                      {"result": assessment, "criteria": criteria}))
@@ -264,7 +253,7 @@ def condition_section(item, data, units=DEFAULT) -> list:
                 "(" + ", ".join(v.aircraft.name for v in others) + ").") if others else ""
     for criteria in [c for c in item.assessment.criteria if c.mode("dutch_roll")]:
         variants = [v.assessment for v in others if any(c.name == criteria.name for c in v.assessment.criteria)]
-        blocks.append(Figure(f"{name}-dutch-roll-{criteria.name}",
+        blocks.append(Figure(f"{name}-dutch-roll-{slug(criteria.name)}",
                              f"Dutch roll damping against frequency with the {criteria.name} regions "
                              f"({criteria.edition}).{overlaid if variants else ''} Guidance only.", "dutch_roll",
                              {"result": single, "criteria": criteria, "variants": variants}))
