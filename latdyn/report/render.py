@@ -370,7 +370,7 @@ def _html_table_group(run) -> str:
             current = [f'<div class="table{keep}">', render_html_table(block)]
             parts.append(current)
         else:
-            current.append(f'<p class="{html.escape(block.style)}">{html.escape(block.text)}</p>')
+            current.append(f'<p class="{_html(block.style)}">{_html(block.text)}</p>')
     group = " keep" if lines <= KEEP_ROWS and len(parts) > 1 else ""
     return (f'<div class="tables{group}">\n' + "\n".join("\n".join(p) + "\n</div>" for p in parts)
             + "\n</div>")
