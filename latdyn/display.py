@@ -24,7 +24,7 @@ from dataclasses import dataclass, field
 
 __all__ = ["DASH", "ROUND_OFF", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
            "DEFAULT", "SYSTEMS", "unit_system", "SIGNAL_QUANTITIES", "DERIVATIVE_QUANTITIES",
-           "derivative_unit"]
+           "derivative_unit", "bank_at_end_words"]
 
 #: Text of a figure that does not apply (or is not finite).
 DASH = "-"
@@ -227,3 +227,24 @@ def derivative_unit(units, name, si_label) -> DisplayUnit:
     """
     quantity = DERIVATIVE_QUANTITIES.get(name)
     return units.unit(quantity) if quantity else DisplayUnit(si_label)
+
+
+def bank_at_end_words(readouts, units=DEFAULT, digits=3) -> str:
+    """What the bank angle at the end of a run is doing, in words: ``steady`` or
+    ``still building at 1.2 deg/s`` (``decaying``), in the display units.
+
+    A bank angle still building after an aileron step is not a residual; the
+    rate is :attr:`latdyn.readouts.ResponseReadouts.bank_rate_at_end`.
+
+    Parameters
+    ----------
+    readouts : latdyn.readouts.ResponseReadouts
+    units : UnitSystem
+    digits : int
+        Significant digits of the rate.
+    """
+    state = readouts.bank_at_end_state
+    if state == "steady":
+        return state
+    rate = units.convert(readouts.bank_rate_at_end, "angular_rate")
+    return f"still {state} at {format_number(rate, digits)} {units.label('angular_rate')}"

@@ -27,6 +27,8 @@ __all__ = [
     "ResponseReadouts",
     "extrema",
     "rate_at_end",
+    "end_state",
+    "STEADY_BANK_RATE",
     "log_decrement",
     "read_response",
     "SMALL_DISTURBANCE_LIMITS",
@@ -123,6 +125,9 @@ class ResponseReadouts:
     warnings : tuple of str
         The response leaves the small-disturbance range (see
         :data:`SMALL_DISTURBANCE_LIMITS`).
+    bank_rate_at_end : float
+        Rate of change of the bank angle at the end of the run [rad/s]
+        (:func:`rate_at_end`): tells a bank angle still building from a settled one.
     """
 
     peaks: tuple
@@ -130,6 +135,16 @@ class ResponseReadouts:
     residual_bank_angle: float
     residual_time: float
     warnings: tuple = ()
+    bank_rate_at_end: float = 0.0
+
+    @property
+    def bank_at_end_state(self) -> str:
+        """``"steady"``, ``"building"`` or ``"decaying"``: what the bank angle at the end is doing.
+
+        Steady below :data:`STEADY_BANK_RATE`; building when the rate has the
+        sign of the angle, decaying otherwise.
+        """
+        return end_state(self.residual_bank_angle, self.bank_rate_at_end)
 
     def __iter__(self):
         return iter((self.peaks, self.dutch_roll, self.residual_bank_angle))
@@ -268,6 +283,33 @@ def log_decrement(time, values, start=0.0, signal="", floor=1e-4, minimum=4):
                              tuple(float(v) for v in times), tuple(float(v) for v in peaks))
 
 
+#: Rate of change of the bank angle below which its value at the end of a run is called steady
+#: [rad/s] (our choice: a tenth of a degree in two seconds).
+STEADY_BANK_RATE = math.radians(0.05)
+
+
+def end_state(value, rate, steady_rate=STEADY_BANK_RATE) -> str:
+    """What a value at the end of a run is doing: ``"steady"``, ``"building"`` or ``"decaying"``.
+
+    Parameters
+    ----------
+    value : float
+        The value at the end of the run.
+    rate : float
+        Its rate of change there (:func:`rate_at_end`), in the value's unit per second.
+    steady_rate : float
+        Rates smaller in size than this are steady [unit/s].
+
+    Examples
+    --------
+    >>> end_state(0.2, 0.0), end_state(0.2, 0.01), end_state(0.2, -0.01), end_state(-0.2, -0.01)
+    ('steady', 'building', 'decaying', 'building')
+    """
+    if not abs(rate) >= steady_rate:
+        return "steady"
+    return "building" if rate * value > 0 else "decaying"
+
+
 def rate_at_end(response, signal="phi") -> float:
     """Rate of change of a signal at the end of the run, by the backward difference of the
     last two samples [unit of the signal per second].
@@ -342,4 +384,5 @@ def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseRe
                             f"model: reduce the amplitude or the duration")
     phi = response.signal("phi")
     warn(warnings)
-    return ResponseReadouts(tuple(peaks), dutch, float(phi[-1]), float(time[-1]), tuple(warnings))
+    return ResponseReadouts(tuple(peaks), dutch, float(phi[-1]), float(time[-1]), tuple(warnings),
+                            rate_at_end(response, "phi"))

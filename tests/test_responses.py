@@ -437,3 +437,38 @@ def test_size_run_sizes_only_runs_that_return_to_zero():
         kept, done = size_run(models, kinds, settings)
         assert not done and kept == settings, kinds
     assert sized_amplitude(models, combine(_history(models[0], "rudder-doublet", 0.0))) == math.radians(5.0)
+
+
+# The bank angle at the end of a run is worded for what it is (issue 13, item 4: "a bank angle still
+# building is not a residual").  Reference: the closed-form roll of a first-order roll mode after an
+# aileron step, phi(t) = p_ss (t - T_R (1 - exp(-t/T_R))) (Etkin & Reid, 3rd ed., eq. 9.7,7): its
+# rate at the end is p_ss (1 - exp(-t/T_R)); a decaying exponential has rate -phi/T; a constant is steady.
+@pytest.mark.parametrize("kind", ["building", "decaying", "steady"])
+def test_bank_at_end_state_and_rate(kind):
+    import math
+
+    from latdyn.display import SI, bank_at_end_words, format_number
+    from latdyn.readouts import read_response
+    from latdyn.responses import Response
+
+    time = np.linspace(0.0, 10.0, 2001)
+    if kind == "building":
+        p_ss, t_r = math.radians(20.0), 0.8
+        phi = p_ss * (time - t_r * (1.0 - np.exp(-time / t_r)))
+        rate = p_ss * (1.0 - math.exp(-10.0 / t_r))
+    elif kind == "decaying":
+        phi = math.radians(10.0) * np.exp(-time / 4.0)
+        rate = -phi[-1] / 4.0
+    else:
+        phi = np.full_like(time, math.radians(3.0))
+        rate = 0.0
+    zeros = np.zeros_like(time)
+    outputs = np.column_stack([zeros, zeros, zeros, phi])
+    response = Response(time, np.zeros((time.size, 2)), outputs, outputs, ("beta", "p", "r", "phi"),
+                        output_names=("beta", "p", "r", "phi"))
+    readout = read_response(response)
+    assert readout.bank_at_end_state == kind
+    assert readout.bank_rate_at_end == pytest.approx(rate, rel=2e-3, abs=1e-12)
+    words = bank_at_end_words(readout, SI)
+    assert words == ("steady" if kind == "steady" else
+                     f"still {kind} at {format_number(math.degrees(rate), 3)} deg/s")

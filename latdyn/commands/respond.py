@@ -231,7 +231,7 @@ def _transfer_lines(model, modes):
 
 
 def _summary(label, aircraft, response, readout, modes, settings, units):
-    from latdyn.display import SIGNAL_QUANTITIES
+    from latdyn.display import SIGNAL_QUANTITIES, bank_at_end_words
     from latdyn.responses import STANDARD_LIMITS
 
     lines = [f"{label}  ({aircraft.file})"]
@@ -250,7 +250,8 @@ def _summary(label, aircraft, response, readout, modes, settings, units):
     lines.append("  peaks: " + " | ".join(peaks))
     lines += _dutch_lines(readout, modes)
     lines.append(f"  bank angle at the end ({readout.residual_time:g} s): "
-                 f"{_format(units.convert(readout.residual_bank_angle, 'angle'))} {units.label('angle')}")
+                 f"{_format(units.convert(readout.residual_bank_angle, 'angle'))} {units.label('angle')}, "
+                 f"{bank_at_end_words(readout, units)}")
     for warning in readout.warnings:
         lines.append(f"  warning: {warning}")
     return lines
@@ -297,6 +298,8 @@ def _readout_document(response, readout, settings):
             "extrema": trace.count},
         "bank_angle_at_end": readout.residual_bank_angle,
         "time_at_end": readout.residual_time,
+        "bank_rate_at_end": readout.bank_rate_at_end,
+        "bank_at_end_state": readout.bank_at_end_state,
         "warnings": list(readout.warnings),
     }
 

@@ -29,9 +29,6 @@ _LABEL_BOX = dict(boxstyle="round,pad=0.15", facecolor="white", edgecolor="none"
 
 #: Symbol of each signal on its panel (typeset); the unit is the display unit of its quantity.
 _SYMBOLS = {name: SYMBOLS[name] for name in ("beta", "p", "r", "phi", "psi", "ny")}
-#: Rate of change below which a value at the end of the run is called steady [display unit/s]
-#: (our choice: a tenth of a degree in two seconds).
-_STEADY_RATE = 0.05
 
 
 def _unit(name):
@@ -57,14 +54,11 @@ _CONTROL_WORDS = {"aileron": f"aileron {SYMBOLS['delta_a']}", "rudder": f"rudder
 
 def _end_words(response, readout):
     """The bank angle at the end of the run, worded for what it is: steady or still changing."""
-    from latdyn.readouts import rate_at_end
+    from latdyn.display import bank_at_end_words
 
     final = readout.residual_bank_angle * _factor("phi")
-    rate = rate_at_end(response, "phi") * _factor("phi")
-    words = f"{SYMBOLS['phi']} at end of run {_fmt(final)} {_unit('phi')} (t = {readout.residual_time:g} s), "
-    if abs(rate) < _STEADY_RATE:
-        return words + "steady"
-    return words + f"still {'building' if rate * final > 0 else 'decaying'} at {_fmt(rate)} {_unit('phi')}/s"
+    return (f"{SYMBOLS['phi']} at end of run {_fmt(final)} {_unit('phi')} (t = {readout.residual_time:g} s), "
+            + bank_at_end_words(readout, SI))
 
 
 #: Colour of each output on the Bode figure (the same output has the same colour in every column).

@@ -16,7 +16,7 @@ from __future__ import annotations
 import math
 import os
 
-from latdyn.display import DEFAULT, SIGNAL_QUANTITIES, format_number
+from latdyn.display import DEFAULT, SIGNAL_QUANTITIES, bank_at_end_words, format_number
 from latdyn.modes import MODE_LABELS
 from latdyn.report.blocks import Absent, Column, Table
 
@@ -639,7 +639,7 @@ def readout_table(responses, modes, name="readouts", units=DEFAULT) -> Table:
             rows.append({"input": kind, "signal": peak.signal,
                          "peak": units.convert(peak.value, quantity) if quantity else peak.value,
                          "unit": units.label(quantity) if quantity else "", "time": peak.time})
-        rows.append({"input": kind, "signal": "phi at the end",
+        rows.append({"input": kind, "signal": f"phi at the end ({bank_at_end_words(readouts, units)})",
                      "peak": units.convert(readouts.residual_bank_angle, "angle"),
                      "unit": units.label("angle"), "time": readouts.residual_time})
         estimate = readouts.dutch_roll
