@@ -44,7 +44,7 @@ time with ``numpy.linalg.eig`` -- slower than the 4x4 path, which is untouched.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields, replace
+from dataclasses import MISSING, dataclass, field, fields, replace
 
 import numpy as np
 
@@ -54,7 +54,7 @@ from latdyn.model import (COEFFICIENT_NAMES, DIMENSIONAL_NAMES, equation_angles,
 from latdyn.modes import ModeArrays, analyse_stack, pair_figures, root_figures
 
 __all__ = [
-    "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "case_inputs",
+    "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "nominal_value", "case_inputs",
     "case_matrices", "mode_figures", "assess_figures", "run_batch", "iterate_batch",
     "condition_set", "geometry_names", "sweep_notes", "AUGMENTATION_PARAMETERS", "case_models", "case_augmentation",
     "takes_augmented_path", "closed_loop_matrices", "mode_arrays", "CONTROL_PARAMETERS", "roll_models",
@@ -63,14 +63,6 @@ __all__ = [
 
 #: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
 CHUNK = 16384
-
-#: Figures computed for every case (attribute names of :class:`Figures`), with units.
-FIGURES = {
-    "dutch_roll_frequency": "rad/s", "dutch_roll_damping": "-", "phi_to_beta": "-",
-    "roll_root": "1/s", "roll_time_constant": "s", "spiral_root": "1/s",
-    "spiral_time_to_double": "s", "spiral_time_to_half": "s",
-    "roll_spiral_frequency": "rad/s", "roll_spiral_damping": "-", "time_to_bank": "s",
-}
 
 _MASS_KEYS = ("mass", "Ixx", "Izz", "Ixz")
 _FLIGHT_KEYS = ("speed", "density", "altitude", "alpha", "gamma", "wing_area", "span")
@@ -135,6 +127,20 @@ def condition_set(aircraft, condition, overrides=None) -> CaseSet:
     if any(v.ndim > 1 for v in overrides.values()):
         raise ValueError("input arrays must be one-dimensional")
     return CaseSet(aircraft, condition, overrides, sizes.pop() if sizes else 1)
+
+
+def nominal_value(aircraft, condition, name) -> float:
+    """The nominal value of a derivative, mass property or augmentation input [SI, rad].
+
+    The value the studies perturb: a Monte Carlo sample adds its error to it
+    (:mod:`latdyn.studies.uncertainty`), a finite difference its steps
+    (:mod:`latdyn.studies.sensitivity`).
+    """
+    if name.startswith("augmentation."):
+        return float(getattr(condition.augmentation, name.split(".", 1)[1]))
+    if name in _MASS_KEYS:
+        return float(getattr(aircraft.mass, name))
+    return float(getattr(condition.derivatives, name))
 
 
 def parameter_names(aircraft, condition) -> tuple:
@@ -406,6 +412,14 @@ def _augmented_modes(cases: CaseSet) -> ModeArrays:
     return mode_arrays(sets)
 
 
+_UNIT = "unit"
+
+
+def _figure(unit, default=MISSING):
+    """A field of :class:`Figures` that is one of the per-case figures of :data:`FIGURES` [unit]."""
+    return field(default=default, metadata={_UNIT: unit})
+
+
 @dataclass(frozen=True)
 class Figures:
     """Mode figures of N cases (arrays of shape (N,); NaN where they do not apply).
@@ -436,17 +450,17 @@ class Figures:
     roll: np.ndarray
     spiral: np.ndarray
     roll_spiral: np.ndarray
-    dutch_roll_frequency: np.ndarray
-    dutch_roll_damping: np.ndarray
-    phi_to_beta: np.ndarray
-    roll_root: np.ndarray
-    roll_time_constant: np.ndarray
-    spiral_root: np.ndarray
-    spiral_time_to_double: np.ndarray
-    spiral_time_to_half: np.ndarray
-    roll_spiral_frequency: np.ndarray
-    roll_spiral_damping: np.ndarray
-    time_to_bank: np.ndarray = None
+    dutch_roll_frequency: np.ndarray = _figure("rad/s")
+    dutch_roll_damping: np.ndarray = _figure("-")
+    phi_to_beta: np.ndarray = _figure("-")
+    roll_root: np.ndarray = _figure("1/s")
+    roll_time_constant: np.ndarray = _figure("s")
+    spiral_root: np.ndarray = _figure("1/s")
+    spiral_time_to_double: np.ndarray = _figure("s")
+    spiral_time_to_half: np.ndarray = _figure("s")
+    roll_spiral_frequency: np.ndarray = _figure("rad/s")
+    roll_spiral_damping: np.ndarray = _figure("-")
+    time_to_bank: np.ndarray = _figure("s", None)
     bank_change: np.ndarray = None
 
     def __iter__(self):
@@ -455,6 +469,12 @@ class Figures:
 
     def __len__(self):
         return len(self.pattern)
+
+
+#: Figures computed for every case (attribute names of :class:`Figures`, in their order), with
+#: units: the fields of :class:`Figures` declared with a unit, the one list of the per-case figures
+#: (:class:`latdyn.studies.uncertainty.SampleFigures` keeps the same).
+FIGURES = {item.name: item.metadata[_UNIT] for item in fields(Figures) if _UNIT in item.metadata}
 
 
 def mode_figures(modes: ModeArrays) -> Figures:

@@ -35,7 +35,8 @@ import numpy as np
 
 from latdyn.aircraft import NondimensionalDerivatives
 from latdyn.studies.batch import (AUGMENTATION_PARAMETERS, case_matrices, closed_loop_matrices,
-                                  condition_set, parameter_names, takes_augmented_path)
+                                  condition_set, nominal_value, parameter_names,
+                                  takes_augmented_path)
 
 __all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "BETTER", "sensitivity_parameters",
            "matrix_derivatives", "eigenvalue_derivatives", "condition_sensitivities",
@@ -80,14 +81,6 @@ def sensitivity_parameters(aircraft, condition) -> tuple:
     return tuple(names)
 
 
-def _nominal(aircraft, condition, name):
-    if name.startswith("augmentation."):
-        return float(getattr(condition.augmentation, name.split(".", 1)[1]))
-    if name in ("mass", "Ixx", "Izz", "Ixz"):
-        return float(getattr(aircraft.mass, name))
-    return float(getattr(condition.derivatives, name))
-
-
 def _step(aircraft, condition, name, value):
     if value != 0.0:
         return STEP * abs(value)
@@ -107,7 +100,7 @@ def matrix_derivatives(aircraft, condition, names) -> np.ndarray:
     count = len(names)
     overrides, steps = {}, []
     for p, name in enumerate(names):
-        value = _nominal(aircraft, condition, name)
+        value = nominal_value(aircraft, condition, name)
         h = _step(aircraft, condition, name, value)
         steps.append(h)
         column = np.full(4 * count, value)
@@ -298,7 +291,7 @@ def condition_sensitivities(aircraft, condition) -> ConditionSensitivities:
     for figure, (value, derivative) in figures.items():
         rows = []
         for p, name in enumerate(names):
-            nominal = _nominal(aircraft, condition, name)
+            nominal = nominal_value(aircraft, condition, name)
             slope = float(derivative[p])
             if not (math.isfinite(slope) and math.isfinite(float(value))):
                 rows.append(Sensitivity(figure, name, nominal, _finite_or_none(value), None, None,

@@ -19,13 +19,14 @@ from __future__ import annotations
 
 import math
 import zlib
-from dataclasses import dataclass
+from dataclasses import dataclass, make_dataclass
 
 import numpy as np
 
 from latdyn.aircraft import DISTRIBUTIONS, Uncertainty
 from latdyn.errors import InputError
-from latdyn.studies.batch import FIGURES, condition_set, iterate_batch, parameter_names
+from latdyn.studies.batch import (FIGURES, condition_set, iterate_batch, nominal_value,
+                                  parameter_names)
 from latdyn.studies.keys import file_units, resolve_key
 from latdyn.studies.rules import sample_rules
 
@@ -128,12 +129,6 @@ def _derivative_names(condition):
     return DIMENSIONAL_NAMES
 
 
-def _nominal(aircraft, condition, name):
-    if name in _MASS:
-        return float(getattr(aircraft.mass, name))
-    return float(getattr(condition.derivatives, name))
-
-
 def _generator(seed, condition_name):
     return np.random.default_rng([int(seed), zlib.crc32(condition_name.encode("utf-8"))])
 
@@ -148,7 +143,7 @@ def draw_samples(aircraft, condition, uncertainties, samples, seed) -> dict:
     rng = _generator(seed, condition.name)
     out = {}
     for item in sorted(uncertainties, key=lambda u: u.key):
-        nominal = _nominal(aircraft, condition, item.key)
+        nominal = nominal_value(aircraft, condition, item.key)
         scale = item.amount * abs(nominal) if item.kind == "relative" else item.amount
         if item.distribution == "normal":
             error = rng.standard_normal(samples)
@@ -231,28 +226,20 @@ def figure_percentiles(values) -> dict:
     return out
 
 
-@dataclass(frozen=True)
-class SampleFigures:
-    """The mode figures of every sample, kept as float32 (:data:`FIGURES`, NaN where absent).
+def _sample_count(self):
+    return len(self.dutch_roll_frequency)
 
-    What a streamed Monte Carlo run keeps of each sample: 44 bytes a sample
-    instead of the batch engine's full :class:`~latdyn.studies.batch.Figures`.
+
+# one float32 array per name of FIGURES, in that order (the list is written once: the fields of
+# latdyn.studies.batch.Figures declared with a unit)
+SampleFigures = make_dataclass("SampleFigures", [(name, np.ndarray) for name in FIGURES], frozen=True,
+                               namespace={"__module__": __name__, "__len__": _sample_count})
+SampleFigures.__doc__ = """The mode figures of every sample, kept as float32 (:data:`FIGURES`, NaN where absent).
+
+    What a streamed Monte Carlo run keeps of each sample: 4 bytes a figure
+    instead of the batch engine's full :class:`~latdyn.studies.batch.Figures`;
+    one field per name of :data:`FIGURES`, in that order.
     """
-
-    dutch_roll_frequency: np.ndarray
-    dutch_roll_damping: np.ndarray
-    phi_to_beta: np.ndarray
-    roll_root: np.ndarray
-    roll_time_constant: np.ndarray
-    spiral_root: np.ndarray
-    spiral_time_to_double: np.ndarray
-    spiral_time_to_half: np.ndarray
-    roll_spiral_frequency: np.ndarray
-    roll_spiral_damping: np.ndarray
-    time_to_bank: np.ndarray
-
-    def __len__(self):
-        return len(self.dutch_roll_frequency)
 
 
 def stream_samples(cases, criteria_sets, progress=False, roll=False):
