@@ -41,7 +41,7 @@ __all__ = [
     "LateralModel", "lateral_model", "lateral_matrices", "output_matrices",
     "dimensional_from_coefficients", "prime", "rotate_primed", "rotate_coefficients",
     "rotate_inertia", "primed_derivatives", "primed_values", "equation_angles",
-    "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES", "STATE_NAMES", "INPUT_NAMES",
+    "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES", "DIMENSIONAL_OF", "STATE_NAMES", "INPUT_NAMES",
 ]
 
 #: Keys of a dimensional derivative set (SI, see :class:`DimensionalDerivatives`).
@@ -56,6 +56,10 @@ DIMENSIONAL_UNITS = {
 #: Keys of a non-dimensional derivative set.
 COEFFICIENT_NAMES = ("Cy_beta", "Cy_p", "Cy_r", "Cl_beta", "Cl_p", "Cl_r", "Cn_beta", "Cn_p",
                      "Cn_r", "Cy_da", "Cl_da", "Cn_da", "Cy_dr", "Cl_dr", "Cn_dr")
+#: The dimensional derivative each coefficient scales into (:func:`dimensional_from_coefficients`):
+#: side force Cy_* -> Y_* (Cy_beta -> Y_v), rolling moment Cl_* -> L_*, yawing moment Cn_* -> N_*.
+DIMENSIONAL_OF = {name: "Y_v" if name == "Cy_beta" else {"y": "Y", "l": "L", "n": "N"}[name[1]] + name[2:]
+                  for name in COEFFICIENT_NAMES}
 STATE_NAMES = ("beta", "p", "r", "phi")
 INPUT_NAMES = ("aileron", "rudder")
 

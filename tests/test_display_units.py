@@ -181,3 +181,20 @@ def test_modes_json_stays_si_and_text_follows_the_file(pair, capsys):
     assert "altitude 15000 ft" in text and "ft/s" in text and "slug/ft^3" in text
     assert main(["modes", str(us), "--units", "SI"]) == 0
     assert "altitude 4572 m" in capsys.readouterr().out
+
+
+@pytest.mark.parametrize("key, used", [("Cy_beta", "Y_v"), ("Cl_beta", "L_beta'"), ("Cn_r", "N_r'"),
+                                       ("Cl_da", "L_da'"), ("Cn_dr", "N_dr'")],
+                         ids=["side-force", "rolling-moment", "yawing-moment", "aileron", "rudder"])
+def test_as_given_derivative_beside_its_dimensional_derivative(pair, key, used):
+    """Each coefficient's "as used" entry is the dimensional derivative of the same force or moment
+    and the same variable (Cl_da -> L_da', not the one at the same position in another list;
+    notation common practice), with the value the model uses."""
+    from latdyn import lateral_model, load_aircraft
+
+    si, _ = pair
+    row = next(row for row in find(tables(si), "cruise-as-given").rows
+               if row["key"] == f"condition.derivatives.{key}")
+    model = lateral_model(load_aircraft(str(si)), "cruise")
+    assert row["used"] == used
+    assert row["used_value"] == getattr(model.derivatives, used.rstrip("'"))

@@ -24,7 +24,7 @@ __all__ = [
     "MODE_TEXT_VIEW", "MODE_REPORT_VIEW", "ASSESSMENT_TEXT_VIEW", "ASSESSMENT_REPORT_VIEW",
     "ASSESSMENT_CSV_VIEW", "SUMMARY_VIEW",
     "mode_status", "mode_table", "shape_table", "flight_condition_table", "mass_table",
-    "derivative_table", "derivative_caption", "given_table", "assessment_table", "assessment_sources",
+    "given_table", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
     "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
     "turbulence_table", "equivalent_table", "roll_response_table", "FIGURE_LABELS", "buildup_table", "buildup_caption",
@@ -209,7 +209,7 @@ def _used(key, aircraft, result):
     """(name, SI value, SI unit) that the model uses for a key of the file, or None."""
     from latdyn.aircraft import SPEED_KEYS
     from latdyn.aircraft_file import DIMENSIONAL_FORMS
-    from latdyn.model import COEFFICIENT_NAMES, DIMENSIONAL_NAMES, DIMENSIONAL_UNITS
+    from latdyn.model import DIMENSIONAL_OF, DIMENSIONAL_UNITS
 
     section, _, name = key.rpartition(".")
     if section in ("mass", "geometry"):
@@ -228,8 +228,8 @@ def _used(key, aircraft, result):
                 "alpha_deg": ("alpha", flight.alpha, "rad"),
                 "gamma_deg": ("gamma", flight.gamma, "rad")}.get(name)
     quantity = None
-    if section == "condition.derivatives" and name in COEFFICIENT_NAMES:
-        quantity = DIMENSIONAL_NAMES[COEFFICIENT_NAMES.index(name)]
+    if section == "condition.derivatives" and name in DIMENSIONAL_OF:
+        quantity = DIMENSIONAL_OF[name]
     elif section == "condition.dimensional":
         quantity = next((q for q, forms in DIMENSIONAL_FORMS.items()
                          if any(form[0] == name for form in forms)), None)
@@ -267,43 +267,6 @@ def given_table(aircraft, result=None, name="given") -> Table:
     what = "Mass and geometry" if result is None else "Flight condition and derivatives"
     return Table(name, f"{what} as given in the file ({aircraft.units} units) and as used "
                        "(SI units and radians)", tuple(columns), tuple(rows))
-
-
-def derivative_caption(result) -> str:
-    from latdyn.aircraft import NondimensionalDerivatives
-
-    given = result.condition.derivatives
-    kind = "non-dimensional" if isinstance(given, NondimensionalDerivatives) else (
-        "dimensional, " + ("primed" if given.primed else "not primed"))
-    return (f"Derivatives as given ({kind}, {given.axes} axes) and as used "
-            f"(primed dimensional, {result.model.axes} axes, SI)")
-
-
-def derivative_table(result, name="derivatives") -> Table:
-    """One row per derivative: as given in the file, and the primed dimensional one used."""
-    from latdyn.aircraft import NondimensionalDerivatives
-    from latdyn.model import COEFFICIENT_NAMES, DIMENSIONAL_NAMES, DIMENSIONAL_UNITS
-
-    given = result.condition.derivatives
-    if isinstance(given, NondimensionalDerivatives):
-        given_names = COEFFICIENT_NAMES
-        given_units = ["1/rad"] * len(given_names)
-    else:
-        given_names = DIMENSIONAL_NAMES
-        given_units = [DIMENSIONAL_UNITS[n] for n in given_names]
-    used = result.model.derivatives
-    rows = []
-    for given_name, unit, used_name in zip(given_names, given_units, DIMENSIONAL_NAMES):
-        rows.append({"given": given_name, "given_unit": unit, "given_value": getattr(given, given_name),
-                     "used": used_name + "'" if used_name[0] in "LN" else used_name,
-                     "used_unit": DIMENSIONAL_UNITS[used_name], "used_value": getattr(used, used_name)})
-    if isinstance(given, NondimensionalDerivatives):
-        for row in rows:
-            row["source"] = result.condition.source(row["given"])
-    columns = (Column("given", "As given"), Column("given_unit", "Unit"), Column("given_value", "Value"),
-               Column("source", "Source"),
-               Column("used", "Used"), Column("used_unit", "Unit"), Column("used_value", "Value"))
-    return Table(name, derivative_caption(result), columns, tuple(rows))
 
 
 # ------------------------------------------------------------------ estimation
