@@ -638,6 +638,10 @@ def assess_steady(aircraft, condition, groups, result=None, flight_phase=None) -
             elif not check.applies(category, flight_phase):
                 continue
             value, unit, more_notes, more_missing = check_quantity(result, check, aircraft, condition, cache)
+            if value is not None and math.isnan(value):  # never a verdict on a figure that is not a number
+                more_notes = [*more_notes, "not computable: the steady balance at this condition has no "
+                              "finite solution"]
+                value = None
             notes += more_notes
             missing += more_missing
             limit = check.limit_value(stall)

@@ -10,6 +10,7 @@
   names the aircraft file, the condition and the records.
 """
 
+import json
 import pathlib
 
 import numpy as np
@@ -84,6 +85,61 @@ def test_respond_on_a_barely_oscillatory_dutch_roll_does_not_blame_dt(tmp_path, 
 
 # ------------------------------------------------------------------ extreme finite values
 
+EXTREMES = {
+    "Cl_p-1e6": ("Cl_p = -0.47", "Cl_p = -1e6"),
+    "Cn_beta-1e6": ("Cn_beta = 0.105", "Cn_beta = 1e6"),
+    "mass-1e-6": ("mass = 6800.0", "mass = 1e-6"),
+    "speed-1e-6": ("speed = 77.0", "speed = 1e-6"),
+}
+
+
+def _finite_json(text):
+    def refuse(word):
+        raise AssertionError(f"{word} in JSON output")
+
+    return json.loads(text, parse_constant=refuse)
+
+
+def _no_nan(text):
+    words = {w.strip("\"'").lower() for w in text.replace(",", " ").split()}
+    assert not words & {"nan", "inf", "-inf", "infinity", "-infinity"}, text[:400]
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("old,new", EXTREMES.values(), ids=list(EXTREMES))
+def test_extreme_values_give_finite_outputs_or_one_line(old, new, tmp_path, capsys):
+    """report, compare, turbulence (RMS and a seeded history) and identify on a one-condition
+    aircraft with one extreme value: each ends with status 0 and finite outputs, or status 2
+    and one line."""
+    path = _variant(tmp_path, old, new)
+    base = tmp_path / "base.toml"
+    base.write_text(_first_condition_only(DEMO.read_text(encoding="utf-8")), encoding="utf-8")
+    runs = {
+        "report": ["report", path, "-o", tmp_path / "report"],
+        "compare": ["compare", base, path, "--format", "json"],
+        "turbulence": ["turbulence", path, "--sigma-v", "2", "--scale-length", "500", "--format", "json",
+                       "--csv", tmp_path / "gust.csv"],
+        "identify": ["identify", path, "--data", RUDDER, "--data", AILERON, "--format", "json"],
+    }
+    for name, argv in runs.items():
+        status = main([str(a) for a in argv])
+        captured = capsys.readouterr()
+        assert "Traceback" not in captured.err
+        if status == 2:
+            assert captured.err.count("\n") == 1 and captured.err.startswith("latdyn: "), (name, captured.err)
+            assert captured.out == "", name
+            continue
+        assert status == 0, (name, captured.err)
+        if "--format" in argv:
+            _finite_json(captured.out)
+        _no_nan(captured.out)
+    for written in tmp_path.rglob("*"):
+        if written.suffix in (".csv", ".md"):
+            _no_nan(written.read_text(encoding="utf-8"))
+        if written.suffix == ".json":
+            _finite_json(written.read_text(encoding="utf-8"))
+
+
 def test_a_turbulence_history_too_coarse_for_a_stiff_model_is_one_line(tmp_path, capsys):
     """Cl_p = -1e6 puts a root near -6e6 1/s: exp(|lambda| h) overflows at the default step; the
     message names --dt and the longest step that samples it."""
@@ -120,3 +176,21 @@ def test_identify_with_unresolvable_identified_roots_names_file_condition_and_re
     status = main(["identify", str(DEMO), "--condition", "cruise", "--data", str(RUDDER), "--method",
                    "equation-error"])
     _one_line(capsys, status, "kestrel-k40.toml", 'condition "cruise"', "roots", RUDDER.name)
+
+
+def test_a_singular_steady_balance_is_not_graded(tmp_path, capsys):
+    """mass = 1e-6 makes C_L vanish and the steady sideslip balance singular: the static checks of
+    steady flight are left ungraded with the reason (never a "fail" on a figure that is not a
+    number), and the JSON stays finite.  The rule is the guide's: never print a verdict for a
+    figure that cannot be computed (common practice)."""
+    path = _variant(tmp_path, "mass = 6800.0", "mass = 1e-6")
+    status = main(["assess", str(path), "--format", "json"])
+    captured = capsys.readouterr()
+    assert status == 0, captured.err
+    document = _finite_json(captured.out)
+    steady = [a for c in document["conditions"] for a in c["assessments"] if a["criteria"].endswith("-steady")]
+    assert steady
+    for row in steady:
+        if row["value"] is None:
+            assert row["pass"] is None, row
+    assert any("no finite solution" in " ".join(row["notes"]) for row in steady)

@@ -961,6 +961,8 @@ def steady_table(results, name="steady", units=DEFAULT, aircraft=None, part=None
     def add(condition, quantity, value, kind, limited_by=None, note=""):
         if part is not None and _steady_part(quantity) != part:
             return
+        if isinstance(value, float) and math.isnan(value):  # a singular balance: no figure, said so
+            value = None
         if kind == "speed":
             unit, shown = units.label("speed"), units.convert(value, "speed")
             knots = None if value is None else value / KNOT
@@ -986,12 +988,14 @@ def steady_table(results, name="steady", units=DEFAULT, aircraft=None, part=None
         add(name_, "bank per sideslip", s.bank_per_sideslip, "ratio",
             note="+: right wing down with the wind from the right")
         for point in s.points:
-            at = (f"at sideslip {math.degrees(point['sideslip']):.3g} deg, "
-                  f"bank {math.degrees(point['bank']):.3g} deg")
+            sideslip, bank = (math.degrees(point[key]) for key in ("sideslip", "bank"))
+            at = f"at sideslip {sideslip:.3g} deg, " + (f"bank {bank:.3g} deg" if math.isfinite(bank)
+                                                        else "bank not computed")
             for control in ("rudder", "aileron"):
                 fraction = point[f"{control}_fraction"]
                 add(name_, f"{control} {at}", point[control], "angle",
-                    note="" if fraction is None else f"{100 * fraction:.0f} % of travel")
+                    note="" if fraction is None or not math.isfinite(fraction)
+                    else f"{100 * fraction:.0f} % of travel")
         add(name_, "full-rudder sideslip", s.full_rudder_sideslip, "angle", s.limited_by,
             "; ".join("large sideslip (linear derivatives)" if n == LINEAR_NOTE else n for n in s.notes))
         if s.roll_fraction_at_10deg is not None:
