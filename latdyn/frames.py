@@ -186,8 +186,9 @@ def response_frame(response):
 def sweep_frame(result):
     """A sweep: one row per condition and grid point (``latdyn sweep --format json``).
 
-    Columns: ``condition``, ``category``, ``parameters.<key>`` (typed
-    units), ``pattern``, the figures (SI) and ``levels.<criteria>.<mode>``;
+    Columns: ``condition``, ``category``, ``parameters.<key>`` (SI and
+    radians), ``file_parameters.<key>`` (as typed: the file's units and
+    degrees), ``pattern``, the figures (SI) and ``levels.<criteria>.<mode>``;
     ``attrs``: the document's top-level fields (``crossings`` and the
     ``notice`` among them).
     """

@@ -15,7 +15,7 @@ import pathlib
 import pytest
 
 from latdyn.cli import main
-from us_units import agree_after_conversion, agree_csv, us_file
+from us_units import FOOT, SLUG, agree_after_conversion, agree_csv, us_file
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 AIRCRAFT = ROOT / "aircraft"
@@ -129,3 +129,56 @@ def test_json_stays_si(command, files, capsys, monkeypatch):
             assert a == b
 
     close(si, us)
+
+
+#: (--vary ranges typed in SI, the SI size of one US unit of each key): NIST SP 811 (2008) B.8 factors
+SWEEPS = {
+    "speed": (["speed=40:130:10"], [FOOT]),
+    "inertia-by-speed": (["Izz=20000:120000:6", "speed=60:120:3"], [SLUG * FOOT**2, FOOT]),
+}
+
+
+def _us_range(text, size):
+    key, _, rest = text.partition("=")
+    start, stop, count = rest.split(":")
+    return f"{key}={float(start) / size!r}:{float(stop) / size!r}:{count}"
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("sweep", list(SWEEPS), ids=list(SWEEPS))
+def test_sweep_json_is_si_with_the_file_units_beside(sweep, files, capsys, monkeypatch):
+    """Issue 13 item 1: the sweep's JSON is SI like every other command's.  The SI file and its US
+    twin (tests/us_units.py, NIST SP 811 (2008) Appendix B.8 factors) give the same SI grid and the
+    same SI crossings; ``file_value`` is the value as typed in each file's units, and equals the SI
+    value divided by the SI size of the file's unit."""
+    ranges, sizes = SWEEPS[sweep]
+
+    def document(folder, typed):
+        argv = ["sweep", f"{folder}/kestrel-k40.toml", "--condition", "cruise", "--format", "json"]
+        for text in typed:
+            argv += ["--vary", text]
+        return json.loads(output(capsys, monkeypatch, files, argv))
+
+    si = document("si", ranges)
+    us = document("us", [_us_range(text, size) for text, size in zip(ranges, sizes)])
+    assert si["crossings"] and len(si["crossings"]) == len(us["crossings"])
+    for a, b in zip(si["parameters"], us["parameters"]):
+        assert a["unit"] == b["unit"] and a["file_unit"] != b["file_unit"]
+        assert b["values"] == pytest.approx(a["values"], rel=1e-12)
+        assert a["file_values"] == a["values"]                         # SI file: typed = SI
+    by_key = {p["key"]: size for p, size in zip(us["parameters"], sizes)}
+    for a, b in zip(si["crossings"], us["crossings"]):
+        assert (a["mode"], a["boundary"], a["parameter"]) == (b["mode"], b["boundary"], b["parameter"])
+        assert b["value"] == pytest.approx(a["value"], rel=1e-6)      # the same SI crossing
+        assert b["unit"] == a["unit"] == {"speed": "m/s", "Izz": "kg m^2"}[a["parameter"]]
+        assert b["file_unit"] == {"speed": "ft/s", "Izz": "slug ft^2"}[a["parameter"]]
+        assert b["file_value"] == pytest.approx(b["value"] / by_key[b["parameter"]], rel=1e-12)
+        assert a["file_value"] == a["value"]
+        if "at" in a:
+            for key, value in a["at"].items():
+                assert b["at"][key] == pytest.approx(value, rel=1e-12)
+                assert b["file_at"][key] == pytest.approx(value / by_key[key], rel=1e-12)
+    for a, b in zip(si["conditions"][0]["points"], us["conditions"][0]["points"]):
+        for key, value in a["parameters"].items():
+            assert b["parameters"][key] == pytest.approx(value, rel=1e-12)
+            assert b["file_parameters"][key] == pytest.approx(value / by_key[key], rel=1e-12)

@@ -229,7 +229,10 @@ def test_sweep_command_prints_the_roll_performance_crossing(capsys):
     assert status == 0
     crossing = next(c for c in document["crossings"] if c["mode"] == "roll_performance"
                     and c["boundary"] == "level 1")
-    assert crossing["parameter"] == "controls.aileron_deg" and 12.5 < crossing["value"] < 14.0
+    assert crossing["parameter"] == "controls.aileron_deg" and 12.5 < crossing["file_value"] < 14.0
+    # JSON stays SI: the value in radians, the typed degrees beside it
+    assert crossing["unit"] == "rad" and crossing["file_unit"] == "deg"
+    assert crossing["value"] == pytest.approx(math.radians(crossing["file_value"]), rel=1e-12)
     point = document["conditions"][0]["points"][0]
     assert point["levels"]["mil-f-8785c"]["roll_performance"] == 4     # 5 deg: beyond Level 3
     assert point["time_to_bank"] > 3.6 and point["bank_change"] == pytest.approx(math.radians(30.0))

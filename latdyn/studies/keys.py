@@ -79,6 +79,12 @@ class StudyKey:
         return units.unit_word(self.dimension, self.units)
 
     @property
+    def si_unit(self) -> str:
+        """Unit word of :meth:`to_si` values ("rad", "rad/s" for the angles; "" for a coefficient)."""
+        return {"degree": "rad", "degree_rate": "rad/s"}.get(self.dimension) or units.unit_word(
+            self.dimension, "SI")
+
+    @property
     def label(self) -> str:
         """The key with its unit, for headings."""
         return f"{self.text} [{self.unit}]" if self.unit else self.text

@@ -577,12 +577,36 @@ def _json_number(value):
     return value if math.isfinite(value) else None
 
 
+def _crossing_entry(crossing, keys) -> dict:
+    """One crossing of the JSON document: ``value`` (and ``at``) in SI units and radians, with
+    ``unit``; ``file_value`` (and ``file_at``) as typed, in the file's units, with ``file_unit``."""
+    key = keys[crossing.parameter]
+    out = crossing.as_dict()
+    out["value"] = float(key.to_si(crossing.value))
+    out["unit"] = key.si_unit
+    out["file_value"] = crossing.value
+    out["file_unit"] = key.unit
+    if crossing.at is not None:
+        out["at"] = {k: float(keys[k].to_si(v)) for k, v in crossing.at.items()}
+        out["file_at"] = dict(crossing.at)
+    return out
+
+
 def sweep_document(result: SweepResult) -> dict:
-    """The ``latdyn sweep --format json`` document (figures SI; parameters in typed units)."""
+    """The ``latdyn sweep --format json`` document, in SI units and radians.
+
+    Parameter values (the grid, each point's ``parameters``, each crossing's
+    ``value`` and ``at``) are SI and radians, labelled by ``unit``; the same
+    values as typed, in the aircraft file's units and degrees, stand beside
+    them as ``file_values``, ``file_parameters``, ``file_value`` and
+    ``file_at``, labelled by ``file_unit``.  Mode figures are SI.
+    """
     from latdyn import __version__
     from latdyn.assessment import NOTICE
 
-    grid = result.grid()
+    typed = result.grid()
+    keys = {axis.key.text: axis.key for axis in result.axes}
+    grid = np.stack([axis.key.to_si(typed[:, k]) for k, axis in enumerate(result.axes)], axis=1)
     groups = {c.name for c in result.criteria if getattr(c, "checks", None) is not None}
     conditions = []
     for item in result.conditions:
@@ -604,6 +628,8 @@ def sweep_document(result: SweepResult) -> dict:
                         "margin": _json_number(grades.margin[i])}
             points.append({
                 "parameters": {axis.key.text: float(grid[i, k]) for k, axis in enumerate(result.axes)},
+                "file_parameters": {axis.key.text: float(typed[i, k])
+                                    for k, axis in enumerate(result.axes)},
                 "pattern": int(figures.pattern[i]),
                 **{key: _json_number(getattr(figures, key)[i]) for key in _SHOWN},
                 "phi_to_beta": _json_number(figures.phi_to_beta[i]),
@@ -619,9 +645,11 @@ def sweep_document(result: SweepResult) -> dict:
     return {
         "latdyn_version": __version__, "aircraft": result.aircraft.name,
         "file": result.aircraft.file, "notice": NOTICE, "notes": list(result.notes),
-        "parameters": [{"key": a.key.text, "unit": a.key.unit, "values": a.values.tolist()}
+        "parameters": [{"key": a.key.text, "unit": a.key.si_unit,
+                        "values": np.asarray(a.key.to_si(a.values), float).tolist(),
+                        "file_unit": a.key.unit, "file_values": a.values.tolist()}
                        for a in result.axes],
         "criteria": [c.name for c in result.criteria],
         "conditions": conditions,
-        "crossings": [c.as_dict() for c in result.crossings],
+        "crossings": [_crossing_entry(c, keys) for c in result.crossings],
     }
