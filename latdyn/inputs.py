@@ -28,6 +28,7 @@ from latdyn.input_files import read_input_text
 __all__ = [
     "INPUT_KINDS",
     "TRANSIENT_KINDS",
+    "HELD_KINDS",
     "freeze_arrays",
     "MAX_DEFLECTION_DEG",
     "InputHistory",
@@ -68,9 +69,13 @@ INPUT_KINDS = (
 )
 
 #: Input kinds that return to zero after the input (doublets, pulses, 3-2-1-1): a run of these
-#: alone has its amplitude sized when none is given (:func:`latdyn.responses.size_run`); a
-#: step holds its deflection, so its bank grows with time whatever the amplitude.
+#: alone has its amplitude sized when none is given (:func:`latdyn.responses.size_run`).
 TRANSIENT_KINDS = tuple(kind for kind in INPUT_KINDS if kind.endswith(("doublet", "pulse", "3211")))
+
+#: Input kinds that hold their deflection (steps): the bank keeps changing as long as the run
+#: lasts, so a run with one of these has its default length sized to the bank change and its
+#: default amplitude to the sideslip and bank bounds (:func:`latdyn.responses.size_step_run`).
+HELD_KINDS = tuple(kind for kind in INPUT_KINDS if kind.endswith("step"))
 
 #: The 3-2-1-1 pattern: durations in unit times, alternating sign.
 PATTERN_3211 = (3, -2, 1, -1)

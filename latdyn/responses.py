@@ -41,6 +41,11 @@ __all__ = [
     "STANDARD_LIMITS",
     "sized_amplitude",
     "size_run",
+    "STEP_WINDOW",
+    "step_window",
+    "RunSizing",
+    "size_step_run",
+    "size_defaults",
     "StandardResponse",
     "standard_response", "replayed_response",
     "display_columns",
@@ -561,14 +566,29 @@ def sized_amplitude(models, unit, limits=None, largest=5.0) -> float:
     >>> round(math.degrees(sized_amplitude([model], make_input("rudder-step", time, math.radians(1.0), 1.0, 1.0))), 6)
     4.0
     """
+    ratios = _limit_ratios(models, unit, limits)
+    worst = max((float(r.max()) for r in ratios.values()), default=0.0)
+    return math.radians(_half_degrees(worst, largest))
+
+
+def _limit_ratios(models, unit, limits=None) -> dict:
+    """Signal -> the largest |signal| / limit over the models at each sample of the response to ``unit``."""
     limits = STANDARD_LIMITS if limits is None else limits
-    worst = 0.0
+    ratios = {}
     for model in models:
         trial = simulate(model, unit)
         for name, limit in limits.items():
-            worst = max(worst, float(np.abs(trial.signal(name)).max()) / limit)
-    degrees = largest if worst == 0 else max(0.5, min(largest, math.floor(2.0 / worst) / 2.0))
-    return math.radians(degrees)
+            ratio = np.abs(trial.signal(name)) / limit
+            ratios[name] = ratio if name not in ratios else np.maximum(ratios[name], ratio)
+    return ratios
+
+
+def _half_degrees(worst, largest) -> float:
+    """The largest amplitude in 0.5 deg steps (0.5 deg at least, ``largest`` at most) for which a
+    response of ``worst`` times its limit per degree stays within the limit [deg]."""
+    if not worst > 0:
+        return largest
+    return max(0.5, min(largest, math.floor(2.0 / worst) / 2.0))
 
 
 def size_run(models, kinds, settings, limits=None):
@@ -577,10 +597,9 @@ def size_run(models, kinds, settings, limits=None):
     When every named input returns to zero (:data:`latdyn.inputs.TRANSIENT_KINDS`)
     the amplitude becomes :func:`sized_amplitude` of the models for those
     inputs on the run's grid, never above the given default; a run with a
-    step keeps its amplitude (a held deflection banks the aircraft further
-    the longer the run, whatever the amplitude: the read-outs warn instead,
-    :data:`latdyn.readouts.SMALL_DISTURBANCE_LIMITS`).  Call it only where
-    the user gave no amplitude.
+    step is left as it is (a held deflection banks the aircraft further the
+    longer the run: :func:`size_step_run` sizes its length and amplitude
+    together).  Call it only where the user gave no amplitude.
 
     Parameters
     ----------
@@ -610,6 +629,222 @@ def size_run(models, kinds, settings, limits=None):
     return replace(settings, amplitude=amplitude), True
 
 
+#: Roll-mode time constants and Dutch roll periods a step run shows at least after the input
+#: starts (:func:`step_window`).
+STEP_WINDOW = {"roll_time_constants": 5.0, "dutch_roll_periods": 1.0}
+
+
+def step_window(modes) -> float:
+    """Shortest stretch of a step run after the input starts: the roll mode settled and one
+    Dutch roll period shown [s].
+
+    ``max(5 T_R, T_d)``: five roll-mode time constants T_R (a first-order
+    mode is then within exp(-5) = 0.7 % of its steady value -- common
+    practice takes four to five time constants as settled) and one Dutch
+    roll period T_d (one full cycle of the oscillation superimposed on the
+    roll -- common practice).  Without a stable real roll root the period of
+    a coupled roll-spiral oscillation stands for 5 T_R; without an
+    oscillatory Dutch roll a 6 s period is assumed, as in
+    :func:`latdyn.inputs.default_inputs`.
+
+    Parameters
+    ----------
+    modes : latdyn.modes.ModeSet
+
+    Returns
+    -------
+    float
+        [s]
+
+    Examples
+    --------
+    Roll time constant 0.33 s, Dutch roll period 3.4 s: the Dutch roll period governs.
+
+    >>> from types import SimpleNamespace as Mode
+    >>> modes = {"roll_subsidence": Mode(time_constant=0.33), "dutch_roll": Mode(period=3.4)}
+    >>> step_window(modes)
+    3.4
+    """
+    roll = modes.get("roll_subsidence")
+    coupled = modes.get("roll_spiral")
+    dutch = modes.get("dutch_roll")
+    if roll is not None and roll.time_constant:
+        roll_span = STEP_WINDOW["roll_time_constants"] * roll.time_constant
+    else:
+        roll_span = coupled.period if coupled is not None and coupled.period else 0.0
+    period = dutch.period if dutch is not None and dutch.period else 6.0
+    return max(roll_span, STEP_WINDOW["dutch_roll_periods"] * period)
+
+
+@dataclass(frozen=True)
+class RunSizing:
+    """How the defaults of a step run were chosen (:func:`size_step_run`).
+
+    Attributes
+    ----------
+    amplitude_sized : bool
+        The amplitude was sized (none was given).
+    duration_sized : bool
+        The run length was sized (none was given).
+    window : float or None
+        The shortest run the rule allows: the start of the input plus
+        :func:`step_window` of the slowest case [s] (None when the length was given).
+    limited_by : str or None
+        The signal whose bound ended the run (``"phi"``, ``"beta"``); None when
+        the run ends at the window or at the default run length.
+    limits : dict
+        Signal -> the bound it was sized to [rad].
+    """
+
+    amplitude_sized: bool
+    duration_sized: bool
+    window: float | None = None
+    limited_by: str | None = None
+    limits: dict = None
+
+    def words(self, settings, names=None) -> dict:
+        """How the defaults were chosen, in words (for the command line and the report).
+
+        Parameters
+        ----------
+        settings : latdyn.inputs.RunSettings
+            The settings the sizing returned.
+        names : dict, optional
+            Signal -> its name in the text; default ``|beta|``, ``|phi|``.
+
+        Returns
+        -------
+        dict
+            Setting (``"duration"``, ``"amplitude"``) -> a sentence, for each setting sized.
+        """
+        limits = self.limits or STANDARD_LIMITS
+        names = {name: f"|{name}|" for name in limits} | dict(names or {})
+        bounds = " and ".join(f"{names[name]} within {math.degrees(limit):g} deg" for name, limit in limits.items())
+        passes = " or ".join(f"{names[name]} passes {math.degrees(limit):g} deg" for name, limit in limits.items())
+        sentences = {}
+        if self.duration_sized:
+            if self.limited_by is not None:
+                ended = f"ends as {names[self.limited_by]} reaches its bound"
+            elif settings.duration <= self.window + 1e-9:
+                ended = "is the shortest allowed"
+            else:
+                ended = "is the default run: the bounds are not reached"
+            sentences["duration"] = (f"run length {settings.duration:g} s, sized to the bank change: a step run "
+                                     f"ends before {passes}, but not before the roll mode has settled and one "
+                                     f"Dutch roll period has passed (by {self.window:g} s); this one {ended}")
+        if self.amplitude_sized:
+            sentences["amplitude"] = (f"amplitude {math.degrees(settings.amplitude):g} deg, sized to keep "
+                                      f"{bounds} over the run in every case shown")
+        return sentences
+
+
+def size_step_run(models, modes, kinds, settings, amplitude_given=False, duration_given=False,
+                  limits=None):
+    """A step run's settings: the length sized to the bank change, the amplitude to the bounds.
+
+    Rule (our choice; the parts marked are common practice): a held
+    deflection banks the aircraft further the longer the run, so the
+    default run of a step (any kind of :data:`latdyn.inputs.HELD_KINDS` in
+    the run) ends at the last sample before any signal of ``limits`` first
+    passes its bound (|phi| 30 deg, |beta| 8 deg by default), but not before
+    the input start plus :func:`step_window` of every case (the roll mode
+    settled and one Dutch roll period shown), rounded up to 0.1 s, nor after
+    the default run length of ``settings``; the end is rounded down to 0.1 s
+    (or to the step when it is longer).  The default amplitude is the
+    largest in 0.5 deg steps (at most the given default, at least 0.5 deg)
+    that keeps every signal of ``limits`` within its bound over the window
+    (over the whole run when its length was given), so that the sized run
+    ends within the bounds.  Both come from one simulation of each model at
+    1 deg, scaled (exact: the models are linear; actuator rate limits are not
+    applied here).  What is given is kept.
+
+    Parameters
+    ----------
+    models : sequence of latdyn.model.LateralModel
+        The cases run with the one input history.
+    modes : sequence of latdyn.modes.ModeSet
+        Their modes, in the same order.
+    kinds : sequence of str
+        The run's inputs (kinds of :data:`latdyn.inputs.INPUT_KINDS`); a run
+        with an input file or without a step is returned as it is.
+    settings : latdyn.inputs.RunSettings
+        The run with its defaults; its duration is the longest a sized run may last.
+    amplitude_given, duration_given : bool
+        The user gave the amplitude, the run length.
+    limits : dict, optional
+        Signal -> largest magnitude [rad]; default :data:`STANDARD_LIMITS`.
+
+    Returns
+    -------
+    settings : latdyn.inputs.RunSettings
+    sizing : RunSizing
+    """
+    from dataclasses import replace
+
+    from latdyn.inputs import HELD_KINDS, INPUT_KINDS, run_inputs
+
+    limits = STANDARD_LIMITS if limits is None else dict(limits)
+    named = [kind for kind in kinds if kind != "none"]
+    untouched = RunSizing(False, False, limits=limits)
+    if (not any(kind in HELD_KINDS for kind in named) or not all(kind in INPUT_KINDS for kind in named)
+            or (amplitude_given and duration_given)):
+        return settings, untouched
+    unit = run_inputs(named, (), replace(settings, amplitude=math.radians(1.0)))
+    ratios = _limit_ratios(models, unit, limits)
+    running = {name: np.maximum.accumulate(ratio) for name, ratio in ratios.items()}
+    worst = np.max(np.stack(list(running.values())), axis=0)
+    time = unit.time
+    quantum = settings.step * max(1, math.ceil(0.1 / settings.step - 1e-9))
+    window = None
+    horizon = settings.duration
+    if not duration_given:
+        shortest = max(settings.start + max(step_window(m) for m in modes), unit.end_time)
+        window = min(settings.duration, quantum * math.ceil(shortest / quantum - 1e-9))
+        horizon = window
+    amplitude = settings.amplitude
+    if not amplitude_given:
+        peak = float(worst[time <= horizon * (1 + 1e-12)][-1])
+        amplitude = math.radians(_half_degrees(peak, math.degrees(settings.amplitude)))
+    duration, limited_by = settings.duration, None
+    if not duration_given:
+        scale = math.degrees(amplitude)
+        outside = np.flatnonzero(worst * scale > 1.0 + 1e-12)
+        if outside.size:
+            first = int(outside[0])
+            last = quantum * math.floor(float(time[first - 1]) / quantum + 1e-9)
+            duration = max(window, last)
+            if duration < settings.duration:
+                limited_by = max(running, key=lambda name: running[name][first]) if last >= window else None
+    sizing = RunSizing(not amplitude_given, not duration_given, window, limited_by, limits)
+    return replace(settings, amplitude=amplitude, duration=duration), sizing
+
+
+def size_defaults(models, modes, kinds, settings, amplitude_given=False, duration_given=False,
+                  limits=None):
+    """The defaults of a run sized: a step run by :func:`size_step_run`, a run of inputs that
+    return to zero by :func:`size_run` (its amplitude only); what is given is kept.
+
+    Parameters
+    ----------
+    models, modes, kinds, settings, amplitude_given, duration_given, limits
+        As for :func:`size_step_run`.
+
+    Returns
+    -------
+    settings : latdyn.inputs.RunSettings
+    sizing : RunSizing
+    """
+    from latdyn.inputs import HELD_KINDS
+
+    limits = STANDARD_LIMITS if limits is None else dict(limits)
+    if any(kind in HELD_KINDS for kind in kinds):
+        return size_step_run(models, modes, kinds, settings, amplitude_given, duration_given, limits)
+    sized = False
+    if not amplitude_given:
+        settings, sized = size_run(models, kinds, settings, limits)
+    return settings, RunSizing(sized, False, limits=limits)
+
+
 @dataclass(frozen=True)
 class StandardResponse:
     """A standard response sized for the aircraft; unpacks as (response, readouts).
@@ -625,6 +860,10 @@ class StandardResponse:
         Control deflection used [rad].
     limits : dict
         Signal -> the largest magnitude it was sized to stay within [rad].
+    sizing : RunSizing or None
+        How the defaults were chosen (:meth:`RunSizing.words` with ``settings``).
+    settings : latdyn.inputs.RunSettings or None
+        The run's settings.
     """
 
     kind: str
@@ -632,6 +871,8 @@ class StandardResponse:
     readouts: object
     amplitude: float
     limits: dict
+    sizing: RunSizing | None = None
+    settings: object = None
 
     def __iter__(self):
         return iter((self.response, self.readouts))
@@ -640,13 +881,12 @@ class StandardResponse:
 def standard_response(model, modes, kind, label="", limits=None) -> StandardResponse:
     """The standard rudder-doublet or aileron-step response of a condition, with its read-outs.
 
-    Sized for the aircraft (our choice): the input of
+    Sized for the aircraft as ``latdyn respond`` sizes a run with no amplitude
+    or length given (:func:`size_defaults`): the input of
     :func:`latdyn.inputs.default_inputs`, its amplitude lowered in 0.5 deg
     steps (5 deg at most, 0.5 deg at least) so that every signal of
-    ``limits`` stays within its limit (:func:`sized_amplitude`).  An
-    aileron step runs for five roll time constants or one and a half Dutch
-    roll periods, whichever is longer (at
-    least 3 s after the input starts), and no longer than the default run.
+    ``limits`` stays within its limit; a step's run length sized to the bank
+    change (:func:`size_step_run`).
 
     Parameters
     ----------
@@ -663,24 +903,15 @@ def standard_response(model, modes, kind, label="", limits=None) -> StandardResp
     -------
     StandardResponse
     """
-    from latdyn.inputs import default_inputs, make_input, switch_times, time_grid
+    from latdyn.inputs import default_inputs, run_inputs, run_settings
     from latdyn.readouts import read_response
 
     limits = STANDARD_LIMITS if limits is None else limits
-    settings = default_inputs(modes)
-    duration = settings.duration
-    if kind == "aileron-step":
-        roll = modes.get("roll_subsidence")
-        dutch = modes.get("dutch_roll")
-        spans = [5 * roll.time_constant if roll is not None and roll.time_constant else 0.0,
-                 1.5 * dutch.period if dutch is not None and dutch.period else 0.0]
-        duration = min(duration, math.ceil(settings.start + max(max(spans), 3.0)))
-    time = time_grid(duration, settings.step, switch_times(kind, settings.half_period, settings.start))
-    unit = make_input(kind, time, math.radians(1.0), settings.half_period, settings.start)
-    amplitude = sized_amplitude([model], unit, limits)
-    history = make_input(kind, time, amplitude, settings.half_period, settings.start)
-    response = simulate(model, history, label=label)
-    return StandardResponse(kind, response, read_response(response), amplitude, dict(limits))
+    settings, sizing = size_defaults([model], [modes], [kind], run_settings(default_inputs(modes)),
+                                     limits=limits)
+    response = simulate(model, run_inputs([kind], (), settings), label=label)
+    return StandardResponse(kind, response, read_response(response), settings.amplitude, dict(limits),
+                            sizing, settings)
 
 
 def replayed_response(model, standard, label="") -> StandardResponse:
@@ -708,7 +939,7 @@ def replayed_response(model, standard, label="") -> StandardResponse:
     history = InputHistory(given.time, given.signal("aileron"), given.signal("rudder"), given.description)
     response = simulate(model, history, label=label)
     return StandardResponse(standard.kind, response, read_response(response), standard.amplitude,
-                            dict(standard.limits))
+                            dict(standard.limits), standard.sizing, standard.settings)
 
 
 def display_columns(response) -> dict:

@@ -472,3 +472,142 @@ def test_bank_at_end_state_and_rate(kind):
     words = bank_at_end_words(readout, SI)
     assert words == ("steady" if kind == "steady" else
                      f"still {kind} at {format_number(math.degrees(rate), 3)} deg/s")
+
+
+# ---------------------------------------------------------------- step runs sized to the bank change (issue 13)
+# The rule (latdyn.responses.size_step_run, our choice; STANDARD_LIMITS 8 deg of sideslip and 30 deg of
+# bank, our choice): a default step run ends at the last sample before |beta| or |phi| passes its bound,
+# never before the input start + max(5 T_R, T_d) (roll mode settled: exp(-5) < 1 %, and one Dutch roll
+# period -- common practice) and never after the default run; the default amplitude is the largest
+# 0.5 deg multiple (<= 5 deg) within the bounds over that shortest run.  Demo twin: aircraft/kestrel-k40.toml.
+TWIN = [(name, model) for name, model in DEMOS if name.startswith("kestrel-k40-") and name.count("-") == 2]
+STEPS = ("aileron-step", "rudder-step")
+
+
+def _sized_step(models, kind, amplitude_given=False, duration_given=False, **given):
+    from dataclasses import replace
+
+    from latdyn.inputs import run_settings
+    from latdyn.responses import size_step_run
+
+    modes = [find_modes(model) for model in models]
+    settings = replace(run_settings(default_inputs(modes[0])), **given)
+    sized, sizing = size_step_run(models, modes, [kind], settings, amplitude_given, duration_given)
+    return settings, sized, sizing, modes
+
+
+def _worst(models, kind, settings):
+    """Largest |signal| / bound over the run and the models, by simulating the run itself."""
+    from latdyn.inputs import run_inputs
+    from latdyn.responses import STANDARD_LIMITS
+
+    history = run_inputs([kind], (), settings)
+    return max(float(np.abs(simulate(m, history).signal(s)).max()) / limit
+               for m in models for s, limit in STANDARD_LIMITS.items())
+
+
+@pytest.mark.parametrize("kind", STEPS, ids=STEPS)
+@pytest.mark.parametrize("name,model", TWIN, ids=[name for name, _ in TWIN])
+def test_default_step_run_ends_within_the_bounds_after_the_shortest_run(name, model, kind):
+    """The sized step run stays within |beta| <= 8 deg and |phi| <= 30 deg to its end, lasts at least the
+    input start + max(5 T_R, T_d) (T_R, T_d from the eigenvalues) and stops at the bound: 0.1 s longer
+    would pass it unless the run is the shortest or the default one; 0.5 deg more amplitude would pass
+    a bound within the shortest run unless the amplitude is the 5 deg default."""
+    from dataclasses import replace
+
+    from latdyn.inputs import run_inputs
+    from latdyn.responses import STANDARD_LIMITS
+
+    settings, sized, sizing, (modes,) = _sized_step([model], kind)
+    shortest = settings.start + max(5 * modes.get("roll_subsidence").time_constant, modes.get("dutch_roll").period)
+    assert sizing.duration_sized and sizing.amplitude_sized
+    assert shortest - 1e-9 <= sized.duration <= settings.duration and sized.duration >= sizing.window - 1e-9
+    assert sizing.window == pytest.approx(math.ceil(shortest * 10 - 1e-9) / 10)
+    response = simulate(model, run_inputs([kind], (), sized))
+    assert response.time[-1] == pytest.approx(sized.duration)
+    assert abs(response.signal("phi")[-1]) <= STANDARD_LIMITS["phi"] * (1 + 1e-9)
+    assert _worst([model], kind, sized) <= 1 + 1e-9
+    if sizing.limited_by is not None:
+        assert _worst([model], kind, replace(sized, duration=sized.duration + 0.1)) > 1.0
+    if sized.amplitude < math.radians(5.0) - 1e-12:
+        longer = replace(sized, amplitude=sized.amplitude + math.radians(0.5), duration=sizing.window)
+        assert _worst([model], kind, longer) > 1.0
+
+
+def test_the_aileron_step_of_the_demo_twin_no_longer_banks_past_the_bound():
+    """Issue 13: the 5 deg aileron step over the default run banked the twin's climb to hundreds of degrees
+    in the linear model (388 deg at 25 s, measured before the change); sized, it ends at or below 30 deg."""
+    from dataclasses import replace
+
+    (name, model), = [(n, m) for n, m in TWIN if n.endswith("climb")]
+    settings, sized, sizing, _ = _sized_step([model], "aileron-step")
+    assert _worst([model], "aileron-step", replace(settings, amplitude=math.radians(5.0))) > 10
+    assert sizing.limited_by == "phi" and _worst([model], "aileron-step", sized) <= 1 + 1e-9
+
+
+def test_several_cases_share_one_step_run_sized_for_all():
+    """Cases shown together fly one input: the shortest run of the slowest case, the smallest amplitude."""
+    models = [model for _, model in TWIN]
+    settings, sized, sizing, modes = _sized_step(models, "aileron-step")
+    for model in models:
+        alone = _sized_step([model], "aileron-step")[1]
+        assert sized.amplitude <= alone.amplitude
+    assert sizing.window == pytest.approx(max(
+        math.ceil((settings.start + max(5 * m.get("roll_subsidence").time_constant, m.get("dutch_roll").period))
+                  * 10 - 1e-9) / 10 for m in modes))
+    assert _worst(models, "aileron-step", sized) <= 1 + 1e-9 or sized.duration == pytest.approx(sizing.window)
+
+
+@pytest.mark.parametrize("given", [
+    dict(amplitude_given=True, amplitude=math.radians(5.0)),
+    dict(duration_given=True, duration=12.0),
+    dict(amplitude_given=True, duration_given=True, amplitude=math.radians(5.0), duration=12.0),
+], ids=["amplitude", "duration", "both"])
+def test_given_step_settings_are_kept(given):
+    """A given amplitude or run length is used as given; what is not given is still sized."""
+    (_, model) = TWIN[0]
+    settings, sized, sizing, _ = _sized_step([model], "aileron-step", **given)
+    if given.get("amplitude_given"):
+        assert sized.amplitude == settings.amplitude and not sizing.amplitude_sized
+    else:
+        assert sizing.amplitude_sized and _worst([model], "aileron-step", sized) <= 1 + 1e-9
+    if given.get("duration_given"):
+        assert sized.duration == 12.0 and not sizing.duration_sized and sizing.window is None
+    else:
+        assert sizing.duration_sized and sized.duration < settings.duration
+
+
+@pytest.mark.parametrize("kinds", (["rudder-doublet"], ["inputs.csv", "aileron-step"], ["none"]),
+                         ids=("doublet", "input-file", "none"))
+def test_runs_without_a_step_or_with_an_input_file_are_not_sized_as_steps(kinds):
+    (_, model) = TWIN[0]
+    from latdyn.inputs import run_settings
+    from latdyn.responses import size_step_run
+
+    settings = run_settings(default_inputs(find_modes(model)))
+    kept, sizing = size_step_run([model], [find_modes(model)], kinds, settings)
+    assert kept == settings and not (sizing.amplitude_sized or sizing.duration_sized)
+
+
+@pytest.mark.parametrize("kind", STEPS, ids=STEPS)
+@pytest.mark.parametrize("name,model", TWIN, ids=[name for name, _ in TWIN])
+def test_sized_step_run_matches_python_control_step_response(name, model, kind):
+    """Reference: python-control step_response of the same state-space model (A, B, C, D with the heading
+    added), scaled by the sized amplitude and delayed to the input start; agreement to 1e-9 of the peak."""
+    import control
+
+    from latdyn.inputs import run_inputs
+
+    settings, sized, _, _ = _sized_step([model], kind)
+    response = simulate(model, run_inputs([kind], (), sized))
+    A, B, C, D, _, outputs = with_heading(model.A, model.B, model.C, model.D, model.theta,
+                                          model.state_names, model.output_names)
+    after = response.time >= sized.start - 1e-12
+    shifted = response.time[after] - sized.start
+    column = 0 if kind.startswith("aileron") else 1
+    reference = control.step_response(control.ss(A, B, C, D), T=shifted, input=column).outputs
+    reference = sized.amplitude * np.asarray(reference).reshape(len(outputs), -1).T
+    got = response.outputs[after]
+    assert got.shape == reference.shape
+    assert np.abs(got - reference).max() <= 1e-9 * np.abs(reference).max()
+    assert np.abs(response.outputs[~after]).max(initial=0.0) == 0.0

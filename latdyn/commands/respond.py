@@ -24,6 +24,8 @@ _SIMULATION_OPTIONS = ("inputs", "amplitude_deg", "half_period", "start", "durat
                        "csv", "plot")
 
 _COMMAND_LINE = "command line"
+#: The option that sets each run setting the library may size.
+_SIZED_OPTIONS = {"duration": "--duration", "amplitude": "--amplitude-deg"}
 
 
 def add_arguments(parser):
@@ -37,14 +39,16 @@ def add_arguments(parser):
                              "file with columns time, aileron, rudder [s, deg, deg]; repeat for "
                              "simultaneous inputs")
     parser.add_argument("--amplitude-deg", type=float, metavar="A",
-                        help="control deflection [deg] (default 5, lowered for doublets, pulses and "
-                             "3-2-1-1 inputs to keep |beta| within 8 deg and |phi| within 30 deg)")
+                        help="control deflection [deg] (default 5, lowered to keep |beta| within 8 deg "
+                             "and |phi| within 30 deg over the run)")
     parser.add_argument("--half-period", type=float, metavar="T",
                         help="doublet half-period and pulse width [s]; the 3-2-1-1 unit is half of it "
                              "(default: half the Dutch roll period)")
     parser.add_argument("--start", type=float, metavar="T0", help="start of the input [s] (default 1)")
     parser.add_argument("--duration", type=float, metavar="T",
-                        help="length of the run [s] (default: several Dutch roll cycles)")
+                        help="length of the run [s] (default: several Dutch roll cycles; for a step, "
+                             "until |phi| reaches 30 deg or |beta| 8 deg, but at least until the roll "
+                             "mode settles and one Dutch roll period has passed)")
     parser.add_argument("--dt", type=float, metavar="DT", help="time step [s] (default sized for the modes)")
     parser.add_argument("--spiral", action="store_true",
                         help="long view for the spiral mode (duration and step sized for it)")
@@ -142,11 +146,12 @@ def case_csv_paths(path, labels):
     return [f"{stem}-{numbered(file_name(label), used)}{suffix or '.csv'}" for label in labels]
 
 
-def _histories(args, reference_defaults, models):
-    """The input history on one grid, and the settings used (the amplitude sized when not given)."""
+def _histories(args, reference_defaults, models, modes):
+    """The input history on one grid, the settings used (the amplitude, and for a step the run
+    length, sized when not given) and how the defaults were chosen, in words."""
     from latdyn.errors import InputError
     from latdyn.inputs import INPUT_KINDS, read_input_csv, run_inputs, run_settings
-    from latdyn.responses import size_run
+    from latdyn.responses import size_defaults
 
     kinds = args.inputs or ["rudder-doublet"]
     tables = []
@@ -165,10 +170,14 @@ def _histories(args, reference_defaults, models):
         amplitude=math.radians(args.amplitude_deg) if args.amplitude_deg is not None else None,
         half_period=args.half_period, start=args.start, duration=args.duration, step=args.dt,
         spiral=args.spiral, source=_COMMAND_LINE, options={"duration": "--duration", "step": "--dt"})
-    sized = False
-    if args.amplitude_deg is None:
-        settings, sized = size_run(models, kinds, settings)
-    return run_inputs(kinds, tables, settings), dict(settings.as_dict(), amplitude_sized=sized)
+    # the long view for the spiral is a chosen length, as --duration is
+    settings, sizing = size_defaults(models, modes, kinds, settings,
+                                     amplitude_given=args.amplitude_deg is not None,
+                                     duration_given=args.duration is not None or args.spiral)
+    document = dict(settings.as_dict(), amplitude_sized=sizing.amplitude_sized,
+                    duration_sized=sizing.duration_sized)
+    words = {_SIZED_OPTIONS[name]: sentence for name, sentence in sizing.words(settings).items()}
+    return run_inputs(kinds, tables, settings), document, words
 
 
 def _format(value, digits=4):
@@ -230,17 +239,14 @@ def _transfer_lines(model, modes):
     return lines, transfers, ratios
 
 
-def _summary(label, aircraft, response, readout, modes, settings, units):
+def _summary(label, aircraft, response, readout, modes, settings, sizing, units):
     from latdyn.display import SIGNAL_QUANTITIES, bank_at_end_words
-    from latdyn.responses import STANDARD_LIMITS
 
     lines = [f"{label}  ({aircraft.file})"]
     lines.append(f"  input: {response.description or 'none'}; 0 to {settings['duration']:g} s, "
                  f"step {settings['step']:g} s ({response.time.size} samples)")
-    if settings.get("amplitude_sized"):
-        limits = " and ".join(f"|{name}| within {math.degrees(limit):g} deg" for name, limit in STANDARD_LIMITS.items())
-        lines.append(f"  amplitude {math.degrees(settings['amplitude']):g} deg, sized to keep {limits} "
-                     "in every case shown (--amplitude-deg sets it)")
+    for option, sentence in sizing.items():
+        lines.append(f"  {sentence} ({option} sets it)")
     peaks = []
     for peak in readout.peaks:
         quantity = SIGNAL_QUANTITIES.get(peak.signal)
@@ -347,10 +353,10 @@ def run(args):
     modes = [condition_modes(aircraft, condition, model)
              for (aircraft, condition), model in zip(cases, models)]
     simulating = _simulation_wanted(args)
-    responses, readouts, settings, limited = [], [], {}, [None] * len(cases)
+    responses, readouts, settings, sizing, limited = [], [], {}, {}, [None] * len(cases)
     if simulating:
         limited = []
-        history, settings = _histories(args, default_inputs(modes[0]), models)
+        history, settings, sizing = _histories(args, default_inputs(modes[0]), models, modes)
         initial = InitialDisturbance(beta=math.radians(args.beta0_deg), p=math.radians(args.p0_deg_s),
                                      r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
         from latdyn.augmentation import actuator_rate_limits, simulate_rate_limited
@@ -410,7 +416,7 @@ def run(args):
                 from latdyn.commands import display_units
 
                 lines += _summary(label, aircraft, responses[index], readouts[index], modes[index],
-                                  settings, display_units(args, aircraft))
+                                  settings, sizing, display_units(args, aircraft))
             else:
                 lines.append(f"{label}  ({aircraft.file})")
             model, run = models[index], limited[index]

@@ -283,6 +283,7 @@ def condition_section(item, data, units=DEFAULT) -> list:
         blocks.append(Figure(f"{name}-{standard.kind}",
                              f"Response to {article} {standard.kind.replace('-', ' ')} "
                              f"({standard.response.description}), sized to stay within {limits}."
+                             + _run_length_words(standard)
                              + (" The variants fly the same input." + overlaid if others else ""),
                              "time_history", {"responses": [standard.response] + [v.responses[number].response
                                                                                  for v in others],
@@ -301,6 +302,15 @@ def condition_section(item, data, units=DEFAULT) -> list:
         blocks.append(Paragraph(f"Bank-to-aileron numerator: omega_phi/omega_d = {format_number(omega)}, "
                                 f"zeta_phi/zeta_d = {format_number(zeta)} (indicator, no level bands)."))
     return blocks + steady_blocks(item, data, name, units)
+
+
+def _run_length_words(standard) -> str:
+    """How a step run's length was chosen, as a sentence of a caption ('' when it was not sized)."""
+    if standard.sizing is None:
+        return ""
+    words = standard.sizing.words(standard.settings, {"beta": "the sideslip", "phi": "the bank"})
+    sentence = words.get("duration")
+    return f" {sentence[0].upper()}{sentence[1:]}." if sentence else ""
 
 
 def _minimum_control_words(engine_out, units) -> str:
