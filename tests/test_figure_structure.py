@@ -149,6 +149,77 @@ def test_roll_spiral_chart_typesets_its_symbols():
     assert any(SYMBOLS["T_R"] in label for label in labels) and any(SYMBOLS["T_2"] in label for label in labels)
 
 
+@pytest.fixture(scope="module")
+def weak_roll(tmp_path_factory):
+    """A constructed variant (invented, for the test) whose roll damping is cut so that its roll time
+    constant passes the Level 1 limit in climb (its spiral too): the points that lose a level."""
+    folder = tmp_path_factory.mktemp("weak-roll")
+    path = folder / "weak-roll.toml"
+    path.write_text(f'extends = "{BASE.as_posix()}"\nname = "weak roll damping"\n\n[[condition]]\nname = "climb"\n'
+                    "[condition.derivatives]\nCl_p = -0.03\n")
+    return assess(load_aircraft(path))
+
+
+def test_variants_on_the_roll_spiral_chart_each_in_its_colour_and_marker(report, weak_roll):
+    """Issue 13 item 3: the roll/spiral chart carries the variants as the Dutch roll chart does: every
+    configuration's T_R and T_2 where the assessment puts them, in its colour and marker
+    (style.configuration_style), the base open, the one that loses a level ringed, the key naming the
+    configurations and the level colours (guidance only), the notice under the figure."""
+    from latdyn.assessment import NOTICE
+    from latdyn.plots.style import configuration_style
+
+    base = report.aircraft[0].assessment
+    variants = [s for _, s in report.variants] + [weak_roll]
+    figure = levels.roll_spiral_chart(base, variants=variants)
+    roll_axis, spiral_axis = figure.axes[:2]
+    for index, assessment in enumerate([base, *variants]):
+        style = configuration_style(index)
+        for condition in assessment.conditions:
+            for axis, mode, value in ((roll_axis, "roll_subsidence", "time_constant"),
+                                      (spiral_axis, "spiral", "time_to_double")):
+                expected = getattr(condition.modes.get(mode), value)
+                marks = [line for line in axis.get_lines() if line.get_marker() == style["marker"]
+                         and np.isclose(line.get_xdata()[0], expected, rtol=1e-12)
+                         and to_hex(line.get_markeredgecolor()) == style["color"]]
+                assert len(marks) == 1, (assessment.aircraft, condition.name, mode)
+                face = to_hex(marks[0].get_markerfacecolor())
+                assert face == ("#ffffff" if index == 0 else style["color"])
+    rings = sorted((axis is spiral_axis, float(line.get_xdata()[0])) for axis in (roll_axis, spiral_axis)
+                   for line in axis.get_lines() if line.get_markerfacecolor() == "none")
+    def severity(condition, mode):
+        return next(a for a in condition.assessments if a.mode == mode and a.criteria == "mil-f-8785c").severity
+
+    expected = []
+    for variant in variants:
+        for condition in variant.conditions:
+            base_condition = next(c for c in base.conditions if c.name == condition.name)
+            for panel, (mode, value) in enumerate((("roll_subsidence", "time_constant"),
+                                                   ("spiral", "time_to_double"))):
+                if severity(condition, mode) > severity(base_condition, mode) > 0:
+                    expected.append((bool(panel), getattr(condition.modes.get(mode), value)))
+    climb = next(c for c in weak_roll.conditions if c.name == "climb")
+    assert (False, climb.modes.get("roll_subsidence").time_constant) in expected
+    assert rings == sorted(expected)
+    legend = _legend_texts(figure)
+    assert plain(base.aircraft) + " (base)" in legend and all(plain(v.aircraft) in legend for v in variants)
+    assert "worse than the base (loses a level)" in legend
+    assert "Levels (guidance only):" in legend and "Level 1" in legend
+    assert NOTICE.split(":")[0] in figure.get_supxlabel()
+    assert layout_problems(figure) == []
+
+
+def test_report_roll_spiral_figure_carries_the_variants(report):
+    """The report's roll/spiral figure of the base gets the compared variants; its caption says so and
+    keeps the guidance-only words."""
+    from latdyn.report.blocks import Figure
+    from latdyn.report.content import report_content
+
+    specs = [b for b in report_content(report).blocks if isinstance(b, Figure) and b.kind == "roll_spiral"]
+    assert specs and all(len(s.arguments["variants"]) == 2 for s in specs)
+    assert all("variants are drawn beside the base" in s.caption and "Guidance only." in s.caption
+               for s in specs)
+
+
 def _figures(report, cruise):
     base = report.aircraft[0].assessment
     single = replace(base, conditions=(cruise.assessment,))
@@ -161,6 +232,8 @@ def _figures(report, cruise):
             assess(load_aircraft(BASE), ["14cfr25-181"])),
         "dutch_roll_chart_variants": lambda: levels.dutch_roll_chart(single, variants=variants),
         "roll_spiral_chart": lambda: levels.roll_spiral_chart(base),
+        "roll_spiral_chart_variants": lambda: levels.roll_spiral_chart(
+            base, variants=[s for _, s in report.variants]),
         "s_plane_map": lambda: levels.s_plane_map(base),
         "time_history_doublet": lambda: responses.time_history_figure(
             [doublet.response], [doublet.readouts], [cruise.result.modes]),
@@ -172,7 +245,8 @@ def _figures(report, cruise):
     }
 
 
-FIGURES = ["dutch_roll_chart", "dutch_roll_chart_pass_fail", "dutch_roll_chart_variants", "roll_spiral_chart", "s_plane_map",
+FIGURES = ["dutch_roll_chart", "dutch_roll_chart_pass_fail", "dutch_roll_chart_variants", "roll_spiral_chart",
+           "roll_spiral_chart_variants", "s_plane_map",
            "time_history_doublet", "time_history_step", "time_history_overlay"]
 
 

@@ -26,7 +26,7 @@ import numpy as np
 
 from latdyn.plots import save_both
 from latdyn.plots.style import (CONFIGURATION_MARKERS, GRID, LABEL_SIZE, LEVEL_COLOURS, LEVEL_INK,
-                                MODE_MARKERS, MUTED, PALETTE, RULE, SYMBOLS, TEXT, TITLE_SIZE, UNDECIDED,
+                                MODE_MARKERS, MUTED, PALETTE, RULE, SYMBOLS, TEXT, TICK_SIZE, TITLE_SIZE, UNDECIDED,
                                 add_notice, axis_label, case_colour, configuration_style, figure_for,
                                 key_axis, level_handles, plain, style_axis)
 
@@ -306,13 +306,22 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
     return figure
 
 
-def _strip(axis, rows, limits_key, value_key, title, xlabel, log_floor, log_ceiling):
-    """Banded strips: per condition its level bands along x and its value as a marker."""
+#: Height of a band on a roll/spiral strip [row units] and the height each configuration's
+#: marker line adds to a row [in].
+_BAND_HEIGHT = 0.62
+_LINE_HEIGHT = 0.26
+
+
+def _strip(axis, rows, title, xlabel, log_floor, log_ceiling, configurations):
+    """Banded strips: per condition its level bands along x and each configuration's value as a
+    marker on its own line within the band (the base first), annotated with value and result."""
     axis.set_xscale("log")
+    lines = max(configurations, 1)
+    spacing = _BAND_HEIGHT / lines
+    middle = np.sqrt(log_floor * log_ceiling)
     for y, row in enumerate(rows):
-        edges = row[limits_key]
+        edges = row["limits"]
         if edges is not None:
-            lo = log_floor
             if row["sense"] < 0:           # maximum: Level 1 from 0 to L1, ...
                 bounds = [log_floor] + list(edges) + [log_ceiling]
                 levels = (1, 2, 3, 4)
@@ -320,18 +329,27 @@ def _strip(axis, rows, limits_key, value_key, title, xlabel, log_floor, log_ceil
                 bounds = [log_floor] + list(edges[::-1]) + [log_ceiling]
                 levels = (4, 3, 2, 1)
             for (lo, hi), level in zip(zip(bounds[:-1], bounds[1:]), levels):
-                axis.barh(y, hi - lo, left=lo, height=0.62, color=LEVEL_COLOURS[level], edgecolor="white",
-                          linewidth=0.8)
-        value = row[value_key]
-        if value is None:
-            axis.text(log_ceiling * 0.9, y, row["text"], ha="right", va="center", fontsize=7.5,
-                      color=TEXT, weight="bold")
-        else:
+                axis.barh(y, hi - lo, left=lo, height=_BAND_HEIGHT, color=LEVEL_COLOURS[level],
+                          edgecolor="white", linewidth=0.8)
+        for point in row["points"]:
+            k = point["configuration"]
+            style = configuration_style(k)
+            at = y + (k - (lines - 1) / 2) * spacing
+            value = point["value"]
+            if value is None:
+                axis.text(log_ceiling * 0.9, at, point["text"], ha="right", va="center", fontsize=7,
+                          color=style["color"], weight="bold")
+                continue
             shown = min(max(value, log_floor * 1.05), log_ceiling * 0.95)
-            axis.plot(shown, y, marker="D", markersize=6.5, markerfacecolor=PALETTE[0], markeredgecolor="white",
-                      zorder=5)
-            axis.annotate(f"{value:.3g} s  {row['result']}", (shown, y), xytext=(7, 7),
-                          textcoords="offset points", ha="left", fontsize=7, color=TEXT)
+            axis.plot(shown, at, marker=style["marker"], markersize=6.5, linestyle="none",
+                      markerfacecolor="white" if k == 0 else style["color"], markeredgecolor=style["color"],
+                      markeredgewidth=1.4, zorder=5)
+            if point["loses"]:
+                axis.plot(shown, at, **dict(_LOSS, markersize=12))
+            right = shown <= middle
+            axis.annotate(f"{value:.3g} s  {point['result']}", (shown, at), xytext=(9 if right else -9, 0),
+                          textcoords="offset points", ha="left" if right else "right", va="center",
+                          fontsize=7, color=TEXT)
     axis.set_yticks(range(len(rows)), [r["label"] for r in rows], fontsize=8)
     axis.set_ylim(-0.6, len(rows) - 0.4)
     axis.invert_yaxis()
@@ -339,67 +357,112 @@ def _strip(axis, rows, limits_key, value_key, title, xlabel, log_floor, log_ceil
     axis.set_xlabel(xlabel, fontsize=LABEL_SIZE, color=TEXT)
     axis.set_title(title, fontsize=9.5, color=TEXT)
     axis.grid(True, axis="x", which="both", color=GRID, linewidth=0.4, alpha=0.6)
+    axis.tick_params(colors=TEXT, labelsize=TICK_SIZE, length=3)
     for side in ("top", "right"):
         axis.spines[side].set_visible(False)
 
 
-def roll_spiral_chart(result, criteria=None, fig=None):
+def _roll_spiral_rows(configurations, criteria):
+    """Rows of the roll and spiral strips: one per condition name (the base's first), each with
+    the base's bands and every configuration's value, result and whether it is worse than the base's."""
+    from latdyn.levels import select_bands
+
+    names = list(dict.fromkeys(c.name for assessment in configurations for c in assessment.conditions))
+    strips = {"roll_subsidence": [], "spiral": []}
+    for name in names:
+        found = [(k, next((c for c in a.conditions if c.name == name), None)) for k, a in enumerate(configurations)]
+        found = [(k, c) for k, c in found if c is not None]
+        owner_index, owner = found[0]
+        airplane_class = configurations[owner_index].airplane_class
+        label = plain(f"{name} ({owner.category or '?'})")
+        for mode_name, key in (("roll_subsidence", "max_time_constant"), ("spiral", "min_time_to_double")):
+            edges = None
+            if owner.category and airplane_class and criteria.mode(mode_name):
+                selection = select_bands(criteria, mode_name, airplane_class, owner.category)
+                if not selection.undefined:
+                    edges = tuple(float(v) for v in getattr(selection.limits, key))
+            points, base_entry = [], None
+            for k, condition in found:
+                entry = next((a for a in condition.assessments
+                              if a.criteria == criteria.name and a.mode == mode_name), None)
+                if k == 0:
+                    base_entry = entry
+                mode = condition.modes.get(mode_name) if condition.modes is not None else None
+                if mode is None:
+                    value, text = None, "coupled roll-spiral"
+                elif mode_name == "roll_subsidence":
+                    value = mode.time_constant
+                    text = "divergent" if value is None else ""
+                else:
+                    value = mode.time_to_double
+                    text = "convergent" if value is None else ""
+                loses = (k > 0 and entry is not None and base_entry is not None
+                         and entry.severity > base_entry.severity > 0)
+                points.append({"configuration": k, "value": value, "text": text,
+                               "result": entry.result if entry else "", "loses": loses})
+            strips[mode_name].append({"label": label, "limits": edges, "points": points,
+                                      "sense": -1 if mode_name == "roll_subsidence" else 1})
+    return strips["roll_subsidence"], strips["spiral"]
+
+
+def roll_spiral_chart(result, criteria=None, fig=None, variants=()):
     """Roll time constant and spiral time to double of each condition against its limits.
+
+    One row per condition: the level bands of its class and category as a
+    strip, and the value of each configuration as a marker on its own line
+    within the strip, annotated with the value and the result.  Variants
+    (other configurations of the aircraft) are drawn as on the Dutch roll
+    chart (:func:`dutch_roll_chart`): each configuration in its colour and
+    marker (:func:`latdyn.plots.style.configuration_style`), the base open,
+    the variants filled, a variant graded worse than the base in the same
+    condition ringed; the key names the configurations and the level colours
+    (guidance only).
 
     Parameters
     ----------
     result : latdyn.assessment.AircraftAssessment
+        The base configuration.
     criteria : CriteriaSet, optional
         A levels set with roll and spiral bands; default the first one.
     fig : matplotlib.figure.Figure, optional
         Draw into this figure (cleared); default a new one.
+    variants : sequence of latdyn.assessment.AircraftAssessment
+        Other configurations, assessed against the same criteria set; their
+        conditions are matched to the base's by name.
 
     Returns
     -------
     matplotlib.figure.Figure
     """
-    from matplotlib.patches import Patch
-
-    from latdyn.levels import select_bands
+    from matplotlib.lines import Line2D
 
     if criteria is None:
         criteria = next(c for c in result.criteria if c.assessment == "levels" and c.mode("spiral"))
-    roll_rows, spiral_rows = [], []
-    for condition in result.conditions:
-        modes = condition.modes
-        label = plain(f"{condition.name} ({condition.category or '?'})")
-        entries = {a.mode: a for a in condition.assessments if a.criteria == criteria.name}
-        for mode_name, rows, key in (("roll_subsidence", roll_rows, "max_time_constant"),
-                                     ("spiral", spiral_rows, "min_time_to_double")):
-            mode = modes.get(mode_name) if modes is not None else None
-            edges = None
-            if condition.category and result.airplane_class and criteria.mode(mode_name):
-                selection = select_bands(criteria, mode_name, result.airplane_class, condition.category)
-                if not selection.undefined:
-                    edges = tuple(float(v) for v in getattr(selection.limits, key))
-            entry = entries.get(mode_name)
-            if mode is None:
-                value, text = None, "coupled roll-spiral"
-            elif mode_name == "roll_subsidence":
-                value = mode.time_constant
-                text = "divergent" if value is None else ""
-            else:
-                value = mode.time_to_double
-                text = "convergent" if value is None else ""
-            rows.append({"label": label, "limits": edges, "value": value, "text": text,
-                         "sense": -1 if mode_name == "roll_subsidence" else 1,
-                         "result": entry.result if entry else ""})
-    figure = figure_for(fig, 10.0, 1.6 + 0.55 * max(len(roll_rows), 1) + 0.9)
-    left, right = figure.subplots(1, 2)
-    _strip(left, roll_rows, "limits", "value", f"Roll mode: time constant {SYMBOLS['T_R']}",
-           axis_label("roll time constant", "T_R", "s") + " (shorter is better)", 0.02, 30.0)
-    _strip(right, spiral_rows, "limits", "value", f"Spiral: time to double {SYMBOLS['T_2']} (divergent spiral)",
-           axis_label("spiral time to double", "T_2", "s") + " (longer is better)", 1.0, 1000.0)
-    handles = [Patch(color=LEVEL_COLOURS[k], label=_level_words(k)) for k in (1, 2, 3, 4)]
-    figure.legend(handles=handles, loc="outside right upper", fontsize=8, frameon=False)
+    configurations = [result, *variants]
+    roll_rows, spiral_rows = _roll_spiral_rows(configurations, criteria)
+    count = len(configurations)
+    row_height = max(0.55, 0.2 + _LINE_HEIGHT * count)
+    figure = figure_for(fig, 11.4 if variants else 10.4, 1.9 + row_height * max(len(roll_rows), 1) + 0.9)
+    left, right, key = figure.subplots(1, 3, width_ratios=[1.0, 1.0, 0.05])
+    _strip(left, roll_rows, f"Roll mode: time constant {SYMBOLS['T_R']}",
+           axis_label("roll time constant", "T_R", "s") + " (shorter is better)", 0.02, 30.0, count)
+    _strip(right, spiral_rows, f"Spiral: time to double {SYMBOLS['T_2']} (divergent spiral)",
+           axis_label("spiral time to double", "T_2", "s") + " (longer is better)", 1.0, 1000.0, count)
+    handles = []
+    for k, assessment in enumerate(configurations):
+        style = configuration_style(k)
+        handles.append(Line2D([], [], marker=style["marker"], markersize=7, linestyle="none",
+                              markerfacecolor="white" if k == 0 else style["color"],
+                              markeredgecolor=style["color"], markeredgewidth=1.4,
+                              label=plain(assessment.aircraft) + (" (base)" if k == 0 and variants else "")))
+    if any(p["loses"] for row in roll_rows + spiral_rows for p in row["points"]):
+        handles.append(Line2D([], [], label="worse than the base (loses a level)", **dict(_LOSS, markersize=12)))
+    handles += level_handles()
+    key_axis(key, handles, "Configuration" if variants else None)
     cls = f"Class {result.airplane_class}" if result.airplane_class else "class not given (no bands drawn)"
-    figure.suptitle(plain(f"Roll and spiral modes: {result.aircraft}, {cls}\n{criteria.name}: {criteria.edition}"),
-                    fontsize=TITLE_SIZE, color=TEXT)
+    title = plain(f"Roll and spiral modes: {result.aircraft}") + (" and its variants" if variants else "")
+    figure.suptitle(title + plain(f", {cls}\n{criteria.name}: {criteria.edition}"), fontsize=TITLE_SIZE,
+                    color=TEXT)
     add_notice(figure)
     return figure
 

@@ -220,10 +220,16 @@ def aircraft_section(data, units=DEFAULT) -> list:
                           {"result": assessment})]
         for criteria in assessment.criteria:
             if criteria.assessment == "levels" and criteria.mode("spiral") and criteria.mode("roll_subsidence"):
+                # the variants are compared with the first file only
+                variants = [s for _, s in data.variants if item is data.aircraft[0]
+                            and any(c.name == criteria.name for c in s.criteria)]
+                overlaid = (" The compared variants are drawn beside the base in each condition, each "
+                            "configuration in its own colour and marker (" + ", ".join(s.aircraft for s in variants)
+                            + "); a variant graded worse than the base is ringed.") if variants else ""
                 blocks.append(Figure(f"{name}-roll-spiral-{slug(criteria.name)}",
                                      f"Roll time constant and spiral time to double against the {criteria.name} "
-                                     f"limits ({criteria.edition}). Guidance only.", "roll_spiral",
-                                     {"result": assessment, "criteria": criteria}))
+                                     f"limits ({criteria.edition}).{overlaid} Guidance only.", "roll_spiral",
+                                     {"result": assessment, "criteria": criteria, "variants": variants}))
         for condition in item.conditions:
             blocks += condition_section(item, condition, units)
     return blocks

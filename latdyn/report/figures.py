@@ -18,10 +18,10 @@ def _s_plane(result):
     return s_plane_map(result)
 
 
-def _roll_spiral(result, criteria):
+def _roll_spiral(result, criteria, variants=()):
     from latdyn.plots.levels import roll_spiral_chart
 
-    return roll_spiral_chart(result, criteria)
+    return roll_spiral_chart(result, criteria, variants=variants)
 
 
 def _dutch_roll(result, criteria, variants=()):
