@@ -208,6 +208,20 @@ def test_variants_on_the_roll_spiral_chart_each_in_its_colour_and_marker(report,
     assert layout_problems(figure) == []
 
 
+def test_a_configuration_has_one_colour_and_marker_on_both_charts(report, cruise):
+    """The report's charts of one condition and the roll/spiral chart draw each configuration with the
+    colour and marker of style.configuration_style (base open)."""
+    from latdyn.plots.style import configuration_style
+
+    base = replace(report.aircraft[0].assessment, conditions=(cruise.assessment,))
+    variants = [v.assessment for v in cruise.variants]
+    for figure in (levels.dutch_roll_chart(base, variants=variants),
+                   levels.roll_spiral_chart(base, variants=variants)):
+        marks = {(line.get_marker(), to_hex(line.get_markeredgecolor())) for axis in figure.axes[:-1]
+                 for line in axis.get_lines() if len(line.get_xdata()) == 1 and line.get_markersize() < 12}
+        assert marks == {(configuration_style(k)["marker"], configuration_style(k)["color"]) for k in range(3)}
+
+
 def test_report_roll_spiral_figure_carries_the_variants(report):
     """The report's roll/spiral figure of the base gets the compared variants; its caption says so and
     keeps the guidance-only words."""

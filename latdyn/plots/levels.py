@@ -166,7 +166,9 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
     raises the boundary are flagged) and the Dutch roll of each condition
     of that category.  For a pass/fail set the damping limits are drawn as
     lines.  Variants (other configurations of the aircraft) are drawn on the
-    same panels, each configuration in its own colour and marker, with an
+    same panels, each configuration in its own colour (and, where one
+    condition is shown, its own marker; else the marker tells the
+    conditions apart), the base open, with an
     arrow from the base to the variant where a condition of the same name
     exists in both; the legend gives each point's level.  A key of the level
     colours says the levels are guidance only.
@@ -245,7 +247,9 @@ def dutch_roll_chart(result, criteria=None, fig=None, resolution=360, variants=(
             if not pass_fail and condition.category != category:
                 continue
             style = configuration_style(k)
-            marker = style["marker"] if len(configurations) == 1 else \
+            # one condition: each configuration its marker (as on the roll/spiral chart); several: the
+            # marker tells the conditions apart and the colour the configurations
+            marker = style["marker"] if len(configurations) == 1 or len(condition_names) == 1 else \
                 CONFIGURATION_MARKERS[condition_names.index(condition.name) % len(CONFIGURATION_MARKERS)]
             colour = case_colour(base_names.index(condition.name)) if len(configurations) == 1 \
                 else style["color"]
