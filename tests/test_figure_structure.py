@@ -109,6 +109,21 @@ def test_response_overlay_flies_the_same_input_in_each_configurations_colour(cru
     assert SYMBOLS["beta"] in beta_axis.get_ylabel()
 
 
+def test_overlay_table_keeps_the_part_of_each_name_that_differs(report, cruise):
+    """The read-out table under a comparison's responses names each case by what tells it apart (the
+    demo names share 'Kestrel K-40 commuter'; cut at the end they read 'Kestrel K-40 commuter, wing...')."""
+    everyone = [cruise.responses[0]] + [v.responses[0] for v in cruise.variants]
+    labels = [report.aircraft[0].aircraft.name] + [v.aircraft.name for v in cruise.variants]
+    figure = responses.time_history_figure([s.response for s in everyone], [s.readouts for s in everyone],
+                                           labels=labels)
+    (table,) = figure.axes[-1].tables
+    cells = table.get_celld()
+    names = [cells[row, 0].get_text().get_text() for row in range(1, len(labels) + 1)]
+    assert len(set(names)) == len(names) and all(len(name) <= 28 for name in names)
+    for name, label in zip(names, labels):
+        assert name.startswith("\u2026") and label.endswith(name[1:])
+
+
 def test_report_figures_carry_the_variants(report):
     from latdyn.report.blocks import Figure
     from latdyn.report.content import report_content

@@ -241,8 +241,9 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     else:
         widths = [w / sum(widths) for w in widths]
     cells = []
+    short = _distinct_labels(labels)
     for response, readout, mode_set, label in zip(responses, readouts, modes, labels):
-        row = [] if single else [label if len(label) <= 28 else label[:27] + "\u2026"]
+        row = [] if single else [short[len(cells)]]
         for name in ("beta", "p", "r", "phi", "ny"):
             try:
                 row.append(_fmt(readout.peak(name).value * _factor(name)))
@@ -278,6 +279,34 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
     table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=MUTED,
                     va="bottom")
     return figure
+
+
+def _distinct_labels(labels, width=28):
+    """Case names short enough for a table cell that still tell the cases apart.
+
+    Where a name is longer than ``width`` characters, the words every name
+    starts with are left out (shown as an ellipsis) so that the part that
+    differs stays; what is still too long is cut at the end.
+
+    Examples
+    --------
+    >>> _distinct_labels(["Kestrel K-40 commuter (Northmoor Regional Air)",
+    ...                   "Kestrel K-40 commuter, wing-tip tanks full"])
+    ['\u2026(Northmoor Regional Air)', '\u2026wing-tip tanks full']
+    >>> _distinct_labels(["climb", "cruise"])
+    ['climb', 'cruise']
+    """
+    import os
+
+    labels = [str(label) for label in labels]
+    if len(labels) > 1 and any(len(label) > width for label in labels):
+        common = os.path.commonprefix(labels)
+        at_boundary = all(not label[len(common):len(common) + 1].isalnum() for label in labels)
+        cut = len(common) if at_boundary else max(common.rfind(c) for c in " ,/") + 1
+        rests = [label[cut:].lstrip(" ,/") for label in labels]
+        if cut > 0 and all(rests) and len(set(rests)) == len(rests):
+            labels = ["\u2026" + rest for rest in rests]
+    return [label if len(label) <= width else label[:width - 1] + "\u2026" for label in labels]
 
 
 def bode_figure(transfers, modes=None, omega=None, title=None, fig=None):
