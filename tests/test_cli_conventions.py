@@ -26,6 +26,9 @@ DEMO = str(ROOT / "aircraft" / "kestrel-k40.toml")
 TALL_FIN = str(ROOT / "aircraft" / "kestrel-k40-tall-fin.toml")
 TIP_TANKS = str(ROOT / "aircraft" / "kestrel-k40-tip-tanks.toml")
 DRONE = str(ROOT / "aircraft" / "skylark-sv2.toml")
+HERON = str(ROOT / "aircraft" / "studies" / "heron-h2-geometry.toml")
+DOUBLET = str(ROOT / "aircraft" / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv")
+THREE_TWO = str(ROOT / "aircraft" / "flight-test" / "kestrel-k40-cruise-aileron-3211.csv")
 
 
 def run(capsys, *argv):
@@ -47,6 +50,13 @@ ORDERS = {
     "sensitivity": ([DEMO], [("--condition", "cruise"), ("--format", "json"), ("--top", "3")]),
     "uncertainty": ([DEMO], [("--samples", "300"), ("--seed", "7"), ("--vary", "Cn_r=+-20%,uniform"),
                              ("--condition", "cruise"), ("--format", "json")]),
+    "turbulence": ([DEMO], [("--sigma-v", "1.5"), ("--condition", "cruise"), ("--format", "json"),
+                            ("--scale-length", "500")]),
+    "steady": ([DEMO, TALL_FIN], [("--condition", "approach"), ("--format", "json"),
+                                  ("--sideslip-deg", "5"), ("--sideslip-deg", "10")]),
+    "estimate": ([HERON, DEMO], [("--condition", "cruise"), ("--format", "json"), ("--units", "US")]),
+    "identify": ([DEMO], [("--data", DOUBLET), ("--condition", "cruise"), ("--data", THREE_TWO),
+                          ("--method", "equation-error"), ("--format", "json")]),
 }
 
 
@@ -110,7 +120,7 @@ def test_no_option_takes_a_list(name):
 
 
 @pytest.mark.parametrize("name", ["modes", "assess", "compare", "respond", "sweep", "sensitivity",
-                                  "uncertainty", "turbulence", "identify"])
+                                  "uncertainty", "turbulence", "identify", "steady", "estimate"])
 def test_every_printing_command_has_the_four_formats(name):
     actions = {s: a for a in every_command_parser(name)._actions for s in a.option_strings}
     assert tuple(actions["--format"].choices) == ("table", "markdown", "csv", "json")
@@ -118,10 +128,33 @@ def test_every_printing_command_has_the_four_formats(name):
 
 @pytest.mark.parametrize("name,dest", [("assess", "plots"), ("report", "output"),
                                        ("respond", "output"), ("sweep", "plot"),
-                                       ("uncertainty", "plot"), ("turbulence", "plot")])
+                                       ("uncertainty", "plot"), ("turbulence", "plot"),
+                                       ("steady", "plot"), ("estimate", "output"),
+                                       ("identify", "output")])
 def test_every_writing_command_has_dash_o(name, dest):
     actions = {s: a for a in every_command_parser(name)._actions for s in a.option_strings}
     assert actions["-o"] is actions["--output"] and actions["-o"].dest == dest
+
+
+#: Commands that write nothing but their printed results (no -o); every other command is in
+#: test_every_writing_command_has_dash_o.
+PRINT_ONLY = {"modes", "compare", "sensitivity", "schema"}
+
+
+def test_every_command_is_either_print_only_or_has_dash_o():
+    writing = {"assess", "report", "respond", "sweep", "uncertainty", "turbulence", "steady",
+               "estimate", "identify"}
+    assert {name for name, _ in COMMANDS} == writing | PRINT_ONLY
+    for name in PRINT_ONLY:
+        options = {s for a in every_command_parser(name)._actions for s in a.option_strings}
+        assert not options & {"--plot", "--plots", "--csv", "--report"}, name
+
+
+def test_steady_dash_o_writes_the_figure(tmp_path, capsys):
+    a, b = tmp_path / "a.png", tmp_path / "b.png"
+    assert run(capsys, "steady", DEMO, "--condition", "approach", "-o", a)[0] == 0
+    assert run(capsys, "steady", DEMO, "--condition", "approach", "--plot", b)[0] == 0
+    assert a.stat().st_size > 0 and b.stat().st_size > 0
 
 
 def test_criteria_does_not_swallow_the_file(capsys):

@@ -1,5 +1,5 @@
 """``latdyn steady FILE... [--condition NAME] [--sideslip-deg B] [--bank-deg PHI]
-[--format table|markdown|csv|json] [--units SI|US] [--plot OUT]``: steady sideslips, crosswind
+[--format table|markdown|csv|json] [--units SI|US] [-o OUT]``: steady sideslips, crosswind
 capability and engine-out control of each flight condition (airspeeds in the display units and knots).
 
 Everything is computed before anything is printed or written, so a bad file
@@ -33,7 +33,7 @@ def add_arguments(parser):
     from latdyn.commands import add_units
 
     add_units(parser)
-    parser.add_argument("--plot", metavar="OUT",
+    parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
                         help="write the figure (controls against sideslip, engine-out controls "
                              "against airspeed; PNG, SVG or PDF by suffix)")
 
