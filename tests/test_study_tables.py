@@ -100,3 +100,24 @@ def test_round_off_is_shown_as_zero(value, text):
 def test_factor_at_the_origin_is_s():
     factors = factor_roots([1e-16, -2.0, complex(3e-17, 1.5), complex(3e-17, -1.5)])
     assert [f.text() for f in factors] == ["s", "(s + 2)", "(s^2 + 2.25)"]
+
+
+def test_dimensional_parameters_in_their_own_units(tmp_path):
+    """Dimensional derivatives carry their units (McRuer, Ashkenas & Graham 1973, ch. 4: Y_v,
+    L_p, N_r in 1/s, L_beta, N_beta in 1/s^2, Y_p, Y_r a speed); a yaw-damper gain (rad of
+    rudder per rad/s of yaw rate) is in s.  A unit "-" on them hid what a step of the
+    parameter means."""
+    path = tmp_path / "p2.toml"
+    path.write_text(dimensional_toml(CASE))
+    aircraft = load_aircraft(path)
+    table = sensitivity_table(sensitivities(aircraft), units=aircraft.units)
+    units = {row["parameter"]: row["unit"] for row in table.rows}
+    expected = {"Y_v": "1/s", "L_beta": "1/s^2", "N_beta": "1/s^2", "L_p": "1/s", "L_r": "1/s",
+                "N_p": "1/s", "N_r": "1/s", "Y_r": "ft/s"}
+    assert {key: units[key] for key in expected if key in units} == {
+        key: value for key, value in expected.items() if key in units}
+    assert {"Y_v", "L_beta", "N_beta", "L_p", "N_r"} <= set(units)
+    damped = load_aircraft("aircraft/kestrel-k40-tip-tanks-yaw-damper.toml")
+    rows = sensitivity_table(sensitivities(damped, "cruise"), units="SI").rows
+    gains = {row["unit"] for row in rows if row["parameter"] == "augmentation.yaw_damper_gain"}
+    assert gains == {"s"}

@@ -751,6 +751,27 @@ FIGURE_LABELS = {
 }
 
 
+def _parameter_unit(name, dimension, units) -> str:
+    """Printed unit of a study parameter in "SI" or "US": its dimension's unit, a dimensional
+    derivative's own unit (``L_beta`` 1/s^2: no length in it, the same in both systems), 1/rad
+    for a coefficient, else "-".
+
+    >>> _parameter_unit("L_beta", "none", "US"), _parameter_unit("Y_p", "speed", "US")
+    ('1/s^2', 'ft/s')
+    >>> _parameter_unit("augmentation.yaw_damper_gain", "second", "SI"), _parameter_unit("Cn_r", "none", "SI")
+    ('s', '1/rad')
+    """
+    from latdyn import units as unit_factors
+    from latdyn.model import DIMENSIONAL_UNITS
+
+    word = unit_factors.UNIT_WORDS.get(dimension) and unit_factors.unit_word(dimension, units)
+    if word:
+        return word
+    if name in DIMENSIONAL_UNITS:
+        return DIMENSIONAL_UNITS[name]
+    return "1/rad" if name.startswith("C") else "-"
+
+
 def sensitivity_table(results, top=0, name="sensitivity", units="SI") -> Table:
     """Ranked sensitivities (per condition and figure) of
     :func:`latdyn.studies.sensitivity.sensitivities`; ``top`` > 0 keeps the N largest.
@@ -769,11 +790,10 @@ def sensitivity_table(results, top=0, name="sensitivity", units="SI") -> Table:
             ranked = result.for_figure(figure)
             for rank, item in enumerate(ranked[:top] if top > 0 else ranked, start=1):
                 dimension = parameter_dimension(item.parameter)
+                word = _parameter_unit(item.parameter, dimension, units)
                 if dimension not in unit_factors.DIMENSION_FACTORS:
                     dimension = "none"
                 per_unit = unit_factors.to_si(1.0, dimension, units)
-                word = unit_factors.unit_word(dimension, units) or (
-                    "1/rad" if item.parameter.startswith("C") else "-")
                 better = item.improves_when
                 rows.append({"condition": result.condition.name,
                              "figure": FIGURE_LABELS[figure], "rank": rank,
