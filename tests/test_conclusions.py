@@ -12,7 +12,7 @@ import pytest
 
 from latdyn.assessment import NOTICE, AircraftAssessment, Assessment, ConditionAssessment
 from latdyn.compare import FigureChange, LevelChange
-from latdyn.report.content import conclusion_sentences, document_table
+from latdyn.report.content import conclusion_paragraphs, conclusion_sentences, document_table
 from latdyn.report.render import page_style
 from latdyn.report.tables import summary_table
 
@@ -37,15 +37,23 @@ def test_a_loss_of_level_is_stated_with_its_margin():
     comparison = SimpleNamespace(variant="Variant", conditions=(
         SimpleNamespace(name="cruise", levels=(LevelChange("set-a", "Edition 1", "dutch_roll", 1, 2, None,
                                                            None, 0.125, -0.1, "degraded"),),
-                        figures=(FigureChange("dutch_roll", "damping_ratio", "-", 0.09, 0.072, -0.018, -20.0),)),
+                        figures=(FigureChange("dutch_roll", "zeta", "-", 0.09, 0.072, -0.018, -20.0),
+                                 FigureChange("dutch_roll", "time to half", "s", 2.0, 2.5, 0.5, 25.0),
+                                 FigureChange("roll_response", "p_osc/p_av", "-", 0.01, 0.2, 0.19, 1900.0))),
     ))
+    paragraphs = conclusion_paragraphs([base, variant], [comparison])
     text = " ".join(conclusion_sentences([base, variant], [comparison]))
-    assert 'Variant under set-a: below Level 1 (or failing) in "cruise" Level 2' in text
+    assert 'Variant is below Level 1 (or failing) under set-a in "cruise": Level 2, Dutch roll' in text
     assert "damping ratio 0.07200 against 0.08000 (margin -0.008000, -10.00 %)" in text
     assert 'Variant loses against the base: "cruise" Dutch roll under set-a Level 1 -> Level 2' in text
     assert "Base is Level 1 in every condition under set-a" in text
     assert 'smallest margin is in "cruise"' in text  # 0.09 against 0.08 is closer than 0.20
-    assert "damping ratio -20.0 %" in text
+    # one paragraph per configuration, the variant's changes in its own paragraph
+    assert len(paragraphs) == 2 and paragraphs[0][0].startswith("Base ")
+    assert all(s.startswith("Variant") or s.startswith("Largest changes of Variant") for s in paragraphs[1])
+    # the largest change per condition and mode of a graded figure; indicators stay in the tables
+    assert 'Largest changes of Variant: "cruise" Dutch roll time to half +25.0 %.' in text
+    assert "p_osc" not in text and "zeta -20.0" not in text
 
 
 def test_summary_is_sorted_worst_first_then_smallest_margin():

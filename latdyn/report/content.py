@@ -25,7 +25,7 @@ from latdyn.report.tables import (comparison_tables, flight_condition_table, giv
 from latdyn.text import slug
 
 __all__ = ["SECTIONS", "report_content", "summary_section", "comparison_section",
-           "conclusion_sentences", "document_table", "DOCUMENT_FIELDS",
+           "conclusion_sentences", "conclusion_paragraphs", "document_table", "DOCUMENT_FIELDS",
            "aircraft_section", "condition_section", "warnings_section", "provenance_section",
            "results_document", "buildup_blocks", "steady_blocks"]
 
@@ -61,13 +61,16 @@ def _check_words(entry):
     return words
 
 
-def conclusion_sentences(assessments, comparisons=()) -> list:
-    """The conclusions, one sentence each, built from the results.
+def conclusion_paragraphs(assessments, comparisons=()) -> list:
+    """The conclusions, one paragraph (a list of sentences) per configuration, built from the
+    results.
 
     Per aircraft and criteria set: the checks below Level 1 (or failing), with
     the value, the boundary and the margin, else "Level 1 (or pass) in every
-    condition"; the smallest margin.  Per variant: the checks that lose or
-    gain a level or a pass, and the largest changes of the mode figures.
+    condition" and the smallest margin.  A variant's paragraph goes on with
+    the checks that lose or gain a level or a pass against the base, and the
+    largest changes of its graded figures (the modes and roll performance:
+    one per condition and mode, the indicators left to the tables).
 
     Parameters
     ----------
@@ -76,13 +79,15 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
 
     Examples
     --------
-    >>> conclusion_sentences([])
+    >>> conclusion_paragraphs([])
     []
     """
     from latdyn.assessment import below_level, level_words
+    from latdyn.report.tables import FIGURE_GROUPS
 
-    out = []
+    paragraphs = {}
     for assessment in assessments:
+        out = paragraphs.setdefault(assessment.aircraft, [])
         for criteria in assessment.graded_sets:
             entries = [(condition.name, entry) for condition in assessment.conditions
                        for entry in condition.for_criteria(criteria.name) if entry.severity > 0]
@@ -90,10 +95,10 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
                 continue
             below = [(name, e) for name, e in entries if below_level(e.level, e.passed, 1)]
             if below:
-                parts = [f'"{name}" {level_words(e.level, e.passed)}: {_check_words(e)}'
+                parts = [f'"{name}": {level_words(e.level, e.passed)}, {_check_words(e)}'
                          for name, e in below]
-                out.append(f"{assessment.aircraft} under {criteria.name}: below Level 1 (or failing) in "
-                           + "; ".join(parts) + ".")
+                out.append(f"{assessment.aircraft} is below Level 1 (or failing) under "
+                           f"{criteria.name} in " + "; ".join(parts) + ".")
             else:
                 word = "passes every check" if criteria.assessment == "pass_fail" else \
                     "is Level 1 in every condition"
@@ -104,6 +109,7 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
                     line += f"; the smallest margin is in \"{name}\": {_check_words(e)}"
                 out.append(line + ".")
     for comparison in comparisons:
+        out = paragraphs.setdefault(comparison.variant, [])
         moves = [(condition.name, change) for condition in comparison.conditions
                  for change in condition.levels if change.verdict in ("improved", "degraded")]
         for verdict, word in (("degraded", "loses"), ("improved", "gains")):
@@ -115,15 +121,31 @@ def conclusion_sentences(assessments, comparisons=()) -> list:
                     for name, c in chosen) + ".")
         if not moves:
             out.append(f"{comparison.variant} changes no level against the base.")
-        changes = sorted(((condition.name, f) for condition in comparison.conditions
-                          for f in condition.figures if f.change_percent is not None),
-                         key=lambda item: -abs(item[1].change_percent))[:3]
+        largest = {}
+        for condition in comparison.conditions:
+            for f in condition.figures:
+                if f.change_percent is None or f.mode in FIGURE_GROUPS:
+                    continue
+                key = (condition.name, f.mode)
+                if key not in largest or abs(f.change_percent) > abs(largest[key][1].change_percent):
+                    largest[key] = (condition.name, f)
+        changes = sorted(largest.values(), key=lambda item: -abs(item[1].change_percent))[:3]
         if changes:
             out.append(f"Largest changes of {comparison.variant}: " + "; ".join(
-                f'"{name}" {check_label(f.mode)} {f.figure.replace("_", " ")} '
+                f'"{name}" {check_label(f.mode)} {f.figure} '
                 f"{format_number(f.change_percent, 1, style='fixed', signed=True)} %"
                 for name, f in changes) + ".")
-    return out
+    return [sentences for sentences in paragraphs.values() if sentences]
+
+
+def conclusion_sentences(assessments, comparisons=()) -> list:
+    """The sentences of :func:`conclusion_paragraphs`, one list.
+
+    >>> conclusion_sentences([])
+    []
+    """
+    return [sentence for paragraph in conclusion_paragraphs(assessments, comparisons)
+            for sentence in paragraph]
 
 
 #: Fields of the document block (title page of a signed report), in order.
@@ -147,10 +169,11 @@ def conclusions_section(data, units=DEFAULT) -> list:
     largest changes)."""
     from latdyn.assessment import NOTICE
 
-    sentences = conclusion_sentences(data.assessments, data.comparisons)
-    if not sentences:
+    paragraphs = conclusion_paragraphs(data.assessments, data.comparisons)
+    if not paragraphs:
         return []
-    return [Heading(2, "Conclusions", "conclusions"), Paragraph(" ".join(sentences)),
+    return [Heading(2, "Conclusions", "conclusions"),
+            *(Paragraph(" ".join(sentences)) for sentences in paragraphs),
             Paragraph(NOTICE, "small")]
 
 

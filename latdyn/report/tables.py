@@ -22,7 +22,7 @@ from latdyn.report.blocks import Absent, Column, Table
 
 __all__ = [
     "MODE_TEXT_VIEW", "MODE_REPORT_VIEW", "ASSESSMENT_TEXT_VIEW", "ASSESSMENT_REPORT_VIEW",
-    "ASSESSMENT_CSV_VIEW", "SUMMARY_VIEW",
+    "ASSESSMENT_CSV_VIEW", "SUMMARY_VIEW", "FIGURE_GROUPS",
     "mode_status", "mode_table", "shape_table", "flight_condition_table", "mass_table",
     "given_table", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
@@ -412,12 +412,12 @@ def _worst_ids(condition):
 def check_label(name) -> str:
     """A mode or a static check in words (the name itself when it has no label).
 
-    >>> check_label("dutch_roll"), check_label("minimum_control_speed")
-    ('Dutch roll', 'Engine out: V_MC')
+    >>> check_label("dutch_roll"), check_label("minimum_control_speed"), check_label("departure")
+    ('Dutch roll', 'Engine out: V_MC', 'Departure indicators')
     """
     from latdyn.steady_checks import CHECK_LABELS
 
-    return MODE_LABELS.get(name, CHECK_LABELS.get(name, name))
+    return MODE_LABELS.get(name) or FIGURE_GROUPS.get(name) or CHECK_LABELS.get(name, name)
 
 
 def _governing_label(entry) -> str:
@@ -527,8 +527,8 @@ def summary_table(assessments, name="summary", caption="Worst result per conditi
 
 # ------------------------------------------------------------------ comparison
 
-#: Row labels of the comparison's figures that are not modes.
-_FIGURE_GROUPS = {"roll_response": "Response to roll control", "departure": "Departure indicators"}
+#: Row labels of the comparison's figures that are not modes (indicators, not graded).
+FIGURE_GROUPS = {"roll_response": "Response to roll control", "departure": "Departure indicators"}
 
 
 def comparison_tables(comparison, prefix="comparison", units=DEFAULT) -> tuple:
@@ -545,7 +545,7 @@ def comparison_tables(comparison, prefix="comparison", units=DEFAULT) -> tuple:
     for condition in comparison.conditions:
         for item in condition.figures:
             figures.append({"condition": condition.name,
-                            "mode": MODE_LABELS.get(item.mode) or _FIGURE_GROUPS.get(item.mode) or check_label(item.mode),
+                            "mode": check_label(item.mode),
                             "figure": item.figure, "unit": item.unit, "base": item.base,
                             "variant": item.variant, "change": item.change,
                             "change_percent": item.change_percent})
