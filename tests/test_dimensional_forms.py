@@ -133,3 +133,32 @@ def test_force_units_are_consistent():
     assert POUND_FORCE * FOOT == pytest.approx(SLUG_FOOT2, rel=1e-15)
     assert POUND_FORCE == pytest.approx(SLUG * FOOT, rel=1e-15)
     assert POUND_FORCE == pytest.approx(4.4482216152605, rel=1e-13)  # NIST SP 811 B.8
+
+
+def test_as_given_table_shows_each_form_as_written(write_file):
+    """The report's "as given" table holds each published form exactly as written, with the
+    file's unit (Y_beta ft/s^2, L_v and N_v 1/(ft s), Y*_delta 1/s: Teper 1969 case P2 in
+    those forms), and beside it the derivative the model uses (Y_beta = V Y_v,
+    L'_beta = V L'_v, Y_delta = V Y*_delta; definitions), in SI."""
+    from test_display_units import find, tables
+
+    case = CASES["P2-jet-transport-approach-CR96008"]
+    speed = case["speed"]
+    values = dict(case["derivatives"], Ystar_da=case["Ystar_da"], Ystar_dr=case["Ystar_dr"])
+    values["Y_beta"] = values.pop("Y_v") * speed
+    values["L_v"] = values.pop("L_beta") / speed
+    values["N_v"] = values.pop("N_beta") / speed
+    path = write_file("forms.toml", dimensional_toml(case, derivatives=values))
+    given = {row["key"].rsplit(".", 1)[-1]: row for row in find(tables(path), "check-as-given").rows}
+    model = lateral_model(load_aircraft(path), "check")
+    expected = {"Y_beta": ("ft/s^2", "Y_v"), "L_v": ("1/(ft s)", "L_beta'"),
+                "N_v": ("1/(ft s)", "N_beta'"), "Ystar_da": ("1/s", "Y_da"),
+                "Ystar_dr": ("1/s", "Y_dr"), "L_p": ("1/s", "L_p'"), "N_dr": ("1/s^2", "N_dr'")}
+    for key, (unit, used) in expected.items():
+        row = given[key]
+        assert float(row["value"]) == float(values[key]) and row["unit"] == unit, key
+        assert row["used"] == used, key
+        assert row["used_value"] == pytest.approx(getattr(model.derivatives, used.rstrip("'")),
+                                                  rel=1e-12, abs=1e-15), key
+    assert given["Y_beta"]["used_value"] == pytest.approx(case["derivatives"]["Y_v"], rel=1e-12)
+    assert given["Ystar_dr"]["used_value"] == pytest.approx(case["Ystar_dr"] * speed * FOOT, rel=1e-12)
