@@ -63,6 +63,17 @@ def test_summary_is_sorted_worst_first_then_smallest_margin():
     assert table.values("condition") == ["c4", "c2", "c3", "c1"]
 
 
+def test_summary_puts_margins_against_a_zero_limit_after_the_per_cent_margins():
+    """A sense check (limit 0) has its margin in its own units, not comparable with a fraction of
+    a limit: it follows the rows of its level that have a per cent margin (the demo's
+    'd(phi)/d(beta) 0.354' had sorted between 'Level 1 +26.9 %' and '+36.1 %')."""
+    sense = Assessment("set-a", "Edition 1", "bank_sense", None, True, "bank_per_sideslip", 0.354,
+                       0.0, 0.354, None, "-")
+    result = aircraft("A", ("c1", [entry(1, 0.109, 0.08)]), ("c2", [sense]),
+                      ("c3", [entry(1, 0.30, 0.08)]))
+    assert summary_table([result]).values("condition") == ["c1", "c3", "c2"]
+
+
 def test_document_block_and_print_boxes():
     table = document_table({"number": "LD-1", "revision": "C", "prepared": "A. Person"})
     cells = {row["field"]: row["value"] for row in table.rows}

@@ -502,7 +502,9 @@ SUMMARY_VIEW = ("aircraft", "condition", "category", "criteria", "result", "mode
 
 def summary_table(assessments, name="summary", caption="Worst result per condition") -> Table:
     """The worst row per aircraft, condition and criteria set, worst first: by level (or
-    fail), then by the smallest margin to the next-better boundary."""
+    fail), then by the smallest margin to the next-better boundary in per cent of it; a check
+    against a zero limit (a sense, whose margin is in its own units and has no per cent) after
+    those of its level, then a row without a margin."""
     rows = []
     for assessment in assessments:
         sources = assessment_sources(assessment)
@@ -510,13 +512,17 @@ def summary_table(assessments, name="summary", caption="Worst result per conditi
             for criteria in assessment.graded_sets:
                 worst = item.worst(criteria.name)
                 if worst is not None:
-                    closeness = worst.margin_fraction if worst.margin_fraction is not None else (
-                        worst.margin if worst.margin is not None else math.inf)
+                    # a margin in per cent of the limit is comparable across checks; a margin
+                    # against a zero limit (a sense) is in its quantity's units, so those rows
+                    # follow, among themselves by margin, and rows without a margin come last
+                    closeness = ((0, worst.margin_fraction) if worst.margin_fraction is not None
+                                 else (1, worst.margin) if worst.margin is not None
+                                 else (2, 0.0))
                     rows.append((worst.severity,
                                  _assessment_row(assessment, item, worst, sources, {id(worst)}),
                                  closeness))
     # worst level first; among equal levels the smallest margin (fraction) first
-    order = sorted(range(len(rows)), key=lambda i: (-rows[i][0], rows[i][2], i))
+    order = sorted(range(len(rows)), key=lambda i: (-rows[i][0], *rows[i][2], i))
     emphasis = tuple(k for k, i in enumerate(order) if rows[i][0] >= 2)
     columns = tuple(Column(c.key, {"result": "Worst result", "mode": "Limiting mode"}.get(c.key, c.title),
                            c.unit, c.symbol, c.digits, c.style, c.signed, c.words)
