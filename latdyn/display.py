@@ -165,6 +165,7 @@ SI = UnitSystem("SI", {
     "time": DisplayUnit("s"),
     "frequency": DisplayUnit("rad/s"),
     "rate": DisplayUnit("1/s"),
+    "airspeed_kt": DisplayUnit("kt", 3600.0 / 1852.0),
 })
 
 from latdyn.units import FOOT as _FOOT, POUND_FORCE as _POUND_FORCE, SLUG as _SLUG  # noqa: E402
@@ -186,6 +187,7 @@ US = UnitSystem("US", {
     "time": DisplayUnit("s"),
     "frequency": DisplayUnit("rad/s"),
     "rate": DisplayUnit("1/s"),
+    "airspeed_kt": DisplayUnit("kt", 3600.0 / 1852.0),
 })
 
 #: The unit systems by name ("SI", "US").

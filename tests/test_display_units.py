@@ -198,3 +198,19 @@ def test_as_given_derivative_beside_its_dimensional_derivative(pair, key, used):
     model = lateral_model(load_aircraft(str(si)), "cruise")
     assert row["used"] == used
     assert row["used_value"] == getattr(model.derivatives, used.rstrip("'"))
+
+
+def test_flight_condition_shows_the_airspeeds_in_knots(pair):
+    """Each airspeed also in knots (1 kt = 1852 m/h, NIST SP 811 B.8), in both unit systems: the
+    US file's 180 KCAS reads back as 180 kt, the SI file's true airspeed in knots equals it in m/s
+    divided by 1852/3600."""
+    si, us = pair
+    for path in (si, us):
+        rows = {r["key"]: r for r in find(tables(path), "cruise-flight-condition").rows}
+        for field in ("speed", "equivalent_airspeed", "calibrated_airspeed"):
+            knots, native = rows[f"{field}_kt"], rows[field]
+            assert knots["unit"] == "kt"
+            size = FOOT if native["unit"] == "ft/s" else 1.0
+            assert knots["value"] * KNOT == pytest.approx(native["value"] * size, rel=1e-12)
+    us_rows = {r["key"]: r for r in find(tables(us), "cruise-flight-condition").rows}
+    assert us_rows["calibrated_airspeed_kt"]["value"] == pytest.approx(180.0, rel=1e-9)

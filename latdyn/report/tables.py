@@ -153,16 +153,17 @@ _QUANTITY_COLUMNS = _columns(Column("quantity", "Quantity"), Column("unit", "Uni
 
 
 def flight_condition_table(result, name="flight-condition", units=DEFAULT) -> Table:
-    """Flight condition and derived quantities of a :class:`~latdyn.results.ConditionResult`."""
+    """Flight condition and derived quantities of a :class:`~latdyn.results.ConditionResult`
+    (each airspeed in the display units and in knots, 1 kt = 1852 m/h)."""
     flight = result.condition.flight
     rows = [
         ("category", "Flight-phase category", "-", flight.category or "not given"),
         ("altitude", "Geopotential altitude", units.label("length"), units.convert(flight.altitude, "length")),
-        ("speed", "True airspeed", units.label("speed"), units.convert(flight.speed, "speed")),
-        ("equivalent_airspeed", "Equivalent airspeed", units.label("speed"),
-         units.convert(flight.equivalent_airspeed, "speed")),
-        ("calibrated_airspeed", "Calibrated airspeed", units.label("speed"),
-         units.convert(flight.calibrated_airspeed, "speed")),
+        *((key, words, units.label(quantity), units.convert(value, quantity))
+          for field, words in (("speed", "True airspeed"), ("equivalent_airspeed", "Equivalent airspeed"),
+                               ("calibrated_airspeed", "Calibrated airspeed"))
+          for value in (getattr(flight, field),)
+          for key, quantity in ((field, "speed"), (f"{field}_kt", "airspeed_kt"))),
         ("mach", "Mach number", "-", flight.mach),
         ("density", "Density", units.label("density"), units.convert(flight.density, "density")),
         ("dynamic_pressure", "Dynamic pressure", units.label("pressure"),
