@@ -149,6 +149,12 @@ class ResponseReadouts:
     def __iter__(self):
         return iter((self.peaks, self.dutch_roll, self.residual_bank_angle))
 
+    def at_end(self, peak) -> bool:
+        """True where a signal's largest value is its last sample: still changing when the run
+        stops, so it is the largest value shown, not a peak (a bank angle after an aileron step).
+        """
+        return peak.time >= self.residual_time - 1e-9 * max(1.0, abs(self.residual_time))
+
     def peak(self, signal) -> Peak:
         """The peak of one signal by name."""
         for peak in self.peaks:

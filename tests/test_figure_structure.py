@@ -146,6 +146,33 @@ def test_a_bank_angle_still_building_is_not_called_a_residual(cruise):
     assert not any("residual" in n for n in notes)
 
 
+def test_a_largest_value_at_the_end_of_the_run_is_not_called_a_peak(report, cruise):
+    """After an aileron step the bank angle rises for as long as the roll rate lasts (the
+    closed-form roll after a step, common practice), so its largest value is the run's last:
+    the report's read-outs do not list it as a peak (the bank at the end has its own row with
+    what it is doing), and the overlay's table marks such values with "*" and says so."""
+    from latdyn.report.tables import readout_table
+
+    step = cruise.responses[1]
+    phi = step.readouts.peak("phi")
+    assert step.readouts.at_end(phi) and phi.time == step.response.time[-1]
+    assert not step.readouts.at_end(cruise.responses[0].readouts.peak("beta"))  # doublet: a peak
+    rows = readout_table([("aileron-step", step.readouts)], cruise.result.modes).rows
+    signals = [row["signal"] for row in rows]
+    assert "phi" not in signals and any(s.startswith("phi at the end (still building") for s in signals)
+    assert all("not a peak" in s for s in signals
+               if s.split()[0] in ("beta", "p", "r", "psi", "ny") and
+               step.readouts.at_end(step.readouts.peak(s.split()[0])))
+    steps = [step] + [v.responses[1] for v in cruise.variants]
+    figure = responses.time_history_figure([s.response for s in steps], [s.readouts for s in steps],
+                                           labels=["a", "b", "c"])
+    texts = [t.get_text() for a in figure.axes for t in a.texts]
+    cells = [c.get_text().get_text() for a in figure.axes for t in a.tables
+             for c in t.get_celld().values()]
+    assert any(c.endswith("*") for c in cells)
+    assert any("*: the largest value is the last of the run" in t for t in texts)
+
+
 @pytest.mark.parametrize("chart", [levels.dutch_roll_chart, levels.roll_spiral_chart, levels.s_plane_map],
                          ids=lambda f: f.__name__)
 def test_names_from_files_are_shown_as_written(chart):
@@ -255,6 +282,7 @@ def _figures(report, cruise):
     variants = [v.assessment for v in cruise.variants]
     doublet, step = cruise.responses
     every = [doublet] + [v.responses[0] for v in cruise.variants]
+    steps = [step] + [v.responses[1] for v in cruise.variants]
     return {
         "dutch_roll_chart": lambda: levels.dutch_roll_chart(base),
         "dutch_roll_chart_pass_fail": lambda: levels.dutch_roll_chart(
@@ -271,12 +299,16 @@ def _figures(report, cruise):
         "time_history_overlay": lambda: responses.time_history_figure(
             [s.response for s in every], [s.readouts for s in every],
             labels=[report.aircraft[0].aircraft.name] + [v.aircraft.name for v in cruise.variants]),
+        "time_history_step_overlay": lambda: responses.time_history_figure(
+            [s.response for s in steps], [s.readouts for s in steps],
+            labels=[report.aircraft[0].aircraft.name] + [v.aircraft.name for v in cruise.variants]),
     }
 
 
 FIGURES = ["dutch_roll_chart", "dutch_roll_chart_pass_fail", "dutch_roll_chart_variants", "roll_spiral_chart",
            "roll_spiral_chart_variants", "s_plane_map",
-           "time_history_doublet", "time_history_step", "time_history_overlay"]
+           "time_history_doublet", "time_history_step", "time_history_overlay",
+           "time_history_step_overlay"]
 
 
 @pytest.mark.parametrize("name", FIGURES)

@@ -252,7 +252,9 @@ def _summary(label, aircraft, response, readout, modes, settings, sizing, units)
         quantity = SIGNAL_QUANTITIES.get(peak.signal)
         value = units.convert(peak.value, quantity) if quantity else peak.value
         unit = units.label(quantity) if quantity else ""
-        peaks.append(f"{peak.signal} {_format(value)} {unit} at {peak.time:.2f} s")
+        peaks.append(f"{peak.signal} {_format(value)} {unit} "
+                     + (f"at the end ({peak.time:.2f} s, still changing)"
+                        if readout.at_end(peak) else f"at {peak.time:.2f} s"))
     lines.append("  peaks: " + " | ".join(peaks))
     lines += _dutch_lines(readout, modes)
     lines.append(f"  bank angle at the end ({readout.residual_time:g} s): "

@@ -185,7 +185,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                 shown = peak.value * _factor(name)
                 axis.plot([peak.time], [shown], marker="v" if shown > 0 else "^", color=colour,
                           markersize=5, zorder=4)
-                at_end = peak.time >= float(response.time[-1]) - 1e-9
+                at_end = readout.at_end(peak)
                 if single and not (at_end and name == "phi"):  # the bank at the end has its own words
                     words = (f"largest {_fmt(shown)} {unit}, at the end of the run (still changing)" if at_end
                              else f"peak {_fmt(shown)} {unit} at {peak.time:.2f} s")
@@ -246,9 +246,11 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
         row = [] if single else [short[len(cells)]]
         for name in ("beta", "p", "r", "phi", "ny"):
             try:
-                row.append(_fmt(readout.peak(name).value * _factor(name)))
+                peak = readout.peak(name)
             except KeyError:
                 row.append("-")
+                continue
+            row.append(_fmt(peak.value * _factor(name)) + ("*" if readout.at_end(peak) else ""))
         eigen = _eigen_dutch(mode_set)
         dutch = readout.dutch_roll
         row.append(f"{_fmt(dutch.damping_ratio, 4) if dutch else '-'}  |  "
@@ -257,8 +259,10 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                    f"{_fmt(eigen.period, 4) if eigen else '-'}")
         row.append(_fmt(readout.residual_bank_angle * _factor("phi")))
         cells.append(row)
+    ends = any(r.at_end(p) for r in readouts for p in r.peaks)  # a third line of notes
+    bottom = 0.38 if ends else 0.28
     table = table_axis.table(cellText=cells, colLabels=header, cellLoc="center", colLoc="center",
-                             colWidths=widths, bbox=[0.0, 0.28, 1.0, 0.72])
+                             colWidths=widths, bbox=[0.0, bottom, 1.0, 1.0 - bottom])
     table.auto_set_font_size(False)
     table.set_fontsize(7.5)
     for (r, c), cell in table.get_celld().items():
@@ -275,7 +279,9 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
            + " after the input (circles)" if read else "too few extrema after the input for a read-out")
     note = (f"Dutch roll trace figures: {how};\neigen: from the model's eigenvalues. "
             f"Shaded: controls moving. {SYMBOLS['phi']} at end: the bank angle when the run stops "
-            "(still changing where it is building or decaying).")
+            "(still changing where it is building or decaying)."
+            + ("\n*: the largest value is the last of the run, still changing (not a peak)."
+               if ends else ""))
     table_axis.text(0.0, 0.02, note, transform=table_axis.transAxes, fontsize=7, color=MUTED,
                     va="bottom")
     return figure

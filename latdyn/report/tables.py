@@ -605,8 +605,13 @@ def readout_table(responses, modes, name="readouts", units=DEFAULT) -> Table:
     dutch = modes.get("dutch_roll")
     for kind, readouts in responses:
         for peak in readouts.peaks:
+            at_end = readouts.at_end(peak)
+            if at_end and peak.signal == "phi":
+                continue  # the bank angle at the end has its own row, with what it is doing
             quantity = SIGNAL_QUANTITIES.get(peak.signal)
-            rows.append({"input": kind, "signal": peak.signal,
+            rows.append({"input": kind, "signal": peak.signal + (
+                             " largest at the end of the run (still changing, not a peak)"
+                             if at_end else ""),
                          "peak": units.convert(peak.value, quantity) if quantity else peak.value,
                          "unit": units.label(quantity) if quantity else "", "time": peak.time})
         rows.append({"input": kind, "signal": f"phi at the end ({bank_at_end_words(readouts, units)})",
@@ -623,7 +628,7 @@ def readout_table(responses, modes, name="readouts", units=DEFAULT) -> Table:
                          "peak": dutch.damping_ratio, "unit": "-", "time": None})
             rows.append({"input": kind, "signal": "Dutch roll period from the eigenvalues",
                          "peak": dutch.period, "unit": "s", "time": None})
-    columns = (Column("input", "Input"), Column("signal", "Signal"), Column("peak", "Peak"),
+    columns = (Column("input", "Input"), Column("signal", "Signal"), Column("peak", "Peak or value"),
                Column("unit", "Unit"), Column("time", "At", "s"))
     return Table(name, "Read-outs from the responses, beside the eigenvalue figures", columns, tuple(rows))
 
