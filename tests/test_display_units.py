@@ -179,6 +179,7 @@ def test_modes_json_stays_si_and_text_follows_the_file(pair, capsys):
     assert main(["modes", str(us)]) == 0
     text = capsys.readouterr().out
     assert "altitude 15000 ft" in text and "ft/s" in text and "slug/ft^3" in text
+    assert "180.0 kt CAS" in text  # the file's calibrated_airspeed_kt, read back in knots
     assert main(["modes", str(us), "--units", "SI"]) == 0
     assert "altitude 4572 m" in capsys.readouterr().out
 

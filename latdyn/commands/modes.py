@@ -41,6 +41,10 @@ def condition_heading(result, units=None):
     if flight.altitude is not None:
         quantity("altitude", flight.altitude, "length")
     quantity("V", flight.speed, "speed")
+    knots = [f"{format_number(units.convert(value, 'airspeed_kt'))} kt {word}"
+             for value, word in ((flight.speed, "TAS"), (flight.calibrated_airspeed, "CAS"))
+             if value is not None]
+    parts[-1] += f" ({', '.join(knots)})"
     if flight.mach is not None:
         parts.append(f"Mach {flight.mach:.3f}")
     quantity("rho", flight.density, "density")
