@@ -52,6 +52,7 @@ from latdyn.aircraft import NondimensionalDerivatives
 from latdyn.model import (COEFFICIENT_NAMES, DIMENSIONAL_NAMES, equation_angles,
                           lateral_matrices, primed_values)
 from latdyn.modes import ModeArrays, analyse_stack, pair_figures, root_figures
+from latdyn.studies.keys import MASS_PROPERTIES
 
 __all__ = [
     "CHUNK", "FIGURES", "CaseSet", "Figures", "BatchResult", "parameter_names", "nominal_value", "case_inputs",
@@ -64,7 +65,6 @@ __all__ = [
 #: Cases per chunk: small enough to stay in cache, large enough to amortise Python.
 CHUNK = 16384
 
-_MASS_KEYS = ("mass", "Ixx", "Izz", "Ixz")
 _FLIGHT_KEYS = ("speed", "density", "altitude", "alpha", "gamma", "wing_area", "span")
 _FIN_KEYS = ("fin.area_ratio", "fin.arm_ratio")
 #: Augmentation inputs a case set can vary (fields of latdyn.aircraft.Augmentation) [s or rad/rad].
@@ -138,7 +138,7 @@ def nominal_value(aircraft, condition, name) -> float:
     """
     if name.startswith("augmentation."):
         return float(getattr(condition.augmentation, name.split(".", 1)[1]))
-    if name in _MASS_KEYS:
+    if name in MASS_PROPERTIES:
         return float(getattr(aircraft.mass, name))
     return float(getattr(condition.derivatives, name))
 
@@ -148,7 +148,7 @@ def parameter_names(aircraft, condition) -> tuple:
     nondimensional = isinstance(condition.derivatives, NondimensionalDerivatives)
     names = list(COEFFICIENT_NAMES if nondimensional else DIMENSIONAL_NAMES)
     if aircraft.mass is not None:
-        names += [k for k in _MASS_KEYS if k != "mass" or aircraft.mass.mass is not None]
+        names += [k for k in MASS_PROPERTIES if k != "mass" or aircraft.mass.mass is not None]
     names += [k for k in _FLIGHT_KEYS
               if k not in ("wing_area", "span") or aircraft.geometry is not None]
     if aircraft.fin is not None and nondimensional and aircraft.geometry is not None:

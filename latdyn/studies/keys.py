@@ -26,11 +26,16 @@ from latdyn import units
 from latdyn.aircraft_file import GEOMETRY_TABLES, SCHEMA, read_tree
 from latdyn.errors import InputError
 
-__all__ = ["StudyKey", "resolve_key", "file_units", "UNIT_WORDS", "parameter_dimension"]
+__all__ = ["StudyKey", "resolve_key", "file_units", "UNIT_WORDS", "parameter_dimension",
+           "MASS_PROPERTIES"]
 
 _PREFIXES = ("condition.derivatives.", "condition.dimensional.", "condition.", "mass.",
              "geometry.")
 _ANGLES = {"alpha_deg": "alpha", "gamma_deg": "gamma"}
+
+#: The mass properties that enter the lateral model, in the file's order (``Iyy`` does
+#: not enter it).
+MASS_PROPERTIES = tuple(k for k in SCHEMA["mass"] if k not in ("Iyy", "inertia_axes"))
 
 #: Printed unit of each dimension in SI and US files.
 UNIT_WORDS = units.UNIT_WORDS

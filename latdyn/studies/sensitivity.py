@@ -37,6 +37,7 @@ from latdyn.aircraft import NondimensionalDerivatives
 from latdyn.studies.batch import (AUGMENTATION_PARAMETERS, case_matrices, closed_loop_matrices,
                                   condition_set, nominal_value, parameter_names,
                                   takes_augmented_path)
+from latdyn.studies.keys import MASS_PROPERTIES
 
 __all__ = ["Sensitivity", "ConditionSensitivities", "FIGURE_NAMES", "BETTER", "sensitivity_parameters",
            "matrix_derivatives", "eigenvalue_derivatives", "condition_sensitivities",
@@ -70,7 +71,7 @@ def sensitivity_parameters(aircraft, condition) -> tuple:
     allowed = parameter_names(aircraft, condition)
     names = list(_STATE_DERIVATIVES[nondimensional])
     primed = getattr(condition.derivatives, "primed", False)
-    for key in ("mass", "Ixx", "Izz", "Ixz"):
+    for key in MASS_PROPERTIES:
         if key in allowed and (nondimensional or (not primed and key != "mass")):
             names.append(key)
     augmentation = getattr(condition, "augmentation", None)

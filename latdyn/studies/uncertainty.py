@@ -27,7 +27,7 @@ from latdyn.aircraft import DISTRIBUTIONS, Uncertainty
 from latdyn.errors import InputError
 from latdyn.studies.batch import (FIGURES, condition_set, iterate_batch, nominal_value,
                                   parameter_names)
-from latdyn.studies.keys import file_units, resolve_key
+from latdyn.studies.keys import MASS_PROPERTIES, file_units, resolve_key
 from latdyn.studies.rules import sample_rules
 
 __all__ = ["parse_uncertainty", "condition_uncertainties", "draw_samples", "ConditionUncertainty",
@@ -40,7 +40,6 @@ __all__ = ["parse_uncertainty", "condition_uncertainties", "draw_samples", "Cond
 PERCENTILES = (5.0, 50.0, 95.0)
 #: Most samples per condition [-].
 MAX_SAMPLES = 10_000_000
-_MASS = ("mass", "Ixx", "Izz", "Ixz")
 
 
 def parse_uncertainty(words, file=""):
@@ -107,7 +106,7 @@ def condition_uncertainties(aircraft, condition, given=()) -> tuple:
         Keys resolved to batch input names, absolute amounts in SI.
     """
     allowed = [k for k in parameter_names(aircraft, condition)
-               if k in _MASS or k in _derivative_names(condition)]
+               if k in MASS_PROPERTIES or k in _derivative_names(condition)]
     out = {}
     words = file_units(aircraft) if given else "SI"
     for item in aircraft.uncertainties:
