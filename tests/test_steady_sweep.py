@@ -195,3 +195,43 @@ def test_values_leaving_the_rules_are_refused_in_one_line(tmp_path, key, start, 
         sweep(twin(tmp_path), [(key, start, stop, 3)], criteria_sets=["14cfr23-181"])
     message = str(caught.value)
     assert "\n" not in message and f"{key} = {bad}" in message
+
+
+# ------------------------------------------------------------------ Monte Carlo
+def test_uncertainty_grades_the_minimum_control_speed_sample_by_sample(tmp_path):
+    # Each sample's Cn_dr is drawn by draw_samples (same seed, same condition); the hand
+    # solution (|Cn_dr| = (y (T + D) - bank term) / (q_lim S b travel)) says which samples pass
+    # 23.149(b): exactly those with more rudder power than it.  The probability of a pass is then
+    # also the normal distribution's, within four binomial standard errors.
+    from scipy.stats import norm
+
+    from latdyn.studies.uncertainty import (condition_uncertainties, draw_samples, parse_uncertainty,
+                                            uncertainty, uncertainty_document)
+
+    aircraft = twin(tmp_path)
+    condition = aircraft.conditions[0]
+    given = [parse_uncertainty("Cn_dr=±20%")]
+    samples, seed = 4000, 11
+    result = uncertainty(aircraft, given, samples, seed, criteria_sets=["14cfr23-181"])
+    (item,) = result.conditions
+    passed = item.probabilities[("14cfr23-steady", "minimum_control_speed")]["pass"]
+    hand = -(Y_ENGINE * (T + D) - bank_term()) / (Q_LIMIT * S * B * TRAVEL)
+    drawn = draw_samples(aircraft, condition, condition_uncertainties(aircraft, condition, given),
+                         samples, seed)["Cn_dr"]
+    assert passed * samples == np.count_nonzero(drawn <= hand)
+    sigma = 0.2 * abs(BASE["Cn_dr"])
+    expected = norm.cdf((hand - BASE["Cn_dr"]) / sigma)
+    assert abs(passed - expected) < 4 * math.sqrt(expected * (1 - expected) / samples)
+    document = uncertainty_document(result)
+    assert any("held over the speed range" in note for note in document["notes"])
+    json.dumps(document, allow_nan=False)
+
+
+def test_uncertainty_command_prints_the_static_checks_with_the_notice(tmp_path, capsys):
+    path = twin(tmp_path).file
+    assert main(["uncertainty", path, "--vary", "Cn_dr=±20%", "--samples", "500", "--seed", "2",
+                 "--criteria", "14cfr23-181", "--format", "csv"]) == 0
+    out = capsys.readouterr().out
+    (row,) = [line for line in out.splitlines() if "Engine out: V_MC" in line]
+    assert row.startswith("test,14cfr23-steady,") and "pass" in row
+    assert "GUIDANCE ONLY" in out

@@ -64,7 +64,7 @@ def run(args):
             *[f'condition "{item.condition.name}": {item.excluded} samples left the file\'s rules '
               f"and were not analysed (" + "; ".join(f"{rule}: {count}" for rule, count
                                                   in (item.excluded_rules or {}).items()) + ")"
-              for item in result.conditions if item.excluded]]
+              for item in result.conditions if item.excluded], *result.notes]
         separator = "\n\n" if markdown else "\n"
         text = separator.join([*head, render(levels, style), render(figures, style), notice])
     if args.plot:
@@ -72,6 +72,6 @@ def run(args):
         from latdyn.plots import save_both
         from latdyn.plots.studies import uncertainty_figure
 
-        save_both(uncertainty_figure(result, assess(aircraft, result.criteria)), args.plot)
+        save_both(uncertainty_figure(result, assess(aircraft, criteria)), args.plot)
     sys.stdout.write(text)
     return 0

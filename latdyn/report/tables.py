@@ -837,12 +837,12 @@ def uncertainty_tables(result) -> tuple:
         for (set_name, mode), probabilities in item.probabilities.items():
             if mode == "roll_spiral" and probabilities["not assessed"] == 1.0:
                 continue  # no sample has a roll-spiral oscillation
-            errors = standard_errors(probabilities, result.samples)
+            errors = standard_errors(probabilities, result.samples - item.excluded)
             parts = [f"{word} {format_number(100 * p, 2, style='fixed')}% "
                      f"(±{format_number(100 * errors[word], 2, style='fixed')})"
                      for word, p in probabilities.items() if p > 0]
             level_rows.append({"condition": item.condition.name, "criteria": set_name,
-                               "mode": MODE_LABELS[mode], "probabilities": "; ".join(parts)})
+                               "mode": check_label(mode), "probabilities": "; ".join(parts)})
         for figure, values in item.percentiles.items():
             if not values["available"]:
                 continue

@@ -10,7 +10,12 @@ batched engine (:mod:`latdyn.studies.batch`), roll performance included where
 asked for and the aileron travel is known; the result per condition and
 mode is the fraction of samples at each level (the level probability, with
 binomial standard error sqrt(p (1 - p) / n)) and percentiles of the mode
-figures.
+figures.  The static checks of steady flight tied to the criteria sets
+(:mod:`latdyn.steady_checks`: the senses and roll-control share of a steady
+sideslip, the crosswind sideslip, the engine-out minimum control speed) are
+graded in every sample as a sweep grades them
+(:mod:`latdyn.studies.steady_batch`), giving the probability of a pass, up to
+:data:`latdyn.studies.sweep.STATIC_CHECK_POINTS` samples a condition.
 
 Levels are guidance only (:data:`latdyn.assessment.NOTICE`).
 """
@@ -308,6 +313,7 @@ class UncertaintyResult:
     seed: int
     criteria: tuple
     conditions: tuple
+    notes: tuple = ()
 
     def __repr__(self):
         names = ", ".join(c.name for c in self.criteria)
@@ -372,8 +378,14 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
         seed = int(np.random.SeedSequence().entropy % (2**63))
     if seed < 0:
         raise InputError(aircraft.file, "--seed", "a whole number >= 0", str(seed))
+    from latdyn.studies.sweep import STATIC_CHECK_POINTS, static_check_groups
+
     sets = _load_sets(criteria_sets if criteria_sets is not None
                       else default_criteria(aircraft.airplane_class))
+    notes = ()
+    if static_check_groups(sets, 1) and not static_check_groups(sets, samples):
+        notes += (f"static checks of steady flight not graded above {STATIC_CHECK_POINTS} samples",)
+    sets += static_check_groups(sets, samples)
     chosen = (aircraft.condition(condition),) if condition else aircraft.conditions
     items = []
     for item in chosen:
@@ -402,7 +414,11 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
         percentiles = {name: figure_percentiles(getattr(figures, name)) for name in FIGURES}
         items.append(ConditionUncertainty(item, specs, figures, probabilities, percentiles,
                                           samples - kept, excluded))
-    return UncertaintyResult(aircraft, samples, seed, sets, tuple(items))
+        if any(mode == "minimum_control_speed" for _, mode in counts):
+            from latdyn.steady import HELD_NOTE
+
+            notes += (f"{item.name}: engine-out minimum control speed: {HELD_NOTE} in each sample",)
+    return UncertaintyResult(aircraft, samples, seed, sets, tuple(items), notes)
 
 
 def uncertainty_document(result: UncertaintyResult) -> dict:
@@ -425,4 +441,5 @@ def uncertainty_document(result: UncertaintyResult) -> dict:
             "figures": {name: {"unit": FIGURES[name], **values}
                         for name, values in item.percentiles.items()},
         } for item in result.conditions],
+        "notes": list(result.notes),
     }
