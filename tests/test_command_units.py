@@ -12,6 +12,7 @@ conversions, not a published result).
 import json
 import pathlib
 
+import numpy as np
 import pytest
 
 from latdyn.cli import main
@@ -62,8 +63,9 @@ COMMANDS = {
                    "csv"], True),
     "steady-markdown": (["steady", "{f}/kestrel-k40.toml", "--condition", "approach", "--format",
                          "markdown"], True),
-    "turbulence": (["turbulence", "{f}/kestrel-k40-tip-tanks-yaw-damper.toml", "--sigma-v", "3",
-                    "--scale-length", "533"], True),
+    # the gust is typed in each file's units (3 m/s and 533 m, or their ft/s and ft)
+    "turbulence": (["turbulence", "{f}/kestrel-k40-tip-tanks-yaw-damper.toml", "--sigma-v", "{sigma}",
+                    "--scale-length", "{length}"], True),
     "estimate": (["estimate", "{f}/heron-h2-geometry.toml"], True),
     "identify": (["identify", "{f}/kestrel-k40.toml", "--condition", "cruise", "--method", "equation-error",
                   "--data", str(AIRCRAFT / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv"),
@@ -71,10 +73,17 @@ COMMANDS = {
 }
 
 
+def typed(words, folder):
+    """Arguments for folder "si" or "us": dimensional option values typed in that file's units
+    (50 to 130 m/s is 164.04 to 426.51 ft/s; NIST SP 811 (2008) B.8: 1 ft = 0.3048 m)."""
+    size = 1.0 if folder == "si" else FOOT
+    speed = f"speed={50 / size!r}:{130 / size!r}:5"
+    return [a.format(f=folder, speed=speed, sigma=repr(3.0 / size), length=repr(533.0 / size))
+            for a in words]
+
+
 def arguments(command, folder):
-    # the swept speeds are typed in each file's units: 50 to 130 m/s is 164.04 to 426.51 ft/s
-    speed = "speed=50:130:5" if folder == "si" else f"speed={50 / 0.3048!r}:{130 / 0.3048!r}:5"
-    return [a.format(f=folder, speed=speed) for a in COMMANDS[command][0]]
+    return typed(COMMANDS[command][0], folder)
 
 
 @pytest.mark.slow
@@ -98,15 +107,18 @@ JSON_COMMANDS = {
     "compare": ["compare", "{f}/kestrel-k40.toml", "{f}/kestrel-k40-tip-tanks.toml"],
     "steady": ["steady", "{f}/kestrel-k40.toml", "--condition", "cruise"],
     "identify": COMMANDS["identify"][0],
+    "turbulence": COMMANDS["turbulence"][0],
 }
 
 
 @pytest.mark.slow
 @pytest.mark.parametrize("command", list(JSON_COMMANDS), ids=list(JSON_COMMANDS))
 def test_json_stays_si(command, files, capsys, monkeypatch):
-    """--units changes no number of the JSON document, and the US file's JSON is the SI file's."""
+    """--units changes no number of the JSON document, and the US file's JSON is the SI file's
+    (turbulence: the same SI result from the SI file with SI options and from its US twin with the
+    gust typed in ft/s and ft, issue 13 item 2)."""
     def document(folder, *extra):
-        argv = [a.format(f=folder) for a in JSON_COMMANDS[command]] + ["--format", "json", *extra]
+        argv = typed(JSON_COMMANDS[command], folder) + ["--format", "json", *extra]
         text = output(capsys, monkeypatch, files, argv).replace(f"{folder}/", "")
         return json.loads(text)
 
@@ -182,3 +194,112 @@ def test_sweep_json_is_si_with_the_file_units_beside(sweep, files, capsys, monke
         for key, value in a["parameters"].items():
             assert b["parameters"][key] == pytest.approx(value, rel=1e-12)
             assert b["file_parameters"][key] == pytest.approx(value / by_key[key], rel=1e-12)
+
+
+@pytest.mark.slow
+def test_turbulence_time_history_from_the_us_twin_is_the_si_one(files, capsys, monkeypatch, tmp_path):
+    """The seeded time history (deg, deg/s, g) of the US twin with the gust in ft/s and ft equals the
+    SI file's with m/s and m; its first line names the units the gust was typed in."""
+    def history(folder):
+        path = tmp_path / f"{folder}.csv"
+        output(capsys, monkeypatch, files, typed(COMMANDS["turbulence"][0], folder)
+               + ["--condition", "cruise", "--csv", path, "--duration", "20"])
+        return path.read_text().splitlines()
+
+    si, us = history("si"), history("us")
+    assert "sigma_v 3 m/s, L_v 533 m" in si[0]
+    assert f"sigma_v {3.0 / FOOT:g} ft/s, L_v {533.0 / FOOT:g} ft" in us[0]
+    assert si[1] == us[1] and len(si) == len(us) > 100
+    a, b = (np.array([[float(x) for x in line.split(",")] for line in rows[2:]]) for rows in (si, us))
+    # the same seeded samples; the model's round-off (1e-16) grows through the sampling of the
+    # process, so each channel agrees to a part in 10^5 of its RMS
+    assert (np.abs(b - a).max(axis=0) <= 1e-5 * np.sqrt((a**2).mean(axis=0))).all()
+
+
+def test_report_reads_the_gust_in_the_first_files_units(files, capsys, monkeypatch):
+    """``report --sigma-v/--scale-length`` on a US file: ft/s and ft, passed on in SI (NIST SP 811
+    (2008) B.8: 1 ft = 0.3048 m); on an SI file as typed."""
+    import latdyn.report
+
+    seen = {}
+
+    def capture(*args, gust=None, **kwargs):
+        seen["gust"] = gust
+        return "folder"
+
+    monkeypatch.setattr(latdyn.report, "write_report", capture)
+    for folder, size in (("si", 1.0), ("us", FOOT)):
+        output(capsys, monkeypatch, files, ["report", f"{folder}/kestrel-k40-tip-tanks-yaw-damper.toml",
+                                            "--sigma-v", "10", "--scale-length", "1000"])
+        assert seen["gust"].sigma_v == pytest.approx(10.0 * size, rel=1e-15)
+        assert seen["gust"].scale_length == pytest.approx(1000.0 * size, rel=1e-15)
+
+
+def test_report_turbulence_paragraph_in_the_report_units(files):
+    """The report's turbulence paragraph names the gust in the display units (it said m/s and m in a
+    US report)."""
+    from latdyn.display import SI, SYSTEMS
+    from latdyn.report.analysis import analyse_report
+    from latdyn.report.content import augmentation_section
+    from latdyn.turbulence import Gust
+
+    data = analyse_report([str(files / "us" / "kestrel-k40-tip-tanks-yaw-damper.toml")],
+                          gust=Gust(3.0 * FOOT, 500.0 * FOOT))
+
+    def words(units):
+        return " ".join(getattr(block, "text", "") for block in augmentation_section(data, units))
+
+    assert "sigma_v 3.000 ft/s, L_v 500.0 ft" in words(SYSTEMS["US"])
+    assert "sigma_v 0.9144 m/s, L_v 152.4 m" in words(SI)
+
+
+#: Every numeric option of every command and its unit.  Options with a dimension are read in the
+#: file's unit system and their help names the unit of both (issue 13 item 2); angles, times, counts
+#: and fractions are the same in both systems and their help names them.
+DIMENSIONAL_OPTIONS = {
+    ("turbulence", "--sigma-v"): ("m/s", "ft/s"), ("turbulence", "--scale-length"): ("m", "ft"),
+    ("turbulence", "--sigma-w"): ("m/s", "ft/s"), ("turbulence", "--scale-length-w"): ("m", "ft"),
+    ("report", "--sigma-v"): ("m/s", "ft/s"), ("report", "--scale-length"): ("m", "ft"),
+}
+SAME_IN_BOTH = {
+    ("respond", "--amplitude-deg"): "[deg]", ("respond", "--half-period"): "[s]",
+    ("respond", "--start"): "[s]", ("respond", "--duration"): "[s]", ("respond", "--dt"): "[s]",
+    ("respond", "--beta0-deg"): "[deg]", ("respond", "--phi0-deg"): "[deg]",
+    ("respond", "--p0-deg-s"): "[deg/s]", ("respond", "--r0-deg-s"): "[deg/s]",
+    ("steady", "--sideslip-deg"): "degrees", ("steady", "--bank-deg"): "degrees",
+    ("steady", "--roll-fraction"): "fraction", ("turbulence", "--duration"): "[s]",
+    ("turbulence", "--dt"): "[s]", ("turbulence", "--seed"): "seed",
+    ("uncertainty", "--samples"): "samples", ("uncertainty", "--seed"): "seed",
+    ("sensitivity", "--top"): "the N largest", ("assess", "--fail-below"): "Level",
+    ("compare", "--fail-below"): "Level",
+}
+#: Options whose values carry their own units (KEY=values typed in the file's units).
+KEYED = {("sweep", "--vary"): "file's units", ("uncertainty", "--vary"): "file units"}
+
+
+def test_every_numeric_option_states_its_unit():
+    """Audit of every command's options: each numeric one is classified above, a dimensional one's
+    help names its SI and US units, and the others name their unit (or what they count)."""
+    import argparse
+
+    from latdyn.cli import COMMANDS, _add_command
+
+    found = set()
+    for name, _ in COMMANDS:
+        parser = _add_command(argparse.ArgumentParser().add_subparsers(), name, "")
+        for action in parser._actions:
+            option = next((o for o in action.option_strings if o.startswith("--")), None)
+            if option is None:
+                continue
+            help_text = " ".join((action.help or "").split())
+            if action.type in (float, int):
+                found.add((name, option))
+                if (name, option) in DIMENSIONAL_OPTIONS:
+                    si, us = DIMENSIONAL_OPTIONS[name, option]
+                    assert f"[{si} in an SI file, {us} in a US file]" in help_text, (name, option)
+                else:
+                    assert (name, option) in SAME_IN_BOTH, f"unclassified numeric option {name} {option}"
+                    assert SAME_IN_BOTH[name, option] in help_text, (name, option, help_text)
+            elif (name, option) in KEYED:
+                assert KEYED[name, option] in help_text, (name, option, help_text)
+    assert found == {*DIMENSIONAL_OPTIONS, *SAME_IN_BOTH}

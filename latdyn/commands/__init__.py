@@ -15,6 +15,9 @@ Command-line conventions (every command follows them; see DEVELOPERS.md):
 * ``--units SI|US`` on every command that prints dimensional values: text,
   Markdown and CSV in that unit system, by default the one each aircraft
   file is written in (JSON stays SI);
+* a number with a dimension given as an option (``--vary``, ``--sigma-v``, ...) is read in
+  the unit system of the aircraft file (m or ft, m/s or ft/s; angles in degrees, times in
+  seconds in both), and its help says so (:func:`file_unit_help`);
 * ``-o/--output`` on every command that writes a file or folder (older
   option names stay as aliases);
 * bad input: one line on stderr and exit status 2; ``--fail-below LEVEL``
@@ -22,7 +25,8 @@ Command-line conventions (every command follows them; see DEVELOPERS.md):
 """
 
 __all__ = ["load_study_inputs", "notice_csv", "FORMATS", "add_format", "add_criteria",
-           "criteria_names", "add_fail_below", "report_below", "add_units", "display_units"]
+           "criteria_names", "add_fail_below", "report_below", "add_units", "display_units",
+           "file_unit_help", "option_to_si"]
 
 #: Output formats of the commands that print results.
 FORMATS = ("table", "markdown", "csv", "json")
@@ -59,6 +63,33 @@ def display_units(args, aircraft=None):
     from latdyn.display import unit_system
 
     return unit_system(getattr(args, "units", None), aircraft)
+
+
+def file_unit_help(dimension) -> str:
+    """The unit of an option read in the file's units, for its help: both systems.
+
+    Examples
+    --------
+    >>> file_unit_help("speed")
+    '[m/s in an SI file, ft/s in a US file]'
+    """
+    from latdyn.units import unit_word
+
+    return f"[{unit_word(dimension, 'SI')} in an SI file, {unit_word(dimension, 'US')} in a US file]"
+
+
+def option_to_si(value, dimension, units):
+    """An option's value, typed in the file's unit system ``units`` ("SI" or "US"), in SI (None
+    stays None).
+
+    Examples
+    --------
+    >>> option_to_si(10.0, "length", "US")
+    3.048
+    """
+    from latdyn.units import to_si
+
+    return None if value is None else float(to_si(value, dimension, units))
 
 
 def add_criteria(parser):

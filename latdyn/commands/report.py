@@ -33,11 +33,15 @@ def add_arguments(parser):
         parser.add_argument(f"--{key}", metavar="TEXT",
                             help=f"{words}, in the document block and the printed page headers")
     parser.add_argument("--force", action="store_true", help="replace an existing report folder")
+    from latdyn.commands import file_unit_help
+
     parser.add_argument("--sigma-v", type=float, metavar="S",
-                        help="RMS lateral gust velocity [m/s] for the turbulence tables of augmented conditions "
+                        help=f"RMS lateral gust velocity {file_unit_help('speed')}, in the first "
+                             "file's units, for the turbulence tables of augmented conditions "
                              "(with --scale-length)")
     parser.add_argument("--scale-length", type=float, metavar="L",
-                        help="lateral gust scale length L_v [m] (with --sigma-v)")
+                        help=f"lateral gust scale length L_v {file_unit_help('length')}, in the "
+                             "first file's units (with --sigma-v)")
     parser.add_argument("--progress", action="store_true", default=None,
                         help="show the progress line even when stderr is not a terminal")
 
@@ -60,7 +64,13 @@ def run(args):
         for value, option in ((args.sigma_v, "--sigma-v"), (args.scale_length, "--scale-length")):
             if not math.isfinite(value) or value <= 0:
                 raise InputError("command line", option, "a number > 0", repr(value))
-        gust = Gust(args.sigma_v, args.scale_length)
+        from latdyn.aircraft_file import read_tree
+        from latdyn.commands import option_to_si
+
+        # typed in the first file's units (as sweep --vary is), computed in SI
+        units = read_tree(args.files[0])["__units__"]
+        gust = Gust(option_to_si(args.sigma_v, "speed", units),
+                    option_to_si(args.scale_length, "length", units))
     from latdyn.report.document import merge_document, read_document
 
     document = merge_document(read_document(args.document) if args.document else None,

@@ -1,7 +1,7 @@
 """``latdyn turbulence FILE --sigma-v S --scale-length L [--condition NAME]
 [--format table|markdown|csv|json] [--units SI|US] [-o OUT] [--csv OUT --duration T --dt DT
---seed N]``: RMS response to Dryden lateral turbulence (the gust given in m/s and m, shown in the
-display units).
+--seed N]``: RMS response to Dryden lateral turbulence (the gust typed in the file's units, m/s
+and m or ft/s and ft, shown in the display units).
 
 All the work is done by latdyn.turbulence (and latdyn.augmentation for an augmented aircraft);
 this module checks the options, prints and writes.
@@ -19,15 +19,18 @@ _COMMAND_LINE = "command line"
 
 
 def add_arguments(parser):
+    from latdyn.commands import file_unit_help
+
+    speed, length = file_unit_help("speed"), file_unit_help("length")
     parser.add_argument("file", metavar="FILE", help="aircraft file (TOML)")
     parser.add_argument("--sigma-v", type=float, required=True, metavar="S",
-                        help="RMS lateral gust velocity sigma_v [m/s]")
+                        help=f"RMS lateral gust velocity sigma_v {speed}")
     parser.add_argument("--scale-length", type=float, required=True, metavar="L",
-                        help="lateral scale length L_v [m]")
+                        help=f"lateral scale length L_v {length}")
     parser.add_argument("--sigma-w", type=float, metavar="S",
-                        help="RMS vertical gust velocity for the roll-rate gust [m/s] (default sigma_v)")
+                        help=f"RMS vertical gust velocity for the roll-rate gust {speed} (default sigma_v)")
     parser.add_argument("--scale-length-w", type=float, metavar="L",
-                        help="vertical scale length for the roll-rate gust [m] (default L_v)")
+                        help=f"vertical scale length for the roll-rate gust {length} (default L_v)")
     parser.add_argument("--no-rotary", action="store_true", help="leave out the roll- and yaw-rate gusts")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     from latdyn.commands import add_format, add_units
@@ -80,7 +83,12 @@ def run(args):
         raise InputError(aircraft.file, "geometry.span", "a [geometry] span (the rotary gusts need it)",
                          "no [geometry] block")
     chosen = (aircraft.condition(args.condition),) if args.condition else aircraft.conditions
-    gust = Gust(args.sigma_v, args.scale_length, args.sigma_w, args.scale_length_w, not args.no_rotary)
+    from latdyn.commands import option_to_si
+
+    # the gust is typed in the file's units (as --vary is), computed in SI
+    gust = Gust(*(option_to_si(value, dimension, aircraft.units) for value, dimension in (
+        (args.sigma_v, "speed"), (args.scale_length, "length"), (args.sigma_w, "speed"),
+        (args.scale_length_w, "length"))), not args.no_rotary)
     span = aircraft.geometry.span
     entries, documents, primary = [], [], []
     for condition in chosen:
@@ -104,7 +112,7 @@ def run(args):
     written = []
     if args.csv:
         for path, result in zip(paths, primary):
-            _write_history(path, result, args)
+            _write_history(path, result, args, aircraft.units)
             written.append(path)
     if args.plot:
         from latdyn.plots import save_figure
@@ -130,11 +138,11 @@ def run(args):
             return f"{format_number(units.convert(value, quantity))} {units.label(quantity)}"
 
         lines = [f"{aircraft.name}  ({aircraft.file})",
-                 f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2): sigma_v {shown(args.sigma_v, 'speed')}, "
-                 f"L_v {shown(args.scale_length, 'length')}"
+                 f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2): sigma_v {shown(gust.sigma_v, 'speed')}, "
+                 f"L_v {shown(gust.scale_length, 'length')}"
                  + ("" if args.no_rotary else "; with roll- and yaw-rate gusts (forms from memory), "
-                    f"sigma_w {shown(gust.sigma_w or args.sigma_v, 'speed')}, "
-                    f"L_w {shown(gust.scale_length_w or args.scale_length, 'length')}"),
+                    f"sigma_w {shown(gust.sigma_w or gust.sigma_v, 'speed')}, "
+                    f"L_w {shown(gust.scale_length_w or gust.scale_length, 'length')}"),
                  "RMS from the stationary covariance (Lyapunov); a neutral or divergent mode (usually the "
                  "spiral) is left out and named: the pilot holds the bank against it.",
                  render(turbulence_table(entries), args.format)]
@@ -146,18 +154,20 @@ def run(args):
     return 0
 
 
-def _write_history(path, result, args):
+def _write_history(path, result, args, units):
+    """The seeded time history; its first line names the gust as typed (the file's ``units``)."""
     import numpy as np
 
     from latdyn.output_files import atomic_output
     from latdyn.turbulence import DEGREES, RMS_OUTPUTS, time_history
+    from latdyn.units import unit_word
 
     time, outputs = time_history(result.system, args.duration, args.dt, args.seed)
     names = {"beta": "beta_deg", "p": "p_deg_s", "r": "r_deg_s", "phi": "phi_deg", "ny": "ny_g"}
     factors = np.array([DEGREES[k] for k in RMS_OUTPUTS])
     with atomic_output(path, text=True) as handle:
-        handle.write(f"# seeded turbulence time history, seed {args.seed}, sigma_v {args.sigma_v:g} m/s, "
-                     f"L_v {args.scale_length:g} m\n")
+        handle.write(f"# seeded turbulence time history, seed {args.seed}, sigma_v {args.sigma_v:g} "
+                     f"{unit_word('speed', units)}, L_v {args.scale_length:g} {unit_word('length', units)}\n")
         handle.write("time," + ",".join(names[k] for k in RMS_OUTPUTS) + "\n")
         for t, row in zip(time, outputs * factors):
             handle.write(f"{t:.6g}," + ",".join(f"{v:.8g}" for v in row) + "\n")

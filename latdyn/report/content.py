@@ -449,7 +449,10 @@ def augmentation_section(data, units=DEFAULT) -> list:
         if entry.turbulence:
             gust = data.gust
             blocks += [Paragraph(f"Dryden lateral turbulence (MIL-F-8785C 3.7.1.2), sigma_v "
-                                 f"{format_number(gust.sigma_v)} m/s, L_v {format_number(gust.scale_length)} m "
+                                 f"{format_number(units.convert(gust.sigma_v, 'speed'))} "
+                                 f"{units.label('speed')}, L_v "
+                                 f"{format_number(units.convert(gust.scale_length, 'length'))} "
+                                 f"{units.label('length')} "
                                  "(given for this report, not taken from the document); rotary gusts in forms "
                                  "from memory. A neutral or divergent root is left out of the RMS."),
                        turbulence_table(entry.turbulence, f"{name}-turbulence")]
