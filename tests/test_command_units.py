@@ -67,6 +67,24 @@ COMMANDS = {
     "turbulence": (["turbulence", "{f}/kestrel-k40-tip-tanks-yaw-damper.toml", "--sigma-v", "{sigma}",
                     "--scale-length", "{length}"], True),
     "estimate": (["estimate", "{f}/heron-h2-geometry.toml"], True),
+    # issue 13 item 3: every text form of sweep, sensitivity and uncertainty
+    "sweep-markdown": (["sweep", "{f}/kestrel-k40.toml", "--condition", "cruise", "--vary", "{speed}",
+                        "--format", "markdown"], True),
+    "sweep-two-parameters": (["sweep", "{f}/kestrel-k40.toml", "--condition", "cruise", "--vary", "{speed}",
+                              "--vary", "{izz}"], True),
+    "sweep-summary": (["sweep", "{f}/kestrel-k40.toml", "--condition", "cruise", "--vary", "{speed}",
+                       "--vary", "{izz_fine}"], True),
+    "sensitivity-markdown": (["sensitivity", "{f}/kestrel-k40.toml", "--condition", "approach", "--format",
+                              "markdown"], True),
+    "sensitivity-csv": (["sensitivity", "{f}/kestrel-k40.toml", "--condition", "cruise", "--format",
+                         "csv"], True),
+    "uncertainty": (["uncertainty", "{f}/kestrel-k40.toml", "--condition", "cruise", "--samples", "400",
+                     "--seed", "3", "--vary", "Cn_r=+-20%", "--vary", "Ixx={ixx},uniform"], True),
+    "uncertainty-markdown": (["uncertainty", "{f}/kestrel-k40.toml", "--condition", "cruise", "--samples",
+                              "400", "--seed", "3", "--vary", "mass={mass}", "--format", "markdown"], True),
+    "uncertainty-csv": (["uncertainty", "{f}/kestrel-k40.toml", "--condition", "cruise", "--samples", "400",
+                         "--seed", "3", "--vary", "Izz=+-5%", "--vary", "mass={mass}", "--format", "csv"],
+                        True),
     "identify": (["identify", "{f}/kestrel-k40.toml", "--condition", "cruise", "--method", "equation-error",
                   "--data", str(AIRCRAFT / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv"),
                   "--data", str(AIRCRAFT / "flight-test" / "kestrel-k40-cruise-aileron-3211.csv")], True),
@@ -77,9 +95,14 @@ def typed(words, folder):
     """Arguments for folder "si" or "us": dimensional option values typed in that file's units
     (50 to 130 m/s is 164.04 to 426.51 ft/s; NIST SP 811 (2008) B.8: 1 ft = 0.3048 m)."""
     size = 1.0 if folder == "si" else FOOT
+    inertia = 1.0 if folder == "si" else SLUG * FOOT**2
     speed = f"speed={50 / size!r}:{130 / size!r}:5"
-    return [a.format(f=folder, speed=speed, sigma=repr(3.0 / size), length=repr(533.0 / size))
-            for a in words]
+    izz = f"Izz={40000 / inertia!r}:{100000 / inertia!r}:3"
+    izz_fine = f"Izz={40000 / inertia!r}:{100000 / inertia!r}:101"    # 505 points: the summary
+    ixx = f"+-{3000 / inertia!r}"
+    mass = f"+-{300 / (1.0 if folder == 'si' else SLUG)!r}"
+    return [a.format(f=folder, speed=speed, sigma=repr(3.0 / size), length=repr(533.0 / size), izz=izz,
+                     izz_fine=izz_fine, ixx=ixx, mass=mass) for a in words]
 
 
 def arguments(command, folder):

@@ -78,7 +78,7 @@ def run(args):
                 lines.append("Level-boundary crossings (root-found on the margin):")
                 if markdown:
                     lines.append("")
-                lines += [bullet + c.words(units.get(c.parameter, "")) for c in shown.crossings]
+                lines += [bullet + c.words(units.get(c.parameter, ""), units) for c in shown.crossings]
             else:
                 lines.append("No level-boundary crossing in the swept range.")
             lines += [f"note: {note}" for note in result.notes]

@@ -1,6 +1,7 @@
 """``latdyn uncertainty FILE [--samples N] [--seed N] [--vary KEY=±AMOUNT[,normal|,uniform]]...
-[--condition NAME] [--criteria SET]... [--format table|markdown|csv|json] [-o OUT]``:
-Monte Carlo level probabilities and percentiles of the mode figures.
+[--condition NAME] [--criteria SET]... [--format table|markdown|csv|json] [--units SI|US] [-o OUT]``:
+Monte Carlo level probabilities and percentiles of the mode figures; the uncertainties sampled in
+the display units.
 """
 
 from __future__ import annotations
@@ -13,7 +14,7 @@ __all__ = ["add_arguments", "run"]
 
 
 def add_arguments(parser):
-    from latdyn.commands import add_criteria, add_format
+    from latdyn.commands import add_criteria, add_format, add_units
 
     parser.add_argument("file", metavar="FILE", help="aircraft file (TOML)")
     parser.add_argument("--samples", type=int, default=100_000, metavar="N",
@@ -33,6 +34,7 @@ def add_arguments(parser):
                              "microseconds a sample")
     add_criteria(parser)
     add_format(parser)
+    add_units(parser, "those of the file")
     parser.add_argument("-o", "--output", "--plot", dest="plot", metavar="OUT",
                         help="write the samples on the Dutch roll damping-frequency chart to OUT "
                              "(--plot is the older name)")
@@ -40,9 +42,9 @@ def add_arguments(parser):
 
 def run(args):
     from latdyn.assessment import NOTICE
-    from latdyn.commands import load_study_inputs, notice_csv
+    from latdyn.commands import display_units, load_study_inputs, notice_csv
     from latdyn.report.render import escape_markdown, render
-    from latdyn.report.tables import uncertainty_tables
+    from latdyn.report.tables import uncertainty_inputs_table, uncertainty_tables
     from latdyn.studies.uncertainty import parse_uncertainty, uncertainty, uncertainty_document
 
     aircraft, criteria = load_study_inputs(args)
@@ -53,6 +55,7 @@ def run(args):
         text = json.dumps(uncertainty_document(result), indent=2, allow_nan=False) + "\n"
     else:
         levels, figures = uncertainty_tables(result)
+        inputs = uncertainty_inputs_table(result, display_units(args, aircraft).name)
         style = args.format
         markdown = style == "markdown"
         notice = {"csv": notice_csv(), "markdown": f"> {escape_markdown(NOTICE)}\n"}.get(
@@ -66,7 +69,10 @@ def run(args):
                                                   in (item.excluded_rules or {}).items()) + ")"
               for item in result.conditions if item.excluded], *result.notes]
         separator = "\n\n" if markdown else "\n"
-        text = separator.join([*head, render(levels, style), render(figures, style), notice])
+        # the CSV blocks keep their order (the inputs added last); text and Markdown say first
+        # what was varied
+        tables = [levels, figures, inputs] if style == "csv" else [inputs, levels, figures]
+        text = separator.join([*head, *(render(table, style) for table in tables), notice])
     if args.plot:
         from latdyn.assessment import assess
         from latdyn.plots import save_both

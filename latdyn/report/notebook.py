@@ -107,7 +107,7 @@ def sweep_html(result) -> str:
     from latdyn.report.tables import sweep_table
 
     units = {axis.key.text: axis.key.unit for axis in result.axes}
-    crossings = [html.escape(c.words(units.get(c.parameter, ""))) for c in result.crossings]
+    crossings = [html.escape(c.words(units.get(c.parameter, ""), units)) for c in result.crossings]
     parts = [_notice(), _line(result.aircraft.name), _table(sweep_table(result))]
     parts.append("<p>Level-boundary crossings (root-found on the margin):</p><ul>"
                  + "".join(f"<li>{c}</li>" for c in crossings) + "</ul>" if crossings

@@ -26,7 +26,7 @@ __all__ = [
     "mode_status", "mode_table", "shape_table", "flight_condition_table", "mass_table",
     "given_table", "assessment_table", "assessment_sources",
     "summary_table", "comparison_tables", "readout_table", "transfer_table", "provenance_tables",
-    "sweep_table", "sensitivity_table", "uncertainty_tables", "parameter_label", "value_reason",
+    "sweep_table", "sensitivity_table", "uncertainty_tables", "uncertainty_inputs_table", "parameter_label", "value_reason",
     "turbulence_table", "equivalent_table", "roll_response_table", "FIGURE_LABELS", "buildup_table", "buildup_caption",
     "steady_table", "check_label", "STEADY_PARTS",
 ]
@@ -794,17 +794,13 @@ def sensitivity_table(results, top=0, name="sensitivity", units="SI") -> Table:
     boundaries (:data:`latdyn.studies.sensitivity.BETTER`).
     """
     from latdyn import units as unit_factors
-    from latdyn.studies.keys import parameter_dimension
 
     rows = []
     for result in results:
         for figure in dict.fromkeys(s.figure for s in result.items):
             ranked = result.for_figure(figure)
             for rank, item in enumerate(ranked[:top] if top > 0 else ranked, start=1):
-                dimension = parameter_dimension(item.parameter)
-                word = _parameter_unit(item.parameter, dimension, units)
-                if dimension not in unit_factors.DIMENSION_FACTORS:
-                    dimension = "none"
+                dimension, word = _parameter_dimension_unit(item.parameter, units)
                 per_unit = unit_factors.to_si(1.0, dimension, units)
                 better = item.improves_when
                 rows.append({"condition": result.condition.name,
@@ -824,6 +820,43 @@ def sensitivity_table(results, top=0, name="sensitivity", units="SI") -> Table:
     return Table(name, "Normalised sensitivities, in the parameters' own units; the last column "
                        "says which change moves the figure away from the level boundaries",
                  columns, tuple(rows))
+
+
+def _parameter_dimension_unit(parameter, units) -> tuple:
+    """(dimension for the unit factors, printed unit) of a study parameter in "SI" or "US"."""
+    from latdyn import units as unit_factors
+    from latdyn.studies.keys import parameter_dimension
+
+    dimension = parameter_dimension(parameter)
+    word = _parameter_unit(parameter, dimension, units)
+    return (dimension if dimension in unit_factors.DIMENSION_FACTORS else "none"), word
+
+
+def uncertainty_inputs_table(result, units="SI", name="uncertainty-inputs") -> Table:
+    """What a Monte Carlo run varied: per condition and parameter, its nominal value and spread (one
+    standard deviation of a normal distribution or the half-width of a uniform one) in the
+    parameter's own units ("SI" or "US"), and the spread as a percentage of the nominal value."""
+    from latdyn import units as unit_factors
+    from latdyn.studies.batch import nominal_value
+
+    rows = []
+    for item in result.conditions:
+        for uncertainty in item.uncertainties:
+            dimension, word = _parameter_dimension_unit(uncertainty.key, units)
+            nominal = nominal_value(result.aircraft, item.condition, uncertainty.key)
+            spread = (uncertainty.amount * abs(nominal) if uncertainty.kind == "relative"
+                      else uncertainty.amount)
+            rows.append({"condition": item.condition.name, "parameter": uncertainty.key, "unit": word,
+                         "nominal": unit_factors.from_si(nominal, dimension, units),
+                         "spread": unit_factors.from_si(spread, dimension, units),
+                         "relative": 100 * spread / abs(nominal) if nominal else None,
+                         "distribution": "normal (1 sigma)" if uncertainty.distribution == "normal"
+                         else "uniform (half-width)"})
+    columns = (Column("condition", "Condition"), Column("parameter", "Parameter"), Column("unit", "Unit"),
+               Column("nominal", "Nominal"), Column("spread", "Spread"),
+               Column("relative", "Spread", "% of nominal", digits=3),
+               Column("distribution", "Distribution"))
+    return Table(name, "The uncertainties sampled, in the parameters' own units", columns, tuple(rows))
 
 
 def uncertainty_tables(result) -> tuple:

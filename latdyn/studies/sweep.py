@@ -117,10 +117,16 @@ class Crossing:
             out["at"] = self.at
         return out
 
-    def words(self, unit="") -> str:
-        """One line: 'dutch roll meets level 1 at Cn_beta >= 0.0831'."""
+    def words(self, unit="", at_units=None) -> str:
+        """One line: 'dutch roll meets level 1 at Cn_beta >= 0.0831'.
+
+        ``unit`` is the unit word of ``value``, ``at_units`` {key: unit word} those of ``at``.
+        """
         sign = ">=" if self.inside == "above" else "<="
-        where = "" if not self.at else " (" + ", ".join(f"{k} = {v:.6g}" for k, v in self.at.items()) + ")"
+        at_units = at_units or {}
+        where = "" if not self.at else " (" + ", ".join(
+            f"{k} = {v:.6g}" + (f" {at_units[k]}" if at_units.get(k) else "")
+            for k, v in self.at.items()) + ")"
         return (f"{self.condition}: {self.mode.replace('_', ' ')} within {self.boundary} of "
                 f"{self.criteria} at {self.parameter} {sign} {self.value:.6g}"
                 f"{' ' + unit if unit else ''}{where}")
