@@ -275,7 +275,8 @@ def test_notebook_html_uses_the_report_tables():
     assert notice in page and page.count("<tr") == 1 + 30 and "10 more rows of 40" in page
     assert "fin.area_ratio &gt;= 0.435" in page  # the root-found crossing, as the CLI words it
     drawn = latdyn.uncertainty(aircraft, samples=50, seed=2, condition="approach")
-    assert notice in drawn._repr_html_() and drawn._repr_html_().count("<table>") == 2
+    assert notice in drawn._repr_html_() and drawn._repr_html_().count("<table>") == 3  # what was sampled too
+    assert "Nominal" in drawn._repr_html_()
 
 
 def test_notebook_html_of_a_response_does_not_warn():

@@ -116,9 +116,11 @@ def sweep_html(result) -> str:
 
 
 def uncertainty_html(result) -> str:
-    """An :class:`~latdyn.studies.uncertainty.UncertaintyResult`: the notice and both tables."""
-    from latdyn.report.tables import uncertainty_tables
+    """An :class:`~latdyn.studies.uncertainty.UncertaintyResult`: the notice, the uncertainties
+    sampled (in the file's units) and the result tables."""
+    from latdyn.report.tables import uncertainty_inputs_table, uncertainty_tables
 
     levels, figures = uncertainty_tables(result)
+    inputs = uncertainty_inputs_table(result, result.aircraft.units)
     return _join(_notice(), _line(f"{result.aircraft.name}: {result.samples} samples per condition, "
-                                  f"seed {result.seed}"), _table(levels), _table(figures))
+                                  f"seed {result.seed}"), _table(inputs), _table(levels), _table(figures))
