@@ -25,7 +25,8 @@ def add_arguments(parser):
                              "fin.arm_ratio, controls.aileron_deg, controls.rudder_deg, "
                              "controls.aileron_rate_deg_s, controls.rudder_rate_deg_s, "
                              "engine.NAME.thrust, engine.NAME.lateral_position, "
-                             "engine.NAME.failed_drag; values in the file's units and degrees")
+                             "engine.NAME.failed_drag; values in the file's units (m, kg, kg m^2, m/s, N in "
+                             "an SI file; ft, slug, slug ft^2, ft/s, lbf in a US file) and degrees")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
     parser.add_argument("--roll-performance", action="store_true",
                         help="grade roll performance at every point and root-find its level "

@@ -24,7 +24,8 @@ def add_arguments(parser):
     parser.add_argument("--vary", action="append", default=[],
                         metavar="KEY=±AMOUNT[,uniform]",
                         help="uncertainty of a derivative or mass property, one per option: "
-                             "KEY=±20%% (relative) or KEY=±0.01 (absolute, file units; +- for ±), "
+                             "KEY=±20%% (relative) or KEY=±0.01 (absolute, file units: kg, kg m^2, m/s in an "
+                             "SI file, slug, slug ft^2, ft/s in a US file; +- for ±), "
                              "normal (1 sigma, default) or ,uniform (half-width) after a comma; "
                              "adds to or replaces the file's [uncertainty] tables")
     parser.add_argument("--condition", metavar="NAME", help="only this flight condition")
