@@ -16,7 +16,7 @@ import numpy as np
 import pytest
 
 from latdyn.cli import main
-from us_units import FOOT, SLUG, agree_after_conversion, agree_csv, us_file
+from us_units import FOOT, SLUG, agree_after_conversion, agree_csv, si_unit_words, us_file
 
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 AIRCRAFT = ROOT / "aircraft"
@@ -118,6 +118,7 @@ def test_us_file_agrees_with_the_si_file_after_conversion(command, files, capsys
     checked = agree(si.replace("si/", "us/"), us)
     if COMMANDS[command][1]:
         assert checked > 0, "no value in US units"
+    assert not si_unit_words(us), f"SI units left in the US output: {si_unit_words(us)}"
     # --units SI on the US file gives the SI file's output
     forced = output(capsys, monkeypatch, files, arguments(command, "us") + ["--units", "SI"])
     agree(si.replace("si/", "us/"), forced)

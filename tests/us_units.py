@@ -18,7 +18,7 @@ import tomllib
 
 from latdyn.aircraft_file import LIST_TABLES, SCHEMA
 
-__all__ = ["FOOT", "SLUG", "POUND_FORCE", "US_TO_SI", "us_file", "agree_after_conversion"]
+__all__ = ["FOOT", "SLUG", "POUND_FORCE", "US_TO_SI", "us_file", "agree_after_conversion", "si_unit_words"]
 
 FOOT = 0.3048                                 # m, NIST SP 811 B.8
 POUND_MASS = 0.45359237                       # kg, NIST SP 811 B.8
@@ -245,6 +245,17 @@ def _compare_row(si_cells, us_cells, units, unit_column, rel, convert):
         unit = f"per {row_unit}" if units[k] == "per parameter unit" else (units[k] or row_unit)
         checked += _compare_line(a, b, unit if alone else None, rel, convert)
     return checked
+
+
+def si_unit_words(text):
+    """The SI unit words (those ``US_TO_SI`` converts to) a text writes after a number or on their
+    own: none may be left in an output in US units.
+
+    >>> si_unit_words("V_MC 161.2 ft/s (49.1 m/s), 95.5 kt")
+    ['m/s']
+    """
+    si_words = {si for si, _ in US_TO_SI.values()}
+    return sorted({m.group(3) or m.group(4) for m in _TOKEN.finditer(text)} & si_words)
 
 
 def agree_csv(si_text, us_text, rel=1e-9, convert=True):
