@@ -566,9 +566,15 @@ def sized_amplitude(models, unit, limits=None, largest=5.0) -> float:
     >>> round(math.degrees(sized_amplitude([model], make_input("rudder-step", time, math.radians(1.0), 1.0, 1.0))), 6)
     4.0
     """
+    return _sized(models, unit, limits, largest)[0]
+
+
+def _sized(models, unit, limits=None, largest=5.0):
+    """(:func:`sized_amplitude` [rad], whether every signal stays within its limit at that amplitude)."""
     ratios = _limit_ratios(models, unit, limits)
     worst = max((float(r.max()) for r in ratios.values()), default=0.0)
-    return math.radians(_half_degrees(worst, largest))
+    degrees = _half_degrees(worst, largest)
+    return math.radians(degrees), worst * degrees <= 1.0 + 1e-12
 
 
 def _limit_ratios(models, unit, limits=None) -> dict:
@@ -617,16 +623,22 @@ def size_run(models, kinds, settings, limits=None):
     sized : bool
         The amplitude was sized.
     """
+    sized, done, _ = _size_run(models, kinds, settings, limits)
+    return sized, done
+
+
+def _size_run(models, kinds, settings, limits):
+    """:func:`size_run`'s (settings, sized), and whether the bounds are kept at the amplitude found."""
     from dataclasses import replace
 
     from latdyn.inputs import TRANSIENT_KINDS, run_inputs
 
     named = [kind for kind in kinds if kind in TRANSIENT_KINDS]
     if not named or len(named) != len([k for k in kinds if not k.lower().endswith(".csv") and k != "none"]):
-        return settings, False
+        return settings, False, True
     unit = run_inputs(named, (), replace(settings, amplitude=math.radians(1.0)))
-    amplitude = sized_amplitude(models, unit, limits, largest=math.degrees(settings.amplitude))
-    return replace(settings, amplitude=amplitude), True
+    amplitude, within = _sized(models, unit, limits, largest=math.degrees(settings.amplitude))
+    return replace(settings, amplitude=amplitude), True, within
 
 
 #: Roll-mode time constants and Dutch roll periods a step run shows at least after the input
@@ -694,6 +706,9 @@ class RunSizing:
         the run ends at the window or at the default run length.
     limits : dict
         Signal -> the bound it was sized to [rad].
+    within : bool
+        Every signal of ``limits`` stays within its bound over the run at the
+        sized amplitude (False: even the smallest amplitude, 0.5 deg, passes one).
     """
 
     amplitude_sized: bool
@@ -701,6 +716,7 @@ class RunSizing:
     window: float | None = None
     limited_by: str | None = None
     limits: dict = None
+    within: bool = True
 
     def words(self, settings, names=None) -> dict:
         """How the defaults were chosen, in words (for the command line and the report).
@@ -732,9 +748,12 @@ class RunSizing:
             sentences["duration"] = (f"run length {settings.duration:g} s, sized to the bank change: a step run "
                                      f"ends before {passes}, but not before the roll mode has settled and one "
                                      f"Dutch roll period has passed (by {self.window:g} s); this one {ended}")
-        if self.amplitude_sized:
+        if self.amplitude_sized and self.within:
             sentences["amplitude"] = (f"amplitude {math.degrees(settings.amplitude):g} deg, sized to keep "
                                       f"{bounds} over the run in every case shown")
+        elif self.amplitude_sized:
+            sentences["amplitude"] = (f"amplitude {math.degrees(settings.amplitude):g} deg, the smallest the "
+                                      f"sizing gives; even so {passes} over the run")
         return sentences
 
 
@@ -801,10 +820,11 @@ def size_step_run(models, modes, kinds, settings, amplitude_given=False, duratio
         shortest = max(settings.start + max(step_window(m) for m in modes), unit.end_time)
         window = min(settings.duration, quantum * math.ceil(shortest / quantum - 1e-9))
         horizon = window
-    amplitude = settings.amplitude
+    amplitude, within = settings.amplitude, True
     if not amplitude_given:
         peak = float(worst[time <= horizon * (1 + 1e-12)][-1])
-        amplitude = math.radians(_half_degrees(peak, math.degrees(settings.amplitude)))
+        degrees = _half_degrees(peak, math.degrees(settings.amplitude))
+        amplitude, within = math.radians(degrees), peak * degrees <= 1.0 + 1e-12
     duration, limited_by = settings.duration, None
     if not duration_given:
         scale = math.degrees(amplitude)
@@ -815,7 +835,7 @@ def size_step_run(models, modes, kinds, settings, amplitude_given=False, duratio
             duration = max(window, last)
             if duration < settings.duration:
                 limited_by = max(running, key=lambda name: running[name][first]) if last >= window else None
-    sizing = RunSizing(not amplitude_given, not duration_given, window, limited_by, limits)
+    sizing = RunSizing(not amplitude_given, not duration_given, window, limited_by, limits, within)
     return replace(settings, amplitude=amplitude, duration=duration), sizing
 
 
@@ -839,10 +859,10 @@ def size_defaults(models, modes, kinds, settings, amplitude_given=False, duratio
     limits = STANDARD_LIMITS if limits is None else dict(limits)
     if any(kind in HELD_KINDS for kind in kinds):
         return size_step_run(models, modes, kinds, settings, amplitude_given, duration_given, limits)
-    sized = False
+    sized, within = False, True
     if not amplitude_given:
-        settings, sized = size_run(models, kinds, settings, limits)
-    return settings, RunSizing(sized, False, limits=limits)
+        settings, sized, within = _size_run(models, kinds, settings, limits)
+    return settings, RunSizing(sized, False, limits=limits, within=within)
 
 
 @dataclass(frozen=True)

@@ -611,3 +611,17 @@ def test_sized_step_run_matches_python_control_step_response(name, model, kind):
     assert got.shape == reference.shape
     assert np.abs(got - reference).max() <= 1e-9 * np.abs(reference).max()
     assert np.abs(response.outputs[~after]).max(initial=0.0) == 0.0
+
+
+def test_the_words_say_when_even_the_smallest_amplitude_passes_a_bound():
+    """A step held over a long given run (the demo climb's divergent spiral, 90 s) passes 30 deg of bank
+    even at the 0.5 deg floor: the sizing says so instead of claiming the bounds are kept; a run that
+    fits says it keeps them (checked by simulating both)."""
+    (_, model) = next((n, m) for n, m in TWIN if n.endswith("climb"))
+    settings, sized, sizing, _ = _sized_step([model], "aileron-step", duration_given=True, duration=90.0)
+    assert sized.amplitude == pytest.approx(math.radians(0.5)) and not sizing.within
+    assert _worst([model], "aileron-step", sized) > 1.0
+    assert "even so" in sizing.words(sized)["amplitude"]
+    settings, sized, sizing, _ = _sized_step([model], "aileron-step")
+    assert sizing.within and _worst([model], "aileron-step", sized) <= 1 + 1e-9
+    assert "sized to keep" in sizing.words(sized)["amplitude"]

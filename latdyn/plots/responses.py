@@ -183,8 +183,9 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
             peak = readout.peak(name) if name in response.output_names else None
             if peak is not None and peak.value != 0:
                 shown = peak.value * _factor(name)
+                # drawn whole where the peak is the last sample (a step run ends at its largest bank)
                 axis.plot([peak.time], [shown], marker="v" if shown > 0 else "^", color=colour,
-                          markersize=5, zorder=4)
+                          markersize=5, zorder=4, clip_on=False)
                 at_end = readout.at_end(peak)
                 if single and not (at_end and name == "phi"):  # the bank at the end has its own words
                     words = (f"largest {_fmt(shown)} {unit}, at the end of the run (still changing)" if at_end
