@@ -276,6 +276,21 @@ def test_report_roll_spiral_figure_carries_the_variants(report):
                for s in specs)
 
 
+def test_report_step_caption_says_how_the_run_was_sized(report):
+    """The aileron-step caption gives the run length and its rule (latdyn.responses.size_step_run) and,
+    in a comparison, that the sizing is the base's (the variants fly the same input and may pass it)."""
+    from latdyn.report.blocks import Figure
+    from latdyn.report.content import report_content
+
+    steps = [b for b in report_content(report).blocks if isinstance(b, Figure) and b.kind == "time_history"
+             and b.name.endswith("aileron-step")]
+    assert steps
+    for spec in steps:
+        duration = spec.arguments["responses"][0].time[-1]
+        assert f"Run length {duration:g} s, sized to the bank change" in spec.caption
+        assert "sized on the base to stay within" in spec.caption and "may pass those bounds" in spec.caption
+
+
 def _figures(report, cruise):
     base = report.aircraft[0].assessment
     single = replace(base, conditions=(cruise.assessment,))

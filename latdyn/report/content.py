@@ -311,9 +311,11 @@ def condition_section(item, data, units=DEFAULT) -> list:
                               for s, word in (("beta", "sideslip"), ("phi", "bank")) if s in standard.limits)
         blocks.append(Figure(f"{name}-{standard.kind}",
                              f"Response to {article} {standard.kind.replace('-', ' ')} "
-                             f"({standard.response.description}), sized to stay within {limits}."
+                             f"({standard.response.description}), sized "
+                             + ("on the base " if others else "") + f"to stay within {limits}."
                              + _run_length_words(standard)
-                             + (" The variants fly the same input." + overlaid if others else ""),
+                             + (" The variants fly the same input (they may pass those bounds)." + overlaid
+                                if others else ""),
                              "time_history", {"responses": [standard.response] + [v.responses[number].response
                                                                                  for v in others],
                                               "readouts": [standard.readouts] + [v.responses[number].readouts
