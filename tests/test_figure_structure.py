@@ -388,3 +388,13 @@ def test_every_figure_of_the_comparison_report_keeps_its_text_inside_and_apart(r
     assert {"dutch_roll", "time_history", "roll_performance"} <= {s.kind for s in specs}
     problems = {spec.name: layout_problems(draw(spec)) for spec in specs}
     assert {name: found for name, found in problems.items() if found} == {}
+
+
+def test_engine_out_speeds_are_typeset(report, cruise):
+    """The minimum control speed and the civil limits read V_MC, 1.2 V_S1, 1.13 V_SR typeset
+    (14 CFR 23.149(b), 25.149(c) symbols), never the ASCII 'V_MC'."""
+    figure = _other_figures(report, cruise)["steady"]()
+    texts = [t.get_text() for a in figure.axes for t in a.texts]
+    assert any(t.startswith(SYMBOLS["V_MC"]) for t in texts)
+    assert any(f"1.2 {SYMBOLS['V_S1']}" in t for t in texts)
+    assert not any(word in t for t in texts for word in ("V_MC ", "V_S1 ", "V_SR "))

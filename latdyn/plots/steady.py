@@ -108,7 +108,7 @@ def engine_out_axes(ax, result, travel=(None, None), altitude=None):
         if case.minimum_control_speed is not None:
             v = float(convert(case.minimum_control_speed)) / _KNOT
             ax.axvline(v, color=_TEXT, linestyle=style, linewidth=0.9)
-            ax.annotate(f"V_MC {v:.0f} kt ({bank}, {case.limited_by})", (v, 0.02),
+            ax.annotate(f"{SYMBOLS['V_MC']} {v:.0f} kt ({bank}, {plain(case.limited_by)})", (v, 0.02),
                         xycoords=("data", "axes fraction"), rotation=90, ha="right", va="bottom",
                         fontsize=7, color=_TEXT)
     markers = [float(convert(c.minimum_control_speed)) / _KNOT for c in (e.wings_level, e.banked)
@@ -117,7 +117,8 @@ def engine_out_axes(ax, result, travel=(None, None), altitude=None):
         v = value / _KNOT
         markers.append(v)
         ax.axvline(v, color=_MUTED, linewidth=0.9, linestyle=(0, (1, 1.5)))
-        ax.annotate(f"{'1.2 V_S1' if '23' in rule else '1.13 V_SR'} ({rule})", (v, 0.98),
+        speed = f"1.2 {SYMBOLS['V_S1']}" if "23" in rule else f"1.13 {SYMBOLS['V_SR']}"
+        ax.annotate(f"{speed} ({plain(rule)})", (v, 0.98),
                     xycoords=("data", "axes fraction"), rotation=90, ha="left" if number else "right",
                     va="top", fontsize=7, color=_MUTED)
     _travel_lines(ax, rudder_max, _RUDDER, "rudder")

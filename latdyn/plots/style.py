@@ -62,6 +62,7 @@ SYMBOLS = {
     "phi_beta": r"$|\phi/\beta|_d$", "omega2_phi_beta": r"$\omega_{nd}^2\,|\phi/\beta|_d$",
     "zeta_omega": r"$\zeta_d\,\omega_{nd}$", "sigma_v": r"$\sigma_v$", "L_v": r"$L_v$",
     "P": r"$P$", "delta_phi": r"$\Delta\phi$", "delta_a": r"$\delta_a$", "delta_r": r"$\delta_r$",
+    "V_MC": r"$V_{MC}$", "V_S1": r"$V_{S1}$", "V_SR": r"$V_{SR}$",
 }
 #: Type sizes [pt].
 TITLE_SIZE, LABEL_SIZE, TICK_SIZE, NOTE_SIZE = 10.5, 8.5, 8, 7
