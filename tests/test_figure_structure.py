@@ -107,6 +107,10 @@ def test_response_overlay_flies_the_same_input_in_each_configurations_colour(cru
     assert [to_hex(line.get_color()) for line in traces] == [case_colour(i) for i in range(3)]
     assert set(labels) <= set(_legend_texts(figure))
     assert SYMBOLS["beta"] in beta_axis.get_ylabel()
+    # the key of the cases lies outside the panels, not over the traces (with several cases
+    # no corner of the sideslip panel is free)
+    assert all(axis.get_legend() is None for axis in figure.axes[1:])
+    assert set(labels) <= {t.get_text() for legend in figure.legends for t in legend.get_texts()}
 
 
 def test_overlay_table_keeps_the_part_of_each_name_that_differs(report, cruise):

@@ -213,7 +213,10 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
         if single and any(r.dutch_roll is not None and r.dutch_roll.signal == name for r in readouts):
             axis.legend(loc="upper right", fontsize=7.5, frameon=False)
         if not single and k == 0:
-            axis.legend(loc="best", fontsize=7.5, frameon=False)
+            # under the read-out table, not over the traces (no free corner once several cases overlap)
+            handles, names = axis.get_legend_handles_labels()
+            figure.legend(handles, names, loc="outside lower center", ncol=2, fontsize=7.5,
+                          frameon=False)
         if k < len(signals) - 1:
             axis.tick_params(labelbottom=False)
     top.tick_params(labelbottom=False)
