@@ -19,13 +19,15 @@ from __future__ import annotations
 import contextlib
 import errno
 import os
+import shutil
 import signal
+import stat
 import tempfile
 import threading
 
 from latdyn.errors import InputError
 
-__all__ = ["atomic_output", "atomic_path", "check_output_file", "check_output_folder", "check_outputs",
+__all__ = ["all_or_nothing", "writing_directly", "atomic_output", "atomic_path", "check_output_file", "check_output_folder", "check_outputs",
            "write_error", "Interrupted", "interruptible", "deferred_interrupts"]
 
 
@@ -41,6 +43,32 @@ def write_error(path, error, expected="an output file that can be written") -> I
     words = words[:1].lower() + words[1:]
     code = errno.errorcode.get(error.errno) if error.errno else None
     return InputError(path, None, expected, f"{words} ({code})" if code else words)
+
+
+#: What a path that is not a regular file or a folder is, for the message (``stat.S_IFMT``).
+_SPECIAL = {stat.S_IFCHR: "a character device", stat.S_IFBLK: "a block device", stat.S_IFIFO: "a named pipe (FIFO)",
+            stat.S_IFSOCK: "a socket"}
+
+
+def _refuse_special(path, option=None):
+    """Refuse an output path that exists and is a device, a named pipe or a socket.
+
+    The atomic rename would replace the device itself (``/dev/null`` by a
+    regular file, when run as root) rather than write into it.
+
+    >>> _refuse_special("/dev/null", "--csv")
+    Traceback (most recent call last):
+    ...
+    latdyn.errors.InputError: /dev/null: expected an output that is a regular file or a new one (--csv), found a character device
+    """
+    try:
+        mode = os.stat(path).st_mode
+    except (OSError, ValueError):
+        return
+    kind = _SPECIAL.get(stat.S_IFMT(mode))
+    if kind:
+        raise InputError(path, None, "an output that is a regular file or a new one"
+                         + (f" ({option})" if option else ""), kind)
 
 
 def check_outputs(outputs, inputs=None) -> None:
@@ -107,6 +135,7 @@ def atomic_path(path, option=None):
         file system).
     """
     path = os.fspath(path)
+    _refuse_special(path, option)
     check_outputs([(path, option)])
     folder = os.path.dirname(os.path.abspath(path))
     base, suffix = os.path.splitext(os.path.basename(path))
@@ -123,14 +152,80 @@ def atomic_path(path, option=None):
             yield temporary
         except OSError as error:  # a full disk, a read-only file system, an I/O error
             raise write_error(path, error) from None
-        try:
-            os.replace(temporary, path)
-        except OSError as error:  # the destination is a folder, or became unwritable
-            raise write_error(path, error, "an output file that can be replaced") from None
+        if _GROUP["files"] is not None:  # put in place with the others of the run (all_or_nothing)
+            _GROUP["files"].append((temporary, path))
+            return
+        _put_in_place(temporary, path)
     except BaseException:
         with contextlib.suppress(OSError):
             os.remove(temporary)
         raise
+
+
+def _put_in_place(temporary, path):
+    try:
+        os.replace(temporary, path)
+    except OSError as error:  # the destination is a folder, or became unwritable
+        raise write_error(path, error, "an output file that can be replaced") from None
+
+
+#: The files written inside :func:`all_or_nothing`, (temporary, destination), waiting to be put in place.
+_GROUP = {"files": None}
+
+
+@contextlib.contextmanager
+def all_or_nothing():
+    """Put the files written inside the block in place together when it ends, or none of them.
+
+    A command that writes several files (a CSV and a figure, a figure in two
+    formats, a chart per criteria set) leaves none of them when a later one
+    fails (a full disk half-way) or the run is interrupted: each file is
+    written to its temporary (:func:`atomic_path`) and the renames wait
+    until the block ends.  Nested blocks join the outermost one; a report
+    folder, put in place by its own rename, writes inside it directly
+    (:func:`writing_directly`).
+
+    Examples
+    --------
+    >>> import pathlib, tempfile
+    >>> folder = pathlib.Path(tempfile.mkdtemp())
+    >>> try:
+    ...     with all_or_nothing():
+    ...         with atomic_output(folder / "first.csv") as handle:
+    ...             _ = handle.write("1")
+    ...         raise OSError(28, "No space left on device")
+    ... except OSError:
+    ...     pass
+    >>> sorted(p.name for p in folder.iterdir())
+    []
+    """
+    if _GROUP["files"] is not None:
+        yield
+        return
+    _GROUP["files"] = files = []
+    try:
+        yield
+        with deferred_interrupts():
+            while files:
+                temporary, path = files[0]
+                _put_in_place(temporary, path)
+                files.pop(0)
+    finally:
+        _GROUP["files"] = None
+        for temporary, _ in files:
+            with contextlib.suppress(OSError):
+                os.remove(temporary)
+
+
+@contextlib.contextmanager
+def writing_directly():
+    """Inside :func:`all_or_nothing`, a block whose files go in place at once (a report's temporary
+    folder, renamed as a whole by :func:`latdyn.output_folders.atomic_folder`)."""
+    files, _GROUP["files"] = _GROUP["files"], None
+    try:
+        yield
+    finally:
+        _GROUP["files"] = files
 
 
 def check_output_folder(folder, option):
@@ -186,15 +281,19 @@ def check_output_file(path, option, figure=False):
     path = os.fspath(path)
     if os.path.isdir(path):
         raise InputError(path, None, f"an output file ({option})", "a folder")
+    _refuse_special(path, option)
     folder = os.path.dirname(os.path.abspath(path))
     if not os.path.isdir(folder) or not os.access(folder, os.W_OK):
         raise InputError(path, None, f"an output file in an existing, writable folder ({option})",
                          f"no writable folder {folder}")
     suffix = os.path.splitext(path)[1].lower()
     if figure and suffix:
+        import matplotlib
         from matplotlib.backend_bases import FigureCanvasBase
 
-        formats = FigureCanvasBase.get_supported_filetypes()
+        formats = dict(FigureCanvasBase.get_supported_filetypes())
+        if not shutil.which(matplotlib.rcParams["pgf.texsystem"]):
+            formats.pop("pgf", None)  # drawn by a TeX installation that is not there
         if suffix[1:] not in formats:
             raise InputError(path, None, f"a figure file ({option}) ending in one of "
                              + " ".join("." + name for name in sorted(formats)), f'the suffix "{suffix}"')
