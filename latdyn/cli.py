@@ -52,6 +52,15 @@ class _VersionAction(argparse.Action):
         parser.exit()
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse with its usage errors on one line (as every other refusal): the error, then where the
+    usage is (``--help``), exit status 2."""
+
+    def error(self, message):
+        text = printable(" ".join(str(message).split()))
+        self.exit(2, f"{self.prog}: error: {text} (see {self.prog} --help)\n")
+
+
 def _command_module(name):
     return importlib.import_module("latdyn.commands." + name.replace("-", "_"))
 
@@ -66,7 +75,7 @@ def _add_command(sub, name, text):
 
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of every command."""
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="latdyn",
         description="Lateral-directional flight dynamics from a plain-text aircraft file.",
     )
@@ -93,7 +102,7 @@ def parse_arguments(argv) -> argparse.Namespace:
     if index is None or argv[index] not in names or any(w != "--debug" for w in argv[:index]):
         return build_parser().parse_args(argv)
     name = argv[index]
-    sub = argparse.ArgumentParser(prog="latdyn").add_subparsers()
+    sub = _Parser(prog="latdyn").add_subparsers()
     command = _add_command(sub, name, dict(COMMANDS)[name])
     command.prog = f"latdyn {name}"
     args = command.parse_intermixed_args(argv[index + 1:])
@@ -219,13 +228,13 @@ def main(argv=None) -> int:
     it can show (:class:`_TerminalStream`), and a library warning is one line.
     """
     from latdyn.input_files import recording_inputs
-    from latdyn.output_files import interruptible, write_error
+    from latdyn.output_files import all_or_nothing, interruptible, write_error
 
     args = parse_arguments(sys.argv[1:] if argv is None else argv)
     debug = getattr(args, "debug", False)
     with _terminal():
         try:
-            with interruptible(), recording_inputs():
+            with interruptible(), recording_inputs(), all_or_nothing():
                 _refuse_empty_values(args)
                 status = _command_module(args.command).run(args)
                 sys.stdout.flush()  # a full standard output is found here, not at exit

@@ -32,7 +32,7 @@ import tempfile
 import time
 
 from latdyn.errors import InputError
-from latdyn.output_files import atomic_output, deferred_interrupts, interruptible, write_error
+from latdyn.output_files import atomic_output, deferred_interrupts, interruptible, write_error, writing_directly
 
 __all__ = ["MARKER", "FORMAT", "FORMAT_VERSION", "STALE_SECONDS", "atomic_folder", "check_folder_target",
            "is_report_folder", "read_marker", "remove_stale_temporaries", "rename_exclusive", "exchange"]
@@ -349,7 +349,7 @@ def atomic_folder(output, force=False, option="-o", inputs=()):
     while not os.path.exists(folder):
         created.append(folder)
         folder = os.path.dirname(folder)
-    with interruptible():
+    with interruptible(), writing_directly():  # the folder is put in place by its own rename
         temporary = None
         try:
             with deferred_interrupts():

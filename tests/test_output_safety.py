@@ -190,8 +190,9 @@ def test_a_figure_that_fails_half_way_leaves_no_file(tmp_path, monkeypatch, caps
     # one line naming the figure, exit status 2 (before issue 17: the OSError's traceback)
     refused(["respond", DEMO, "--duration", "5", "--csv", str(tmp_path / "run.csv"), "--plot", str(tmp_path / "run.png")],
             capsys, "run.png: expected an output file that can be written, found no space left on device (ENOSPC)")
-    assert sorted(p.name for p in tmp_path.iterdir()) == ["run.csv"]  # written before the plot, complete
-    assert (tmp_path / "run.csv").read_text().startswith("time,")
+    # all or nothing: the CSV, complete before the plot failed, is not left either (a failed run
+    # writes none of its outputs; before the robustness campaign it stayed)
+    assert sorted(p.name for p in tmp_path.iterdir()) == []
 
 
 def test_replacing_a_folder_is_an_input_error_and_removes_the_temporary(tmp_path):

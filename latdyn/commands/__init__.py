@@ -24,9 +24,33 @@ Command-line conventions (every command follows them; see DEVELOPERS.md):
   (assess, compare) exits 1 when a check is (or drops) below the level.
 """
 
-__all__ = ["load_study_inputs", "notice_csv", "FORMATS", "add_format", "add_criteria",
+__all__ = ["positive_option", "load_study_inputs", "notice_csv", "FORMATS", "add_format", "add_criteria",
            "criteria_names", "add_fail_below", "report_below", "add_units", "display_units",
            "file_unit_help", "option_to_si"]
+
+def positive_option(value, option, dimension="none"):
+    """Refuse a number given on the command line that is not > 0 or lies beyond the plausible range.
+
+    The range is that of a file's number of the same dimension
+    (:func:`latdyn.aircraft_file.plausible_range`, SI): ``--sigma-v 1e300``
+    is one line, not an overflow deep in the solver.  None (not given) passes.
+
+    >>> positive_option(1e300, "--sigma-v", "speed")
+    Traceback (most recent call last):
+    ...
+    latdyn.errors.InputError: command line: --sigma-v: expected a number > 0 and at most 1e+06, found 1e+300
+    """
+    import math
+
+    from latdyn.aircraft_file import plausible_range
+    from latdyn.errors import InputError
+
+    if value is None:
+        return
+    least, largest = plausible_range(dimension)
+    if not math.isfinite(value) or value <= 0 or value > largest:
+        raise InputError("command line", option, f"a number > 0 and at most {largest:g}", f"{value:g}")
+
 
 #: Output formats of the commands that print results.
 FORMATS = ("table", "markdown", "csv", "json")

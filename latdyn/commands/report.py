@@ -49,8 +49,6 @@ def add_arguments(parser):
 def run(args):
     from latdyn.commands import criteria_names
     from latdyn.display import SYSTEMS
-    import math
-
     from latdyn.errors import InputError
     from latdyn.report import write_report
     from latdyn.report.content import DOCUMENT_FIELDS
@@ -61,12 +59,11 @@ def run(args):
     if args.sigma_v is not None:
         from latdyn.turbulence import Gust
 
-        for value, option in ((args.sigma_v, "--sigma-v"), (args.scale_length, "--scale-length")):
-            if not math.isfinite(value) or value <= 0:
-                raise InputError("command line", option, "a number > 0", repr(value))
         from latdyn.aircraft_file import read_tree
-        from latdyn.commands import option_to_si
+        from latdyn.commands import option_to_si, positive_option
 
+        positive_option(args.sigma_v, "--sigma-v", "speed")
+        positive_option(args.scale_length, "--scale-length", "length")
         # typed in the first file's units (as sweep --vary is), computed in SI
         units = read_tree(args.files[0])["__units__"]
         gust = Gust(option_to_si(args.sigma_v, "speed", units),

@@ -10,7 +10,6 @@ this module checks the options, prints and writes.
 from __future__ import annotations
 
 import json
-import math
 import sys
 
 __all__ = ["add_arguments", "run"]
@@ -47,13 +46,6 @@ def add_arguments(parser):
     parser.add_argument("--seed", type=int, default=1, metavar="N", help="random seed (default 1)")
 
 
-def _positive(value, option):
-    from latdyn.errors import InputError
-
-    if value is not None and (not math.isfinite(value) or value <= 0):
-        raise InputError(_COMMAND_LINE, option, "a number > 0", repr(value))
-
-
 def run(args):
     from latdyn import __version__
     from latdyn.aircraft import load_aircraft
@@ -63,10 +55,12 @@ def run(args):
     from latdyn.report.tables import turbulence_table
     from latdyn.turbulence import Gust, turbulence_response
 
-    for value, option in ((args.sigma_v, "--sigma-v"), (args.scale_length, "--scale-length"),
-                          (args.sigma_w, "--sigma-w"), (args.scale_length_w, "--scale-length-w"),
-                          (args.duration, "--duration"), (args.dt, "--dt")):
-        _positive(value, option)
+    from latdyn.commands import positive_option
+
+    for value, option, dimension in ((args.sigma_v, "--sigma-v", "speed"), (args.scale_length, "--scale-length", "length"),
+                                     (args.sigma_w, "--sigma-w", "speed"), (args.scale_length_w, "--scale-length-w", "length"),
+                                     (args.duration, "--duration", "time"), (args.dt, "--dt", "time")):
+        positive_option(value, option, dimension)
     if args.dt >= args.duration:
         raise InputError(_COMMAND_LINE, "--dt", f"a step smaller than the duration ({args.duration:g} s)",
                          f"{args.dt:g} s")

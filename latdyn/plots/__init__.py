@@ -13,8 +13,16 @@ import os
 __all__ = ["save_figure", "save_both"]
 
 
+#: Metadata that would make two writes of one figure differ (a time stamp), left out per format.
+_NO_DATES = {"svg": {"Date": None}, "pdf": {"CreationDate": None}}
+
+
 def save_figure(figure, path, dpi=150):
     """Write a figure atomically (temporary file in the same folder, then rename).
+
+    The same figure gives the same bytes on every run in SVG and PDF (no time
+    stamp, SVG element ids from a fixed salt instead of random); PNG has
+    neither.  PostScript keeps matplotlib's creation time.
 
     Parameters
     ----------
@@ -29,11 +37,13 @@ def save_figure(figure, path, dpi=150):
     -------
     path
     """
+    import matplotlib
+
     from latdyn.output_files import atomic_path
 
     kind = os.path.splitext(os.fspath(path))[1][1:].lower() or "png"  # not the temporary name's
-    with atomic_path(path) as temporary:
-        figure.savefig(temporary, dpi=dpi, facecolor="white", format=kind)
+    with atomic_path(path) as temporary, matplotlib.rc_context({"svg.hashsalt": "latdyn"}):
+        figure.savefig(temporary, dpi=dpi, facecolor="white", format=kind, metadata=_NO_DATES.get(kind))
     return path
 
 
