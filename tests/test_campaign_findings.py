@@ -1,0 +1,201 @@
+"""Failures found by the robustness campaign (``tools/robustness_campaign.py``, issue 17), one test per
+kind, each through the real command line (``latdyn.cli.main`` in this process, or a subprocess).
+
+* A device, a named pipe or a socket named as an output file is refused with one line: the atomic
+  rename would replace the device itself (``--csv /dev/null`` run as root replaced the device node
+  with a regular file).
+* A command's outputs are all or nothing: a run that fails or is interrupted after some of its files
+  are complete leaves none of them (a chart per criteria set on a disk that fills half-way, a sweep
+  figure and its root-locus companion interrupted between the two).
+* A figure format that needs a program that is not installed (PGF without TeX) is refused before any
+  work, not a traceback from matplotlib.
+* The same inputs give the same bytes: SVG and PDF figures carry no time stamp and no random ids
+  (PostScript keeps matplotlib's creation time).
+* Usage errors (unknown option, missing value, bad choice) are one line on stderr with status 2.
+
+The expectations (one line, exit status 2, nothing half-written) are the project's bad-input rule;
+the attacks are common practice for robustness testing.
+"""
+
+import os
+import pathlib
+import signal
+import stat
+import subprocess
+import sys
+
+import pytest
+
+from latdyn.cli import main
+
+ROOT = pathlib.Path(__file__).resolve().parent.parent
+DEMO = ROOT / "aircraft" / "kestrel-k40.toml"
+
+
+def run(argv, capsys):
+    status = main([str(a) for a in argv])
+    captured = capsys.readouterr()
+    return status, captured.out, captured.err
+
+
+def one_line(status, err, *parts):
+    assert status == 2, err
+    assert err.count("\n") == 1 and "Traceback" not in err, err
+    for part in parts:
+        assert part in err, err
+
+
+# ------------------------------------------------------------------ a device or pipe as the output
+def _special(path, kind):
+    if kind == "fifo":
+        os.mkfifo(path)
+    else:
+        import socket
+
+        server = socket.socket(socket.AF_UNIX)
+        server.bind(str(path))
+        return server
+    return None
+
+
+SPECIAL_OUTPUTS = {
+    "respond-csv": lambda out: ["respond", DEMO, "--duration", "3", "--csv", out],
+    "respond-plot": lambda out: ["respond", DEMO, "--duration", "3", "--plot", out],
+    "turbulence-csv": lambda out: ["turbulence", DEMO, "--condition", "cruise", "--sigma-v", "1", "--scale-length",
+                                   "500", "--duration", "2", "--csv", out],
+    "sweep-plot": lambda out: ["sweep", DEMO, "--condition", "cruise", "--vary", "Cn_beta=0.05:0.2:3", "-o", out],
+    "estimate-o": lambda out: ["estimate", ROOT / "tests" / "data" / "navion-cr96008.toml", "-o", out],
+}
+
+
+@pytest.mark.parametrize("kind", ["fifo", "socket"])
+@pytest.mark.parametrize("name", list(SPECIAL_OUTPUTS), ids=list(SPECIAL_OUTPUTS))
+def test_a_device_or_pipe_as_output_is_refused_and_kept(name, kind, tmp_path, capsys):
+    suffix = {"respond-plot": ".png", "sweep-plot": ".png", "estimate-o": ".toml"}.get(name, ".csv")
+    target = tmp_path / ("special" + suffix)
+    server = _special(target, kind)
+    try:
+        status, _, err = run(SPECIAL_OUTPUTS[name](target), capsys)
+        one_line(status, err, str(target), "a regular file or a new one",
+                 "named pipe" if kind == "fifo" else "socket")
+        mode = os.lstat(target).st_mode
+        assert (stat.S_ISFIFO(mode) if kind == "fifo" else stat.S_ISSOCK(mode))  # not replaced
+        assert sorted(p.name for p in tmp_path.iterdir()) == [target.name]  # no temporary either
+    finally:
+        if server is not None:
+            server.close()
+
+
+@pytest.mark.skipif(os.geteuid() != 0, reason="making a character device needs root")
+def test_a_character_device_as_output_is_refused_and_kept(tmp_path, capsys):
+    device = tmp_path / "full.csv"  # a twin of /dev/full made in the test's folder, never /dev itself
+    os.mknod(device, stat.S_IFCHR | 0o666, os.makedev(1, 7))
+    status, _, err = run(["respond", DEMO, "--duration", "3", "--csv", device], capsys)
+    one_line(status, err, str(device), "found a character device")
+    assert stat.S_ISCHR(os.lstat(device).st_mode)
+
+
+# ------------------------------------------------------------------ all or nothing
+def _savefig_failing_at(monkeypatch, call, error):
+    """matplotlib's savefig works ``call - 1`` times, then raises ``error``."""
+    import matplotlib.figure
+
+    real = matplotlib.figure.Figure.savefig
+    count = {"n": 0}
+
+    def savefig(self, *args, **kwargs):
+        count["n"] += 1
+        if count["n"] >= call:
+            raise error
+        return real(self, *args, **kwargs)
+
+    monkeypatch.setattr(matplotlib.figure.Figure, "savefig", savefig)
+    return count
+
+
+def test_charts_on_a_disk_that_fills_half_way_leave_none(tmp_path, monkeypatch, capsys):
+    (tmp_path / "keep.txt").write_text("already here")
+    count = _savefig_failing_at(monkeypatch, 3, OSError(28, "No space left on device"))
+    status, _, err = run(["assess", DEMO, "--condition", "cruise", "-o", tmp_path], capsys)
+    one_line(status, err, "no space left on device (ENOSPC)")
+    assert count["n"] == 3  # two charts were complete before the disk filled
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["keep.txt"]
+
+
+def test_a_sweep_interrupted_between_its_figures_leaves_none(tmp_path, monkeypatch, capsys):
+    count = _savefig_failing_at(monkeypatch, 3, KeyboardInterrupt())
+    status, _, err = run(["sweep", DEMO, "--condition", "cruise", "--vary", "Cn_beta=0.05:0.2:3",
+                          "-o", tmp_path / "study.png"], capsys)
+    assert status == 128 + signal.SIGINT and err.count("\n") == 1, err
+    assert count["n"] == 3
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_several_outputs_of_one_run_all_appear(tmp_path, capsys):
+    status, _, err = run(["respond", DEMO, "--duration", "3", "--csv", tmp_path / "run.csv",
+                          "--plot", tmp_path / "run.png", "--bode", tmp_path / "bode.svg"], capsys)
+    assert status == 0, err
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["bode.svg", "run.csv", "run.png"]
+
+
+# ------------------------------------------------------------------ figure formats
+def test_a_figure_format_that_needs_a_missing_program_is_refused(tmp_path, capsys, monkeypatch):
+    import shutil
+
+    import matplotlib
+
+    texsystem = matplotlib.rcParams["pgf.texsystem"]
+    real_which = shutil.which
+    monkeypatch.setattr(shutil, "which", lambda name, *a, **k: None if name == texsystem else real_which(name, *a, **k))
+    status, _, err = run(["respond", DEMO, "--duration", "3", "--plot", tmp_path / "run.pgf"], capsys)
+    one_line(status, err, "run.pgf", 'the suffix ".pgf"')
+    assert list(tmp_path.iterdir()) == []
+
+
+@pytest.mark.parametrize("suffix", [".svg", ".pdf", ".png"])
+def test_the_same_figure_twice_gives_the_same_bytes(suffix, tmp_path, capsys):
+    for name in ("first", "second"):
+        (tmp_path / name).mkdir()
+        status, _, err = run(["respond", DEMO, "--duration", "3", "--plot", tmp_path / name / ("run" + suffix)],
+                             capsys)
+        assert status == 0, err
+    assert (tmp_path / "first" / ("run" + suffix)).read_bytes() == (tmp_path / "second" / ("run" + suffix)).read_bytes()
+
+
+# ------------------------------------------------------------------ usage errors
+USAGE_ERRORS = {
+    "unknown option": (["modes", DEMO, "--bogus"], "unrecognized arguments: --bogus"),
+    "missing value": (["steady", DEMO, "--plot"], "argument --plot: expected one argument"),
+    "bad choice": (["modes", DEMO, "--format", "xml"], "argument --format: invalid choice: 'xml'"),
+    "bad number": (["sensitivity", DEMO, "--top", "x"], "argument --top: invalid int value: 'x'"),
+    "missing file": (["compare", DEMO], "the following arguments are required: VARIANT"),
+    "unknown command": (["bogus"], "invalid choice: 'bogus'"),
+    "no command": ([], "the following arguments are required: COMMAND"),
+    "control character": (["modes", DEMO, "--\x1b[31m"], "unrecognized arguments: --\\x1b[31m"),
+}
+
+
+@pytest.mark.parametrize("argv, message", USAGE_ERRORS.values(), ids=list(USAGE_ERRORS))
+def test_a_usage_error_is_one_line(argv, message):
+    done = subprocess.run([sys.executable, "-m", "latdyn", *map(str, argv)], capture_output=True, text=True,
+                          cwd=ROOT, timeout=120)
+    assert done.returncode == 2
+    assert done.stdout == ""
+    assert done.stderr.count("\n") == 1 and message in done.stderr, done.stderr
+    assert "--help" in done.stderr  # where the usage is
+
+
+# ------------------------------------------------------------------ numbers on the command line
+@pytest.mark.parametrize("argv, option", [
+    (["turbulence", DEMO, "--condition", "cruise", "--sigma-v", "1e300", "--scale-length", "530"], "--sigma-v"),
+    (["turbulence", DEMO, "--condition", "cruise", "--sigma-v", "1", "--scale-length", "1e300"], "--scale-length"),
+    (["turbulence", DEMO, "--condition", "cruise", "--sigma-v", "1", "--scale-length", "530", "--sigma-w", "1e200"],
+     "--sigma-w"),
+    (["report", DEMO, "--sigma-v", "1e300", "--scale-length", "530"], "--sigma-v"),
+], ids=["turbulence-sigma", "turbulence-scale", "turbulence-sigma-w", "report-sigma"])
+def test_a_gust_beyond_any_plausible_value_is_one_line(argv, option, tmp_path, capsys):
+    if argv[0] == "report":
+        argv = [*argv, "-o", tmp_path / "report"]
+    status, _, err = run(argv, capsys)  # before: a traceback from the solver (array must not contain infs)
+    one_line(status, err, "command line", option, "a number > 0 and at most")
+    assert list(tmp_path.iterdir()) == []
