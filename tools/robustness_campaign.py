@@ -348,6 +348,7 @@ def classify(attempt, result, before, after):
             line = stderr_lines[0]
             names = [p.name for p in sandbox.inputs.iterdir()] + [
                 "command line", "--", " -o", "standard output", "argument", "criteria", str(sandbox.top), "/dev/"]
+            names += [f"latdyn: {word}:" for word in attempt.argv or () if word]  # names a file given as typed
             if not any(name and name in line for name in names):
                 failures.append(("refusal names neither file nor option", normalise(line)))
     elif status in (0, 1):
