@@ -628,6 +628,98 @@ def _place(sandbox, files):
     return sandbox.inputs / "main.toml"
 
 
+NUMBER_TEXT = re.compile(r"(?<![\w.])-?\d+\.?\d*(?:[eE][-+]?\d+)?(?![\w.])")
+NASTY_NUMBERS = ["nan", "inf", "-inf", "1e308", "-1e308", "1e-320", "0", "-0.0", "1e200", "-1e200", '"1.0"',
+                 "true", "[]", "{}", '""', "1e6", "-1", "99999999999999999999999999"]
+NASTY_CSV = ["nan", "inf", "-inf", "1e308", "", "x", "1,2", "0", "-0", "1e-320", "\x00", "=cmd", '"5"', "1e400"]
+
+
+def text_mutation(text, rng, csv=False):
+    """One mutation of a text file (a number replaced, a line deleted or duplicated, a cut)."""
+    lines = text.splitlines(keepends=True)
+    choice = rng.choice(["number", "number", "number", "delete-line", "duplicate-line", "truncate", "swap-lines"])
+    if choice == "number":
+        spans = [m.span() for m in NUMBER_TEXT.finditer(text) if not text[max(0, m.start() - 1)] == "#"]
+        if spans:
+            start, end = rng.choice(spans)
+            token = rng.choice(NASTY_CSV if csv else NASTY_NUMBERS)
+            return f"number->{token}", text[:start] + token + text[end:]
+        choice = "delete-line"
+    if choice == "delete-line":
+        i = rng.randrange(len(lines))
+        return "delete-line", "".join(lines[:i] + lines[i + 1:])
+    if choice == "duplicate-line":
+        i = rng.randrange(len(lines))
+        return "duplicate-line", "".join(lines[:i + 1] + [lines[i]] + lines[i + 1:])
+    if choice == "swap-lines" and len(lines) > 2:
+        i = rng.randrange(len(lines) - 1)
+        lines[i], lines[i + 1] = lines[i + 1], lines[i]
+        return "swap-lines", "".join(lines)
+    return "truncate", text[: rng.randrange(1, len(text))]
+
+
+INPUT_CSV = "time,aileron,rudder\n0,0,0\n1,0,2\n2,0,-2\n3,1,0\n4,0,0\n"
+DOCUMENT = 'title = "Lateral study"\nnumber = "NRA-1"\nrevision = "A"\ndate = 2026-12-02\nprepared = "A. Person"\n'
+UNCERTAINTY = "\n[uncertainty.Cn_beta]\nrelative = 0.1\n\n[uncertainty.Cl_p]\nabsolute = 0.05\ndistribution = \"uniform\"\n"
+
+
+def other_mutants(rng, count):
+    """(label, files, argv template) of mutated criteria files, CSV inputs, flight records, document files,
+    variant files, [uncertainty] tables and files with several mutations at once."""
+    criteria = CRITERIA.read_text(encoding="utf-8")
+    record = RECORD.read_text(encoding="utf-8")
+    base = BASE_AIRCRAFT.read_text(encoding="utf-8")
+    variant = VARIANT_AIRCRAFT.read_text(encoding="utf-8").replace("kestrel-k40.toml", "base.toml")
+    for index in range(count):
+        family = ["criteria", "input-csv", "record", "document", "variant", "uncertainty", "multiple"][index % 7]
+        if family == "criteria":
+            label, text = text_mutation(criteria, rng)
+            files = {"main.toml": base, "crit.toml": text}
+            argv = rng.choice([["assess", "IN/main.toml", "--criteria", "INPUTS/crit.toml", "--format", "json"],
+                               ["sweep", "IN/main.toml", "--vary", "Cn_r=-0.2:-0.05:4", "--criteria", "INPUTS/crit.toml",
+                                "--format", "json"],
+                               ["uncertainty", "IN/main.toml", "--samples", "300", "--seed", "1", "--criteria",
+                                "INPUTS/crit.toml", "--format", "json"],
+                               ["compare", "IN/main.toml", "IN/main.toml", "--criteria", "INPUTS/crit.toml", "--format", "json"]])
+        elif family == "input-csv":
+            label, text = text_mutation(INPUT_CSV, rng, csv=True)
+            files = {"main.toml": base, "input.csv": text}
+            argv = ["respond", "IN/main.toml", "--input", "INPUTS/input.csv", "--format", "json", "--csv", "OUT/r.csv"]
+        elif family == "record":
+            label, text = text_mutation(record, rng, csv=True)
+            files = {"main.toml": base, "flight.csv": text}
+            argv = ["identify", "IN/main.toml", "--condition", "cruise", "--data", "INPUTS/flight.csv", "--method",
+                    rng.choice(["equation-error", "output-error"]), "--format", "json", "-o", "OUT/id.toml"]
+        elif family == "document":
+            label, text = text_mutation(DOCUMENT, rng)
+            one = base_tree()
+            one["condition"] = one["condition"][:1]
+            files = {"main.toml": toml_text(one) + "\n", "doc.toml": text}
+            argv = ["report", "IN/main.toml", "--document", "INPUTS/doc.toml", "-o", "OUT/rep"]
+        elif family == "variant":
+            label, text = text_mutation(variant, rng)
+            files = {"base.toml": base, "main.toml": text}
+            argv = rng.choice([["compare", "INPUTS/base.toml", "IN/main.toml", "--format", "json"],
+                               ["modes", "IN/main.toml", "--json"], ["assess", "IN/main.toml", "--format", "json"]])
+        elif family == "uncertainty":
+            label, text = text_mutation(base + UNCERTAINTY, rng)
+            files = {"main.toml": text}
+            argv = ["uncertainty", "IN/main.toml", "--samples", "500", "--seed", "4", "--format", "json"]
+        else:
+            text = base
+            labels = []
+            for _ in range(rng.randint(2, 4)):
+                label, text = text_mutation(text, rng)
+                labels.append(label)
+            label = "+".join(labels)
+            files = {"main.toml": text}
+            argv = rng.choice([["modes", "IN/main.toml", "--json"], ["assess", "IN/main.toml", "--format", "json"],
+                               ["steady", "IN/main.toml", "--format", "json"],
+                               ["respond", "IN/main.toml", "--format", "json", "--condition", "all"],
+                               ["sensitivity", "IN/main.toml", "--format", "json"]])
+        yield f"{family} {label}", files, argv
+
+
 def mutated(campaign, count):
     rng = random.Random(campaign.seed * 1000 + 1)
     for index, (label, files) in enumerate(_mutants(rng, count)):
@@ -638,6 +730,13 @@ def mutated(campaign, count):
                     "INPUTS", str(sandbox.inputs)) for a in argv]
                 return Attempt("mutated", f"{label} | {command}", argv, sandbox, formats_json=is_json, timeout=90)
             campaign.attempt(build)
+    for label, files, argv in other_mutants(rng, count * 2):
+        def build(sandbox, files=files, argv=argv, label=label):
+            path = _place(sandbox, files)
+            argv = [str(path) if a == "IN/main.toml" else a.replace("OUT", str(sandbox.out)).replace(
+                "INPUTS", str(sandbox.inputs)) for a in argv]
+            return Attempt("mutated", f"{label} | {argv[0]}", argv, sandbox, formats_json="json" in argv, timeout=120)
+        campaign.attempt(build)
 
 
 class _Fake:
@@ -685,7 +784,7 @@ def _numeric_cases(rng, count):
             values[key] = DIMENSIONAL[key] * 10.0 ** k
             cases.append((f"{key} x 1e{k}", _dimensional_aircraft(values)))
     while len(cases) < count:
-        values = {key: math.copysign(10.0 ** rng.uniform(-8, 8), rng.choice([-1, 1]) if key not in ("L_p", "N_r") else -1)
+        values = {key: math.copysign(10.0 ** rng.uniform(-8, 5.9), rng.choice([-1, 1]) if key not in ("L_p", "N_r") else -1)
                   for key in DIMENSIONAL}
         cases.append(("entries over 16 orders", _dimensional_aircraft(values, speed=10.0 ** rng.uniform(-2, 3))))
     return cases[:count] if count < len(cases) else cases
@@ -725,11 +824,55 @@ def _roots_check(path):
             return []
         if len(roots) != len(reference):
             return [("wrong root", f"{len(roots)} roots instead of {len(reference)}")]
-        best = min(max(abs(r - q) / (1e-6 * abs(q) + 1e-9 * norm + 1e-300) for r, q in zip(perm, reference))
-                   for perm in itertools.permutations(roots))
-        if best > 1.0:
+        if _compare_roots(roots, list(reference), norm) > 1.0:
             return [("wrong root", "find_modes differs from numpy.linalg.eig")]
         return []
+    return check
+
+
+def _compare_roots(roots, reference, norm):
+    """The worst mismatch of two root sets, in units of the tolerance (> 1: a wrong root)."""
+    if len(roots) != len(reference):
+        return math.inf
+    return min(max(abs(r - q) / (1e-6 * abs(q) + 1e-9 * norm + 1e-300) for r, q in zip(perm, reference))
+               for perm in itertools.permutations(roots))
+
+
+def _point_roots(point):
+    """The four roots of a sweep point from its figures (Dutch roll pair, roll and spiral), or None."""
+    frequency, damping = point.get("dutch_roll_frequency"), point.get("dutch_roll_damping")
+    roll, spiral = point.get("roll_root"), point.get("spiral_root")
+    if None in (frequency, damping, roll, spiral) or abs(damping) >= 1:
+        return None
+    real, imaginary = -damping * frequency, frequency * math.sqrt(1 - damping * damping)
+    return [complex(real, imaginary), complex(real, -imaginary), complex(roll), complex(spiral)]
+
+
+def _sweep_roots_check(text, key, values):
+    """The batched solver of a sweep against numpy.linalg.eig at every point (the file rebuilt with the
+    point's value)."""
+    def check(attempt, result):
+        if result.status != 0:
+            return []
+        try:
+            points = json.loads(result.stdout)["conditions"][0]["points"]
+        except (ValueError, KeyError, IndexError, TypeError):
+            return []
+        failures = []
+        for point, value in zip(points, values):
+            roots = _point_roots(point)
+            if roots is None:
+                continue
+            path = attempt.sandbox.inputs / "point.toml"
+            path.write_text(re.sub(rf"^{key} = .*$", f"{key} = {value!r}", text, flags=re.MULTILINE))
+            try:
+                reference, norm = _reference_roots(path)
+            except Exception:  # noqa: BLE001 - a point the loader refuses
+                continue
+            if _compare_roots(roots, list(reference), norm) > 1e3:  # figures carry a few more roundings
+                failures.append(("wrong root", "sweep (batched solver) differs from numpy.linalg.eig"))
+                break
+        return failures
     return check
 
 
@@ -741,6 +884,17 @@ def numeric(campaign, count):
             return Attempt("numeric", f"{label} | modes", ["modes", str(path), "--json"], sandbox,
                            formats_json=True, post=_roots_check(path))
         campaign.attempt(build)
+        if "\nL_p = " in text and index % 2 == 0:  # a dimensional model: sweep one of its entries
+            key = rng.choice(["L_p", "N_r", "L_beta", "N_beta", "N_p", "L_r"])
+            value = float(re.search(rf"^{key} = (.*)$", text, re.MULTILINE).group(1))
+            values = [value * f for f in (0.5, 0.875, 1.25, 1.625, 2.0)]
+
+            def build3(sandbox, text=text, label=label, key=key, values=values):
+                path = sandbox.write("main.toml", text)
+                return Attempt("numeric", f"{label} | sweep {key}", ["sweep", str(path), "--vary",
+                               f"{key}={values[0]!r}:{values[-1]!r}:{len(values)}", "--format", "json"], sandbox,
+                               formats_json=True, post=_sweep_roots_check(text, key, values))
+            campaign.attempt(build3)
         if index % 3 == 0:
             other = rng.choice([["assess", "--format", "json"], ["respond", "--format", "json"],
                                 ["sensitivity", "--format", "json"], ["steady", "--format", "json"],
