@@ -953,7 +953,7 @@ OPTIONS = {
                 "--units": ["US"]},
     "estimate": {"--condition": ["cruise"], "--format": ["json"], "-o": ["OUT/e.toml", "INPUTS/main.toml", "OUT/e.txt"]},
 }
-REQUIRED = {"sweep": ["--vary"], "turbulence": ["--sigma-v", "--scale-length"]}
+REQUIRED = {"sweep": ["--vary"], "turbulence": ["--sigma-v", "--scale-length"], "uncertainty": ["--vary"]}
 SINGLE_FILE = {"sweep", "sensitivity", "uncertainty", "turbulence"}
 
 
@@ -1066,7 +1066,7 @@ def faults(campaign, count):
                ("missing folder", ["assess", "FILE", "-o", "OUT/missing"]),
                ("missing folder", ["sweep", "FILE", "--vary", "Cn_beta=0.1:0.2:3", "-o", "OUT/missing/s.png"]),
                ("full stdout", ["modes", "FILE", "--json"]), ("full stdout", ["assess", "FILE"]),
-               ("full stdout", ["uncertainty", "FILE", "--samples", "300", "--seed", "1", "--format", "csv"]),
+               ("full stdout", ["uncertainty", "FILE", "--samples", "300", "--seed", "1", "--vary", "Cn_r=±20%", "--format", "csv"]),
                ("closed stdout", ["modes", "FILE", "--json"]), ("closed stdout", ["respond", "FILE", "--format", "csv"]),
                ("closed stdout", ["sweep", "FILE", "--vary", "Cn_beta=0.05:0.2:40", "--format", "csv"])]
     if campaign.unshare:
@@ -1106,7 +1106,8 @@ def faults(campaign, count):
     commands = [["report", "FILE", "-o", "OUT/rep"], ["report", "FILE", "-o", "OUT/old", "--force"],
                 ["respond", "FILE", "--condition", "all", "--plot", "OUT/r.png", "--csv", "OUT/r.csv"],
                 ["sweep", "FILE", "--vary", "Cn_beta=0.05:0.2:30", "--vary", "Cn_r=-0.2:-0.05:30", "-o", "OUT/s.png"],
-                ["uncertainty", "FILE", "--samples", "20000", "--seed", "1", "-o", "OUT/u.png"]]
+                ["uncertainty", "FILE", "--samples", "20000", "--seed", "1", "--vary", "Cn_r=±20%", "-o", "OUT/u.png"]]
+    _concurrent_writers(campaign, max(3, count // 4))
     for index in range(count):
         template = commands[index % len(commands)]
         moment = moments[(index // len(commands)) % len(moments)] * rng.uniform(0.8, 1.2)
@@ -1127,6 +1128,51 @@ def faults(campaign, count):
                 with contextlib.suppress(ProcessLookupError):
                     os.kill(process.pid, number)
             attempt.action = action
+            return attempt
+        campaign.attempt(build)
+
+
+def _concurrent_writers(campaign, count):
+    """Two runs writing one new path at once: one wins, the other exits 2 with one line; the result is whole."""
+    commands = [["report", "FILE", "-o", "OUT/rep"], ["report", "FILE", "-o", "OUT/rep", "--force"],
+                ["respond", "FILE", "--csv", "OUT/r.csv", "--plot", "OUT/r.png"]]
+    for index in range(count):
+        template = commands[index % len(commands)]
+
+        def build(sandbox, template=template):
+            main = sandbox.write("main.toml", BASE_AIRCRAFT.read_text(encoding="utf-8"))
+            argv = [str(main) if a == "FILE" else a.replace("OUT", str(sandbox.out)) for a in template]
+            attempt = Attempt("faults", f"two writers | {' '.join(template)}", argv, sandbox, timeout=240)
+            other = {}
+
+            def action(process, argv=argv, sandbox=sandbox):
+                second = subprocess.Popen([PYTHON, "-m", "latdyn", *argv], cwd=sandbox.work, env=child_env(sandbox),
+                                          stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE,
+                                          preexec_fn=_limit_memory)
+                try:
+                    _, err = second.communicate(timeout=240)
+                except subprocess.TimeoutExpired:
+                    second.kill()
+                    _, err = second.communicate()
+                other.update(status=second.returncode, stderr=err.decode("utf-8", "replace"))
+
+            def check(attempt, result, other=other, sandbox=sandbox, template=template):
+                failures = []
+                statuses = sorted([result.status, other.get("status")], key=str)
+                if other.get("status") not in (0, 2) or "Traceback" in other.get("stderr", ""):
+                    failures.append(("traceback" if "Traceback" in other.get("stderr", "") else "unexpected exit status",
+                                     f"second writer {other.get('status')}"))
+                elif other.get("status") == 2 and other["stderr"].count("\n") != 1:
+                    failures.append(("multi-line stderr on refusal", "second writer"))
+                if template[0] == "report":
+                    if "--force" not in template and statuses != [0, 2]:
+                        failures.append(("both concurrent writers succeeded" if statuses == [0, 0] else
+                                         "unexpected exit status", f"{statuses}"))
+                    if not _report_complete(sandbox.out / "rep"):
+                        failures.append(("half-written output", "report of concurrent writers"))
+                return failures
+            attempt.action = action
+            attempt.post = check
             return attempt
         campaign.attempt(build)
 
@@ -1152,7 +1198,7 @@ def determinism(campaign, count):
     runs = [["modes", "FILE", "--json"], ["modes", "FILE"], ["assess", "FILE", "--format", "markdown"],
             ["assess", "FILE", "-o", "OUT/plots"],
             ["respond", "FILE", "--csv", "OUT/r.csv", "--plot", "OUT/r.svg"],
-            ["uncertainty", "FILE", "--samples", "2000", "--seed", "7", "--format", "json", "-o", "OUT/u.png"],
+            ["uncertainty", "FILE", "--samples", "2000", "--seed", "7", "--vary", "Cn_r=±20%", "--format", "json", "-o", "OUT/u.png"],
             ["turbulence", "FILE", "--sigma-v", "1", "--scale-length", "530", "--csv", "OUT/t.csv"],
             ["sweep", "FILE", "--vary", "Cn_beta=0.05:0.2:7", "--format", "csv", "-o", "OUT/s.png"],
             ["steady", "FILE", "--format", "csv", "--plot", "OUT/st.png"],
@@ -1194,7 +1240,7 @@ def security(campaign, count):
                ["assess", "FILE", "-o", "OUT", "--criteria", "CRIT", "--format", "csv"],
                ["respond", "FILE", "--condition", "all", "--csv", "OUT/r.csv", "--plot", "OUT/r.png", "--bode", "OUT/b.png"],
                ["sweep", "FILE", "--vary", "Cn_beta=0.05:0.2:4", "-o", "OUT/s.png", "--criteria", "CRIT"],
-               ["uncertainty", "FILE", "--samples", "300", "--seed", "1", "-o", "OUT/u.png", "--criteria", "CRIT"],
+               ["uncertainty", "FILE", "--samples", "300", "--seed", "1", "--vary", "Cn_r=±20%", "-o", "OUT/u.png", "--criteria", "CRIT"],
                ["turbulence", "FILE", "--sigma-v", "1", "--scale-length", "530", "-o", "OUT/t.png", "--csv", "OUT/t.csv"],
                ["steady", "FILE", "--plot", "OUT/st.png", "--format", "csv"],
                ["modes", "FILE"], ["assess", "FILE", "--format", "csv", "--criteria", "CRIT"],
