@@ -165,7 +165,7 @@ def test_the_same_figure_twice_gives_the_same_bytes(suffix, tmp_path, capsys):
 # ------------------------------------------------------------------ usage errors
 USAGE_ERRORS = {
     "unknown option": (["modes", DEMO, "--bogus"], "unrecognized arguments: --bogus"),
-    "missing value": (["steady", DEMO, "--plot"], "argument --plot: expected one argument"),
+    "missing value": (["steady", DEMO, "--plot"], "--plot: expected one argument"),
     "bad choice": (["modes", DEMO, "--format", "xml"], "argument --format: invalid choice: 'xml'"),
     "bad number": (["sensitivity", DEMO, "--top", "x"], "argument --top: invalid int value: 'x'"),
     "missing file": (["compare", DEMO], "the following arguments are required: VARIANT"),
