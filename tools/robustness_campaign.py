@@ -1273,6 +1273,15 @@ def security(campaign, count):
             return Attempt("security", f"{place} {hostile[:20]!r} | {template[0]}", argv, sandbox, timeout=180,
                            names=(hostile,))
         campaign.attempt(build)
+    # hostile file names: the default report folder (reports/<file name>) and figure names from them
+    for stem in ["..", " ", "-o", "$\\frac{$", "x\x1b[31m", "a\nb", "<script>", "=cmd", "é" * 200, ".hidden"]:
+        def build(sandbox, stem=stem):
+            main = sandbox.write(stem + ".toml", BASE_AIRCRAFT.read_text(encoding="utf-8"))
+            argv = rng.choice([["report", "--", str(main)], ["assess", str(main), "-o", str(sandbox.out)],
+                               ["respond", str(main), "--plot", str(sandbox.out / "r.png")]])
+            return Attempt("security", f"file name {stem[:20]!r} | {argv[0]}", argv, sandbox, timeout=240,
+                           names=(stem,), allowed_outside=(sandbox.work / "reports",))
+        campaign.attempt(build)
     # --force on folders that are not reports
     force_cases = ["thesis", "inputs", "dot", "dotdot", "home", "empty", "file", "link-to-inputs", "report-ok",
                    "report-no-force", "empty-string", "inputs-subfolder", "identify-inputs"]
