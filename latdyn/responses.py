@@ -28,6 +28,7 @@ import numpy as np
 from latdyn.display import SI, SIGNAL_QUANTITIES
 
 __all__ = [
+    "overflow_time",
     "CSV_COLUMNS",
     "HOLDS",
     "Response",
@@ -513,13 +514,31 @@ def simulate(model, history, initial=None, hold="zero", label="") -> Response:
     else:
         x0 = np.asarray(initial, dtype=float)
     inputs = history.values
-    states, outputs = simulate_arrays(A, B, C, D, history.time, inputs, x0, hold)
+    with np.errstate(over="ignore", invalid="ignore"):  # an overflow is found by overflow_time, not warned
+        states, outputs = simulate_arrays(A, B, C, D, history.time, inputs, x0, hold)
     description = history.description
     if initial is not None and hasattr(initial, "describe") and not initial.is_zero:
         description = ", ".join(t for t in (description if not history.is_zero else "", initial.describe()) if t)
     return Response(history.time, inputs, states, outputs, state_names, tuple(model.input_names)
                     if hasattr(model, "input_names") else ("aileron", "rudder"),
                     output_names, label, description, hold, history.end_time)
+
+
+def overflow_time(response):
+    """The first time [s] at which a response is no longer a finite number, or None.
+
+    A strongly divergent model (a root doubling the motion every few
+    milliseconds) run for tens of seconds grows beyond the largest floating
+    point number: the caller refuses such a run instead of showing NaN.
+
+    >>> import numpy as np
+    >>> r = Response(np.array([0.0, 1.0, 2.0]), np.zeros((3, 2)), np.zeros((3, 1)),
+    ...              np.array([[0.0], [np.inf], [np.nan]]), ("beta",), ("aileron", "rudder"), ("beta",))
+    >>> overflow_time(r)
+    1.0
+    """
+    bad = ~(np.isfinite(response.states).all(axis=1) & np.isfinite(response.outputs).all(axis=1))
+    return float(response.time[np.argmax(bad)]) if bad.any() else None
 
 
 #: Largest sideslip and bank a standard response is sized to stay within [rad]: 8 deg and 30 deg

@@ -199,3 +199,50 @@ def test_a_gust_beyond_any_plausible_value_is_one_line(argv, option, tmp_path, c
     status, _, err = run(argv, capsys)  # before: a traceback from the solver (array must not contain infs)
     one_line(status, err, "command line", option, "a number > 0 and at most")
     assert list(tmp_path.iterdir()) == []
+
+
+# ------------------------------------------------------------------ a response beyond floating point
+# Found by the campaign's random models (entries over 16 orders of magnitude, each within its plausible
+# range): a roll root of +46 1/s doubles the motion every 15 ms; the default 40 s run overflowed and
+# `respond --format json` ended in "Out of range float values are not JSON compliant: nan".
+DIVERGENT = """\
+name = "strongly divergent model (campaign case)"
+units = "US"
+[[condition]]
+name = "case"
+altitude = 0.0
+speed = 266.1780252912817
+alpha_deg = 4.0
+[condition.dimensional]
+axes = "body"
+primed = true
+Y_v = 0.013354248539032245
+L_beta = 2.5725041265251065e-05
+L_p = -2.078971106595371e-07
+L_r = -2598.5303749116238
+N_beta = -3.7995287808507385e-05
+N_p = -0.8280228650224812
+N_r = -1.1361346291922944e-06
+L_da = -39383.363062802964
+L_dr = -0.07501257669566073
+N_da = -8.682931551886903e-08
+N_dr = -78.2129028341192
+Y_da = -2.294557231998294e-07
+Y_dr = 7714.857292539267
+"""
+
+
+@pytest.mark.parametrize("output", ["json", "csv-file", "table"])
+def test_a_response_that_overflows_is_one_line_naming_the_duration(output, tmp_path, capsys):
+    path = tmp_path / "divergent.toml"
+    path.write_text(DIVERGENT)
+    extra = {"json": ["--format", "json"], "csv-file": ["--csv", tmp_path / "run.csv"], "table": []}[output]
+    status, out, err = run(["respond", path, *extra], capsys)
+    one_line(status, err, str(path), 'condition "case"', "--duration", "floating-point range")
+    assert out == "" and sorted(p.name for p in tmp_path.iterdir()) == ["divergent.toml"]
+    # a run short enough stays finite and is written
+    status, out, err = run(["respond", path, "--duration", "0.1", "--format", "json"], capsys)
+    assert status == 0, err
+    import json
+
+    json.loads(out, parse_constant=lambda word: pytest.fail(f"{word} in the JSON"))

@@ -57,6 +57,7 @@ import subprocess
 import sys
 import tempfile
 import time
+import warnings
 import tomllib
 
 ROOT = pathlib.Path(__file__).resolve().parents[1]
@@ -799,7 +800,9 @@ def _reference_roots(path):
     from latdyn.aircraft import load_aircraft
     from latdyn.augmentation import condition_model
 
-    aircraft = load_aircraft(path)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        aircraft = load_aircraft(path)
     condition = aircraft.conditions[0]
     A = np.asarray(condition_model(aircraft, condition).A, dtype=float)[:4, :4]
     balanced, _ = scipy.linalg.matrix_balance(A)

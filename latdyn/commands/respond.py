@@ -339,6 +339,20 @@ def respond_document(cases, labels, readouts=None, transfers=None, ratios=None) 
     return {"latdyn_version": __version__, "cases": out}
 
 
+def _refuse_overflow(cases, responses, args):
+    """One line for a run over which a strongly divergent model's response leaves the floating-point range."""
+    from latdyn.errors import InputError
+    from latdyn.responses import overflow_time
+
+    for (aircraft, condition), response in zip(cases, responses):
+        at = overflow_time(response)
+        if at is not None:
+            option = "--duration" if args.duration is None else f"--duration {args.duration:g}"
+            raise InputError(aircraft.file, option, f"a run over which the response stays a finite number (it "
+                             f"grows beyond the floating-point range at {at:g} s: a divergent root; give a shorter "
+                             "--duration)", f"a run to {response.time[-1]:g} s", condition.name)
+
+
 def run(args):
     from latdyn.augmentation import condition_model
     from latdyn.inputs import InitialDisturbance, default_inputs
@@ -372,6 +386,7 @@ def run(args):
             else:
                 responses.append(simulate(model, history, initial, label=label))
                 limited.append(None)
+        _refuse_overflow(cases, responses, args)
         readouts = [read_response(response) for response in responses]
     want_transfers = args.transfer_functions or args.bode
     all_transfers, all_lines, all_ratios = [], [], []
