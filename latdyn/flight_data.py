@@ -30,7 +30,7 @@ import numpy as np
 
 from latdyn.errors import InputError, describe_value
 
-__all__ = ["CHANNELS", "CHANNEL_COLUMNS", "FlightRecord", "read_flight_csv", "synthetic_record",
+__all__ = ["CHANNELS", "CHANNEL_COLUMNS", "MAX_RECORD_MAGNITUDE", "FlightRecord", "read_flight_csv", "synthetic_record",
            "write_flight_csv", "MIN_SAMPLES"]
 
 #: The measured channels a record may hold, in the model's output order.
@@ -53,6 +53,10 @@ IGNORED_COLUMNS = ("psi_deg",)
 
 #: Fewest samples of a manoeuvre (below this no derivative can be identified).
 MIN_SAMPLES = 20
+
+#: Largest magnitude of a recorded value in its file unit (s, deg, deg/s, g): far beyond any aircraft and
+#: short of overflow in the identification (common practice: a larger number is a corrupt record).
+MAX_RECORD_MAGNITUDE = 1e6
 
 #: Largest spread of the sample spacing, relative to its median, still read as evenly sampled.
 _SPACING_TOLERANCE = 0.01
@@ -175,6 +179,10 @@ def read_flight_csv(path, columns=None) -> FlightRecord:
             if not math.isfinite(value):
                 raise InputError(file, f'line {line}, column "{names[signal]}"', "a finite number",
                                  describe_value(cell) if cell else "an empty cell")
+            if abs(value) > MAX_RECORD_MAGNITUDE:
+                raise InputError(file, f'line {line}, column "{names[signal]}"',
+                                 f"a magnitude of at most {MAX_RECORD_MAGNITUDE:g} (a plausible range, far beyond "
+                                 "any aircraft)", describe_value(cell))
             values.append(value)
         rows.append(values)
     if len(rows) < MIN_SAMPLES:

@@ -246,3 +246,23 @@ def test_a_response_that_overflows_is_one_line_naming_the_duration(output, tmp_p
     import json
 
     json.loads(out, parse_constant=lambda word: pytest.fail(f"{word} in the JSON"))
+
+
+# ------------------------------------------------------------------ a corrupt flight record
+RECORD = ROOT / "aircraft" / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv"
+
+
+@pytest.mark.parametrize("value", ["1e308", "-2e6"])
+def test_a_recorded_value_beyond_any_aircraft_is_one_line(value, tmp_path, capsys):
+    # the campaign put 1e308 into a record: identification gave Cy_dr = -1.2e-308 and the message blamed -o
+    lines = RECORD.read_text().splitlines(keepends=True)
+    number = next(i for i, line in enumerate(lines) if line[:1].isdigit()) + 10
+    cells = lines[number].rstrip("\n").split(",")
+    cells[4] = value  # p_deg_s
+    lines[number] = ",".join(cells) + "\n"
+    record = tmp_path / "record.csv"
+    record.write_text("".join(lines))
+    status, _, err = run(["identify", DEMO, "--condition", "cruise", "--data", record, "--method", "equation-error",
+                          "-o", tmp_path / "identified.toml"], capsys)
+    one_line(status, err, str(record), f'line {number + 1}, column "p_deg_s"', "a magnitude of at most 1e+06")
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["record.csv"]
