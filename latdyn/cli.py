@@ -118,6 +118,37 @@ _NAMED_OPTIONS = {"condition": "--condition", "output": "-o", "plots": "-o/--plo
                   "criteria": "--criteria", "compare": "--compare", "data": "--data"}
 
 
+#: Options whose value is text compared with names from files or written into outputs (not a path).
+_TEXT_OPTIONS = ("condition", "vary", "flight_phase", "column", "fix", "title", "number", "revision", "date",
+                 "prepared", "checked", "approved")
+
+
+def _argument_text(word):
+    """A command-line word as the text typed: under a C locale with UTF-8 mode and locale coercion
+    off, Python hands UTF-8 bytes over as surrogate escapes (``±`` as ``\\udcc2\\udcb1``); decoded
+    here as UTF-8 where they are.  Any other word is returned as it is.
+
+    >>> _argument_text("Cn_r=\\udcc2\\udcb120%"), _argument_text("Cn_r=\\xb120%")
+    ('Cn_r=±20%', 'Cn_r=±20%')
+    """
+    if not any("\udc80" <= char <= "\udcff" for char in word):
+        return word
+    try:
+        return word.encode("utf-8", "surrogateescape").decode("utf-8")
+    except UnicodeError:
+        return word
+
+
+def _text_arguments(args):
+    """The text options (names, --vary, document fields) as typed; paths stay as the system gave them."""
+    for attribute in _TEXT_OPTIONS:
+        value = getattr(args, attribute, None)
+        if isinstance(value, str):
+            setattr(args, attribute, _argument_text(value))
+        elif isinstance(value, list):
+            setattr(args, attribute, [_argument_text(v) if isinstance(v, str) else v for v in value])
+
+
 def _refuse_empty_values(args):
     """One line for an option given an empty (or blank) name or path, before any work."""
     for attribute, option in _NAMED_OPTIONS.items():
@@ -236,6 +267,7 @@ def main(argv=None) -> int:
         try:
             with interruptible(), recording_inputs(), all_or_nothing():
                 _refuse_empty_values(args)
+                _text_arguments(args)
                 status = _command_module(args.command).run(args)
                 sys.stdout.flush()  # a full standard output is found here, not at exit
         except (InputError, UnresolvedRoots) as error:

@@ -266,3 +266,28 @@ def test_a_recorded_value_beyond_any_aircraft_is_one_line(value, tmp_path, capsy
                           "-o", tmp_path / "identified.toml"], capsys)
     one_line(status, err, str(record), f'line {number + 1}, column "p_deg_s"', "a magnitude of at most 1e+06")
     assert sorted(p.name for p in tmp_path.iterdir()) == ["record.csv"]
+
+
+# ------------------------------------------------------------------ text options under a C locale
+# With LC_ALL=C, PYTHONUTF8=0 and PYTHONCOERCECLOCALE=0 Python hands the UTF-8 bytes of the command
+# line over as surrogate escapes: the campaign's `uncertainty --vary Cn_r=±20%` was refused and a
+# non-ASCII condition name was not found.
+C_LOCALE = {"LC_ALL": "C", "LANG": "C", "PYTHONUTF8": "0", "PYTHONCOERCECLOCALE": "0"}
+
+
+def _latdyn_c_locale(*argv):
+    env = {key: value for key, value in os.environ.items() if key not in ("LANG", "LC_CTYPE", "PYTHONIOENCODING")}
+    env.update(C_LOCALE, PYTHONPATH=str(ROOT))
+    return subprocess.run([sys.executable, "-m", "latdyn", *map(str, argv)], capture_output=True, cwd=ROOT,
+                          env=env, timeout=300)
+
+
+def test_text_options_typed_in_utf8_under_a_c_locale(tmp_path):
+    path = tmp_path / "accents.toml"
+    path.write_text(DEMO.read_text(encoding="utf-8").replace('name = "cruise"', 'name = "croisi\u00e8re"'),
+                    encoding="utf-8")
+    done = _latdyn_c_locale("uncertainty", path, "--condition", "croisi\u00e8re", "--samples", "200", "--seed", "1",
+                            "--vary", "Cn_r=\u00b120%", "--format", "json")
+    assert done.returncode == 0, done.stderr
+    document = __import__("json").loads(done.stdout)
+    assert [c["name"] for c in document["conditions"]] == ["croisi\u00e8re"]
