@@ -1277,7 +1277,7 @@ def security(campaign, count):
                            names=(hostile,))
         campaign.attempt(build)
     # hostile file names: the default report folder (reports/<file name>) and figure names from them
-    for stem in ["..", " ", "-o", "$\\frac{$", "x\x1b[31m", "a\nb", "<script>", "=cmd", "é" * 200, ".hidden"]:
+    for stem in ["..", " ", "-o", "$\\frac{$", "x\x1b[31m", "a\nb", "<script>", "=cmd", "é" * 100, ".hidden"]:
         def build(sandbox, stem=stem):
             main = sandbox.write(stem + ".toml", BASE_AIRCRAFT.read_text(encoding="utf-8"))
             argv = rng.choice([["report", "--", str(main)], ["assess", str(main), "-o", str(sandbox.out)],
