@@ -48,7 +48,9 @@ def positive_option(value, option, dimension="none"):
     if value is None:
         return
     least, largest = plausible_range(dimension)
-    if not math.isfinite(value) or value <= 0 or value > largest:
+    if not math.isfinite(value) or value <= 0:
+        raise InputError("command line", option, "a number > 0", repr(value))
+    if value > largest:
         raise InputError("command line", option, f"a number > 0 and at most {largest:g}", f"{value:g}")
 
 
