@@ -41,7 +41,7 @@ from dataclasses import asdict, dataclass
 import numpy as np
 
 __all__ = ["SOURCES", "oscillation_ratio", "local_peaks", "sideslip_phase", "sideslip_excursion",
-           "RollResponse",
+           "RollResponse", "SIGNIFICANT_SWING",
            "roll_response", "first_minimum_verdict", "FIRST_MINIMUM_LIMITS"]
 
 #: Where each quantity comes from, with its confidence mark.
@@ -62,6 +62,10 @@ SOURCES = {
 FIRST_MINIMUM_LIMITS = ((1, ("B",), 0.25), (2, ("A", "C"), 0.25))
 
 _SAMPLES = 4001
+
+#: Least swing between two peaks that counts, as a fraction of the signal's range (common practice
+#: in peak counting; our choice of value): ripples of an actuator or a washout filter are not peaks.
+SIGNIFICANT_SWING = 0.01
 
 
 def oscillation_ratio(peaks, damping_ratio):
@@ -101,11 +105,27 @@ def oscillation_ratio(peaks, damping_ratio):
     return (x1 - x2) / (x1 + x2)
 
 
-def local_peaks(times, values):
+def local_peaks(times, values, significance=0.0):
     """Local maxima and minima of a sampled signal, alternating, in time order.
 
     Each peak is refined by a parabola through the sample and its two
     neighbours (common practice).  The starting value is not a peak.
+
+    With ``significance`` > 0, a peak is kept only when it differs from the
+    last kept peak (or from the starting value) by at least that fraction of
+    the signal's whole swing (max - min); between two kept peaks of one kind
+    the more extreme is kept.  This is the zig-zag (hysteresis) filter of
+    common practice in peak counting: it drops the ripples of fast modes
+    (an actuator, a washout filter) that would otherwise be read as the
+    first peak of the Dutch roll.
+
+    Parameters
+    ----------
+    times, values : array_like
+        The sampled signal.
+    significance : float
+        Least swing between kept peaks as a fraction of the signal's range
+        [-]; 0 keeps every alternating extremum.
 
     Returns
     -------
@@ -117,11 +137,17 @@ def local_peaks(times, values):
     >>> t = np.linspace(0.0, 10.0, 2001)
     >>> [(round(p[0], 3), p[2]) for p in local_peaks(t, np.sin(t))][:2]
     [(1.571, 1), (4.712, -1)]
+
+    A ripple of 0.5 % of the swing before the first peak is dropped at 1 %:
+
+    >>> ripple = 1.0 - np.cos(t) + 0.005 * np.sin(60.0 * t) * (t < 0.5)
+    >>> len(local_peaks(t, ripple)), [(round(p[0], 2), p[2]) for p in local_peaks(t, ripple, 0.01)]
+    (9, [(3.14, 1), (6.28, -1), (9.42, 1)])
     """
     t = np.asarray(times, dtype=float)
     y = np.asarray(values, dtype=float)
     d = np.diff(y)
-    out = []
+    candidates = []
     for i in range(1, len(y) - 1):
         if d[i - 1] > 0 >= d[i] or d[i - 1] < 0 <= d[i]:
             if d[i - 1] == 0:
@@ -133,9 +159,18 @@ def local_peaks(times, values):
             shift = min(max(shift, -1.0), 1.0)
             h = t[i + 1] - t[i]
             value = y1 - 0.25 * (y0 - y2) * shift
-            if out and out[-1][2] == kind:
-                continue
-            out.append((float(t[i] + shift * h), float(value), kind))
+            candidates.append((float(t[i] + shift * h), float(value), kind))
+    threshold = significance * float(np.ptp(y)) if significance > 0 and y.size else 0.0
+    out = []
+    for peak in candidates:
+        if out and out[-1][2] == peak[2]:
+            if threshold > 0 and (peak[1] - out[-1][1]) * peak[2] > 0:
+                out[-1] = peak            # a higher maximum (lower minimum) after a ripple
+            continue
+        previous = out[-1][1] if out else float(y[0])
+        if threshold > 0 and (peak[1] - previous) * peak[2] < threshold:
+            continue
+        out.append(peak)
     return out
 
 
@@ -276,7 +311,7 @@ def roll_response(model, dutch_roll=None, aileron=None, requirement=None, catego
         return RollResponse(notes=("the aileron has no rolling moment",))
     p_osc = first_min = phi_osc = psi = None
     if period and zeta is not None:
-        peaks = local_peaks(times, roll_rate)
+        peaks = local_peaks(times, roll_rate, SIGNIFICANT_SWING)
         if peaks and peaks[0][2] == 1:
             values = [v for _, v, _ in peaks[:3]]
             p_osc = oscillation_ratio(values, zeta)
@@ -286,10 +321,10 @@ def roll_response(model, dutch_roll=None, aileron=None, requirement=None, catego
             p_osc, first_min = 0.0, None
             notes.append("roll rate without a peak (no oscillation): p_osc/p_av = 0")
         bank_pulse = impulse_history(A, B, times, C[names.index("phi")], column)[0] * sign
-        bank_peaks = local_peaks(times, bank_pulse)
+        bank_peaks = local_peaks(times, bank_pulse, SIGNIFICANT_SWING)
         if bank_peaks and bank_peaks[0][2] == 1:
             phi_osc = oscillation_ratio([v for _, v, _ in bank_peaks[:3]], zeta)
-        minima = [p for p in local_peaks(times, sideslip) if p[2] == -1]
+        minima = [p for p in local_peaks(times, sideslip, SIGNIFICANT_SWING) if p[2] == -1]
         if minima:
             # the peak number n that puts psi_beta in (-360, 0] deg (every peak gives the same phase)
             number = math.floor(minima[0][0] / period) + 1

@@ -414,7 +414,11 @@ def bank_numerator_ratios(phi_da, dutch_root):
     omega_phi and zeta_phi are those of the quadratic numerator of phi/da
     (two real zeros z1, z2 give omega_phi = sqrt(z1 z2),
     zeta_phi = -(z1 + z2) / (2 omega_phi)); omega_d and zeta_d those of the
-    Dutch roll root.
+    Dutch roll root.  With a closed loop (a yaw damper, its washout, an
+    actuator, a delay) the numerator has more zeros: the pair that stands
+    for the airframe's quadratic is the complex pair nearest the Dutch roll
+    root (common practice: the phi/da zeros sit near the Dutch roll poles
+    they nearly cancel).
 
     Parameters
     ----------
@@ -426,18 +430,31 @@ def bank_numerator_ratios(phi_da, dutch_root):
     Returns
     -------
     (float, float) or None
-        The two ratios; None unless the numerator is quadratic with a
-        positive product of roots.
+        The two ratios; None when no such pair exists (two zeros with a
+        product <= 0, or more than two zeros none of them complex).
 
     Examples
     --------
     >>> tf = TransferFunction("phi", "aileron", 1.0, (complex(-0.1, 1.0), complex(-0.1, -1.0)), (), (), (), None)
     >>> [round(v, 4) for v in bank_numerator_ratios(tf, complex(-0.2, 2.0))]
     [0.5, 1.0]
+
+    With an actuator pair and a washout zero beside it, the pair near the Dutch roll is taken:
+
+    >>> zeros = (complex(-60.0, 35.0), complex(-60.0, -35.0), -0.4, complex(-0.1, 1.0), complex(-0.1, -1.0))
+    >>> tf = TransferFunction("phi", "aileron", 1.0, zeros, (), (), (), None)
+    >>> [round(v, 4) for v in bank_numerator_ratios(tf, complex(-0.2, 2.0))]
+    [0.5, 1.0]
     """
-    if len(phi_da.zeros) != 2:
-        return None
-    z1, z2 = phi_da.zeros
+    zeros = tuple(complex(z) for z in phi_da.zeros)
+    if len(zeros) == 2:
+        z1, z2 = zeros
+    else:
+        upper = [z for z in zeros if z.imag > 0]
+        if not upper:
+            return None
+        z1 = min(upper, key=lambda z: abs(z - dutch_root))
+        z2 = z1.conjugate()
     product = (z1 * z2).real
     if product <= 0:
         return None

@@ -135,3 +135,36 @@ def test_assess_json_carries_the_indicator_fields(capsys):
         assert set(condition["departure"]) >= {"cn_beta_dynamic", "lcdp"}
         roll = [a for a in condition["assessments"] if a["mode"] == "roll_performance"]
         assert roll and roll[0]["governing"] == "time_to_bank" and roll[0]["bank_change"] > 0
+
+
+@pytest.mark.parametrize("zeta", [0.1, 0.15, 0.3], ids=lambda z: f"zeta {z}")
+def test_ripples_of_a_fast_lag_are_not_peaks(zeta):
+    """The second-order step of Ogata (closed-form peaks, as above) behind a pure delay, the delay
+    as python-control's 6th-order Pade approximant (``control.pade``): the approximant rings in
+    the first 0.1 s with a few 1e-5 (a ripple of fast roots, like an actuator's or a washout's
+    after a step of aileron).  Unfiltered those ripples are the "first peaks"; with the 1 %
+    significance the peaks are the closed form's, delayed: times + 0.1 s, values to 1e-6."""
+    control = pytest.importorskip("control")
+    from latdyn.roll_response import SIGNIFICANT_SWING
+
+    omega, delay = 2.0, 0.1
+    system = control.tf([omega ** 2], [1.0, 2 * zeta * omega, omega ** 2]) * control.tf(*control.pade(delay, 6))
+    t = np.linspace(0.0, 20.0, 40001)
+    y = control.step_response(system, t).outputs
+    raw = local_peaks(t, y)
+    assert raw[0][0] < delay and abs(raw[0][1]) < 1e-3
+    sigma, omega_d = zeta * omega, omega * math.sqrt(1.0 - zeta * zeta)
+    peaks = local_peaks(t, y, SIGNIFICANT_SWING)
+    for n, (time, value, kind) in zip((1, 2, 3), peaks):
+        assert kind == (1 if n % 2 else -1)
+        assert time == pytest.approx(n * math.pi / omega_d + delay, abs=1e-4)
+        assert value == pytest.approx(1.0 - (-1) ** n * math.exp(-sigma * n * math.pi / omega_d), abs=1e-6)
+
+
+def test_significance_keeps_the_more_extreme_of_two_peaks_of_one_kind():
+    """A maximum, a ripple below the significance, a higher maximum: one maximum, the higher."""
+    t = np.linspace(0.0, 4.0, 4001)
+    y = np.interp(t, [0.0, 1.0, 1.2, 2.0, 3.0, 4.0], [0.0, 1.0, 0.995, 1.2, 0.0, 0.5])
+    peaks = local_peaks(t, y, 0.01)
+    assert [(round(p[0], 3), round(p[1], 3), p[2]) for p in peaks] == [(2.0, 1.2, 1), (3.0, 0.0, -1)]
+    assert len(local_peaks(t, y)) == 4

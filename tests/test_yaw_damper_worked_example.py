@@ -211,3 +211,36 @@ def test_fpe_design_against_python_control_root_locus(aircraft):
     assert abs(modes["dutch_roll"].eigenvalue - pair) < 1e-10
     assert modes["dutch_roll"].damping_ratio == pytest.approx(-pair.real / abs(pair), abs=1e-10)
     assert [m.name for m in modes.added] == ["washout", "aileron_actuator", "rudder_actuator"]
+
+
+@pytest.mark.parametrize("condition", list(SOURCE_LOOPS), ids=list(SOURCE_LOOPS))
+def test_roll_response_of_the_closed_loop_against_python_control(aircraft, condition):
+    """The roll-response qualities of the source's closed loops, against python-control.
+
+    * omega_phi/omega_d: python-control's zeros of the loop's phi/aileron (``tf(...).zeros()``);
+      with the washout and the actuator the numerator has more than two zeros, and the pair that
+      stands for the airframe's quadratic is the complex pair nearest the Dutch roll (common
+      practice); the spurious zero near 1e14 of the state-space-to-polynomial conversion is
+      python-control's, far from every root.
+    * p_osc/p_av and the first-minimum ratio (MIL-F-8785C 6.2.6 [secondary]): the peaks of
+      python-control's ``step_response`` of p/aileron (with latdyn's aileron actuator where the
+      source has one, see ``test_closed_loop_is_the_source_diagram``), counted with the same 1 %
+      significance, equal latdyn's from its own simulation."""
+    from latdyn.roll_response import SIGNIFICANT_SWING, local_peaks, oscillation_ratio, roll_response
+
+    ours = condition_model(aircraft, condition)
+    dutch_roll = model_modes(ours)["dutch_roll"]
+    reference = source_loop(**SOURCE_LOOPS[condition])
+    zeros = control.tf(reference[3, 1]).zeros()
+    pair = min((z for z in zeros if z.imag > 0), key=lambda z: abs(z - dutch_roll.eigenvalue))
+    found = roll_response(ours, dutch_roll)
+    assert found.omega_phi_over_omega_d == pytest.approx(abs(pair) / abs(dutch_roll.eigenvalue), rel=1e-7)
+
+    actuator = SOURCE_LOOPS[condition].get("actuator")
+    roll_rate = reference[2, 1] * (control.tf([1.0 / actuator], [1.0, 1.0 / actuator]) if actuator else 1)
+    t = np.linspace(0.0, max(10.0, 3.0 * dutch_roll.period), 4001)
+    p = control.step_response(roll_rate, t).outputs
+    p = p * np.sign(p[np.argmax(np.abs(p))])
+    peaks = [value for _, value, _ in local_peaks(t, p, SIGNIFICANT_SWING)[:3]]
+    assert found.p_osc_over_p_av == pytest.approx(oscillation_ratio(peaks, dutch_roll.damping_ratio), abs=1e-9)
+    assert found.first_minimum_ratio == pytest.approx(peaks[1] / peaks[0], abs=1e-9)
