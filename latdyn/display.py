@@ -22,7 +22,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field
 
-__all__ = ["DASH", "ROUND_OFF", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
+__all__ = ["DASH", "ROUND_OFF", "EXPONENT_FROM", "format_number", "format_root", "DisplayUnit", "UnitSystem", "SI", "US",
            "DEFAULT", "SYSTEMS", "unit_system", "SIGNAL_QUANTITIES", "DERIVATIVE_QUANTITIES",
            "derivative_unit", "bank_at_end_words"]
 
@@ -32,6 +32,11 @@ DASH = "-"
 #: Magnitudes below this are the round-off of a zero in double precision on figures of order
 #: one (a rotated zero derivative, a cancelled coefficient) and are shown as 0.
 ROUND_OFF = 1e-12
+
+
+#: Powers of ten from which "significant" numbers are shown with an exponent (1e12: beyond every
+#: quantity of an aircraft in any unit; a diverging response can reach 1e300).
+EXPONENT_FROM = 12
 
 
 def format_number(value, digits=4, *, style="significant", signed=False):
@@ -64,6 +69,11 @@ def format_number(value, digits=4, *, style="significant", signed=False):
 
     >>> format_number(1.2e-15), format_number(-3e-17, style="general"), format_number(-0.0)
     ('0', '0', '0')
+
+    Beyond :data:`EXPONENT_FROM` digits before the point, an exponent (never 140 digits):
+
+    >>> format_number(123456.7), format_number(7.716e139)
+    ('123457', '7.716e+139')
     """
     if value is None or isinstance(value, bool):
         return DASH
@@ -80,6 +90,8 @@ def format_number(value, digits=4, *, style="significant", signed=False):
     if value == 0:
         return sign + "0" if signed else "0"
     magnitude = math.floor(math.log10(abs(value)))
+    if magnitude >= EXPONENT_FROM:
+        return f"{value:{sign}.{digits}g}"
     decimals = max(digits - 1 - magnitude, 0)
     return f"{value:{sign}.{decimals}f}"
 

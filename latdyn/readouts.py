@@ -362,7 +362,14 @@ def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseRe
     """
     from latdyn.errors import warn
 
+    from latdyn.responses import LARGEST_VALUE, finite_part
+
+    warnings = []
+    response, overflow = finite_part(response)
     time = np.asarray(response.time)
+    if overflow is not None:
+        warnings.append(f"the response grows without bound (beyond {LARGEST_VALUE:g} at {overflow:.3g} s: a "
+                        f"strongly divergent root): the read-outs cover the first {time[-1]:.3g} s only")
     peaks = []
     for index, name in enumerate(response.output_names):
         values = response.outputs[:, index]
@@ -378,7 +385,6 @@ def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseRe
         dutch = log_decrement(time, values, begin, signal=name)
         if dutch is not None:
             break
-    warnings = []
     for name, limit in SMALL_DISTURBANCE_LIMITS.items():
         try:
             largest = float(np.abs(response.signal(name)).max())

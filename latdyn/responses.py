@@ -21,7 +21,7 @@ display only (:func:`display_columns`).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -29,6 +29,8 @@ from latdyn.display import SI, SIGNAL_QUANTITIES
 
 __all__ = [
     "overflow_time",
+    "LARGEST_VALUE",
+    "finite_part",
     "CSV_COLUMNS",
     "HOLDS",
     "Response",
@@ -524,12 +526,19 @@ def simulate(model, history, initial=None, hold="zero", label="") -> Response:
                     output_names, label, description, hold, history.end_time)
 
 
+#: Largest magnitude a response's states and outputs may reach [SI units]: far beyond any motion
+#: (the linear model holds to a few tenths of a radian) and far short of the floating-point range,
+#: so that every unit conversion and plot of the values stays finite (our choice).
+LARGEST_VALUE = 1e100
+
+
 def overflow_time(response):
-    """The first time [s] at which a response is no longer a finite number, or None.
+    """The first time [s] at which a response is beyond :data:`LARGEST_VALUE` or not a finite number, or None.
 
     A strongly divergent model (a root doubling the motion every few
     milliseconds) run for tens of seconds grows beyond the largest floating
-    point number: the caller refuses such a run instead of showing NaN.
+    point number: the caller refuses such a run, or shows the part before
+    (:func:`finite_part`), instead of showing NaN.
 
     >>> import numpy as np
     >>> r = Response(np.array([0.0, 1.0, 2.0]), np.zeros((3, 2)), np.zeros((3, 1)),
@@ -537,8 +546,43 @@ def overflow_time(response):
     >>> overflow_time(r)
     1.0
     """
-    bad = ~(np.isfinite(response.states).all(axis=1) & np.isfinite(response.outputs).all(axis=1))
+    with np.errstate(invalid="ignore"):
+        bad = ~((np.abs(response.states) <= LARGEST_VALUE).all(axis=1)
+                & (np.abs(response.outputs) <= LARGEST_VALUE).all(axis=1))
     return float(response.time[np.argmax(bad)]) if bad.any() else None
+
+
+def finite_part(response):
+    """The part of a response that is still a finite number, and the time it stops being one.
+
+    A strongly divergent root (doubling the motion every few milliseconds)
+    grows beyond :data:`LARGEST_VALUE`, then the floating-point range, within
+    the run; what follows is not a motion.  Read-outs and figures use the part before (:func:`overflow_time`).
+
+    Returns
+    -------
+    (Response, float or None)
+        The response cut before the first non-finite sample (at least its
+        first sample), and that time [s]; the response itself and None when
+        every sample is finite.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> r = Response(np.array([0.0, 1.0, 2.0]), np.zeros((3, 2)), np.zeros((3, 1)),
+    ...              np.array([[0.0], [0.5], [np.inf]]), ("beta",), ("aileron", "rudder"), ("beta",))
+    >>> part, at = finite_part(r)
+    >>> part.time.tolist(), at
+    ([0.0, 1.0], 2.0)
+    """
+    at = overflow_time(response)
+    if at is None:
+        return response, None
+    time = np.asarray(response.time)
+    kept = max(int(np.searchsorted(time, at)), 1)
+    return replace(response, time=time[:kept], inputs=np.asarray(response.inputs)[:kept],
+                   states=np.asarray(response.states)[:kept], outputs=np.asarray(response.outputs)[:kept],
+                   input_end=min(response.input_end, float(time[kept - 1]))), at
 
 
 #: Largest sideslip and bank a standard response is sized to stay within [rad]: 8 deg and 30 deg
@@ -949,8 +993,8 @@ def standard_response(model, modes, kind, label="", limits=None) -> StandardResp
     settings, sizing = size_defaults([model], [modes], [kind], run_settings(default_inputs(modes)),
                                      limits=limits)
     response = simulate(model, run_inputs([kind], (), settings), label=label)
-    return StandardResponse(kind, response, read_response(response), settings.amplitude, dict(limits),
-                            sizing, settings)
+    return StandardResponse(kind, finite_part(response)[0], read_response(response), settings.amplitude,
+                            dict(limits), sizing, settings)
 
 
 def replayed_response(model, standard, label="") -> StandardResponse:
@@ -977,7 +1021,7 @@ def replayed_response(model, standard, label="") -> StandardResponse:
     given = standard.response
     history = InputHistory(given.time, given.signal("aileron"), given.signal("rudder"), given.description)
     response = simulate(model, history, label=label)
-    return StandardResponse(standard.kind, response, read_response(response), standard.amplitude,
+    return StandardResponse(standard.kind, finite_part(response)[0], read_response(response), standard.amplitude,
                             dict(standard.limits), standard.sizing, standard.settings)
 
 

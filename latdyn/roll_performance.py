@@ -152,6 +152,8 @@ def _modal_response(lam, residues, t, ramp):
         else:
             g_ramp = (_ramp_integral(L, tt) - _ramp_integral(L, tt - safe_ramp)) / safe_ramp
             g = np.where(step[:, None, None], tt * _phi1(L * tt), g_ramp)
+        # a root that doubles the motion every few milliseconds leaves the floating-point range:
+        # those histories are inf/nan and their figures "not computed" (never warned per model)
         return np.einsum("nmk,nkt->nmt", residues, g).real
 
 
@@ -229,7 +231,8 @@ def impulse_history(A, B, times, row, input_column=0):
     c = np.broadcast_to(np.asarray(row, dtype=float), (N, n))[:, None, :]
     t = np.asarray(times, dtype=float)
     lam, residues, bad = _modal(A, b, c)
-    y = np.einsum("nk,nkt->nt", residues[:, 0, :], np.exp(lam[:, :, None] * t[None, None, :])).real
+    with np.errstate(all="ignore"):  # a strongly divergent root overflows: inf/nan, "not computed"
+        y = np.einsum("nk,nkt->nt", residues[:, 0, :], np.exp(lam[:, :, None] * t[None, None, :])).real
     for i in np.flatnonzero(bad):
         y[i] = [c[i, 0] @ expm(A[i] * ti) @ b[i] for ti in t]
     return y

@@ -309,6 +309,10 @@ def roll_response(model, dutch_roll=None, aileron=None, requirement=None, catego
         *bank_history(A, B, [amplitude], [np.inf], times, C[names.index("phi")], column, rows))
     if sign == 0:
         return RollResponse(notes=("the aileron has no rolling moment",))
+    if not (np.isfinite(bank).all() and np.isfinite(roll_rate).all() and np.isfinite(sideslip).all()):
+        return RollResponse(notes=(f"the response to the roll command grows beyond the floating-point range "
+                                   f"within {horizon:g} s (a strongly divergent root): the roll-response "
+                                   "qualities are not computed",))
     p_osc = first_min = phi_osc = psi = None
     if period and zeta is not None:
         peaks = local_peaks(times, roll_rate, SIGNIFICANT_SWING)
@@ -321,7 +325,7 @@ def roll_response(model, dutch_roll=None, aileron=None, requirement=None, catego
             p_osc, first_min = 0.0, None
             notes.append("roll rate without a peak (no oscillation): p_osc/p_av = 0")
         bank_pulse = impulse_history(A, B, times, C[names.index("phi")], column)[0] * sign
-        bank_peaks = local_peaks(times, bank_pulse, SIGNIFICANT_SWING)
+        bank_peaks = local_peaks(times, bank_pulse, SIGNIFICANT_SWING) if np.isfinite(bank_pulse).all() else []
         if bank_peaks and bank_peaks[0][2] == 1:
             phi_osc = oscillation_ratio([v for _, v, _ in bank_peaks[:3]], zeta)
         minima = [p for p in local_peaks(times, sideslip, SIGNIFICANT_SWING) if p[2] == -1]

@@ -291,3 +291,57 @@ def test_text_options_typed_in_utf8_under_a_c_locale(tmp_path):
     assert done.returncode == 0, done.stderr
     document = __import__("json").loads(done.stdout)
     assert [c["name"] for c in document["conditions"]] == ["croisi\u00e8re"]
+
+
+def test_standard_responses_of_a_divergent_model_stay_numbers():
+    """A report's standard responses and read-outs of a model whose response leaves the number range
+    (before: NaN in the report's read-out CSV): the part before is kept and said, every read-out is a
+    number, and the roll-response qualities are "not computed" with the reason."""
+    import math
+    import warnings
+
+    import numpy as np
+
+    from latdyn.aircraft import load_aircraft
+    from latdyn.augmentation import condition_model
+    from latdyn.readouts import read_response
+    from latdyn.responses import LARGEST_VALUE, finite_part, simulate, standard_response
+    from latdyn.results import condition_modes
+    from latdyn.roll_response import roll_response
+
+    path = pathlib.Path(os.environ.get("TMPDIR", "/tmp")) / f"latdyn-divergent-{os.getpid()}.toml"
+    path.write_text(DIVERGENT)
+    try:
+        aircraft = load_aircraft(path)
+    finally:
+        path.unlink()
+    condition = aircraft.conditions[0]
+    model = condition_model(aircraft, condition)
+    modes = condition_modes(aircraft, condition, model)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always")
+        for kind in ("rudder-doublet", "aileron-step"):
+            standard = standard_response(model, modes, kind)
+            response = standard.response
+            assert np.isfinite(response.outputs).all() and np.abs(response.outputs).max() <= LARGEST_VALUE
+            assert finite_part(response)[1] is None
+            readouts = standard.readouts
+            assert all(math.isfinite(p.value) and math.isfinite(p.time) for p in readouts.peaks)
+            assert math.isfinite(readouts.residual_bank_angle) and math.isfinite(readouts.bank_rate_at_end)
+            assert any("grows without bound" in w for w in readouts.warnings)
+        rolled = roll_response(model, modes.get("dutch_roll"))
+        # the demo aircraft with a roll root near +500 1/s (Cl_p = +80): its roll response overflows
+        demo = pathlib.Path(__file__).resolve().parents[1] / "aircraft" / "kestrel-k40.toml"
+        text = demo.read_text().replace("Cl_p = -0.47", "Cl_p = 80.0", 1)
+        path.write_text(text)
+        try:
+            steep = load_aircraft(path)
+        finally:
+            path.unlink()
+        steep_model = condition_model(steep, steep.conditions[0])
+        overflowing = roll_response(steep_model, condition_modes(steep, steep.conditions[0], steep_model)
+                                    .get("dutch_roll"))
+    assert not [w for w in caught if issubclass(w.category, RuntimeWarning)]
+    assert all(v is None or math.isfinite(v) for v in (rolled.p_osc_over_p_av, rolled.delta_beta_max))
+    assert overflowing.p_osc_over_p_av is None and overflowing.delta_beta_max is None
+    assert "not computed" in " ".join(overflowing.notes)

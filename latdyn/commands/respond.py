@@ -342,15 +342,16 @@ def respond_document(cases, labels, readouts=None, transfers=None, ratios=None) 
 def _refuse_overflow(cases, responses, args):
     """One line for a run over which a strongly divergent model's response leaves the floating-point range."""
     from latdyn.errors import InputError
-    from latdyn.responses import overflow_time
+    from latdyn.responses import LARGEST_VALUE, overflow_time
 
     for (aircraft, condition), response in zip(cases, responses):
         at = overflow_time(response)
         if at is not None:
             option = "--duration" if args.duration is None else f"--duration {args.duration:g}"
             raise InputError(aircraft.file, option, f"a run over which the response stays a finite number (it "
-                             f"grows beyond the floating-point range at {at:g} s: a divergent root; give a shorter "
-                             "--duration)", f"a run to {response.time[-1]:g} s", condition.name)
+                             f"grows without bound, beyond {LARGEST_VALUE:g} at {at:g} s on its way out of the "
+                             "floating-point range: a divergent root; give a shorter --duration)",
+                             f"a run to {response.time[-1]:g} s", condition.name)
 
 
 def run(args):
