@@ -1338,8 +1338,60 @@ def leaf_units(table):
 
 
 
-def _dimensional(axes, primed, given, flight, mass, context):
-    """DimensionalDerivatives (SI) from the forms a file gives, with V, m and the inertias."""
+def _change_words(key, before, after, unit_system):
+    """``Ixx 1048 -> 2000 slug ft^2``: one changed mass property in the file's units."""
+    if key == "axes" or before is None or after is None:
+        return f"{key} {before} -> {after}"
+    dimension = "mass" if key == "mass" else "inertia"
+    shown = [f"{units.from_si(value, dimension, unit_system):.6g}" for value in (before, after)]
+    return f"{key} {shown[0]} -> {shown[1]} {units.unit_word(dimension, unit_system)}"
+
+
+def _written_inertias(table, partial, files, mass, context, unit_system="SI"):
+    """The mass and inertias a base file's per-unit-inertia derivatives were written for, where a
+    newer file of the ``extends`` chain changed them: ({file: (MassProperties, quantities)}, notes)."""
+    _, _, given = partial
+    by_file = {}
+    for quantity, (key, _, _, divisor) in given.items():
+        leaf = table[key]
+        if divisor is None and leaf.file != files[0]:
+            by_file.setdefault(leaf.file, []).append(quantity)
+    carried, notes = {}, []
+    for file, quantities in by_file.items():
+        try:
+            base = read_tree(file)
+            written = _mass(base, _Context(base["__files__"]))
+        except InputError:
+            continue
+        if mass is None or written is None or written == mass:
+            continue
+        carried[file] = (written, tuple(quantities))
+        changed = ", ".join(_change_words(key, getattr(written, key), getattr(mass, key), unit_system)
+                            for key in ("mass", "Ixx", "Izz", "Ixz", "axes")
+                            if getattr(written, key) != getattr(mass, key))
+        notes.append(f"{files[0]}: condition \"{context.condition}\": the dimensional derivatives of {file} "
+                     f"are per unit mass and inertia: carried to this file's mass properties ({changed}), "
+                     "the forces and moments held")
+    return carried, notes
+
+
+def _axis_inertia(mass, axes, alpha):
+    """(Ixx, Izz, Ixz) of ``mass`` in the derivatives' axes."""
+    if mass.axes == axes:
+        return mass.Ixx, mass.Izz, mass.Ixz
+    from latdyn.model import rotate_inertia
+
+    angle = alpha if axes == "stability" else -alpha
+    return tuple(float(v) for v in rotate_inertia(mass.Ixx, mass.Izz, mass.Ixz, angle))
+
+
+def _dimensional(axes, primed, given, flight, mass, context, carried=None):
+    """DimensionalDerivatives (SI) from the forms a file gives, with V, m and the inertias.
+
+    ``carried`` ({file: (MassProperties, quantities)}, :func:`_written_inertias`): per-unit-inertia
+    values a base file wrote for other mass properties, carried to ``mass``
+    (:func:`latdyn.model.carry_to_inertias`).
+    """
     needs = {divisor for _, _, _, divisor in given.values() if divisor}
     inertia = None
     if needs & {"Ixx", "Izz"} or "mass" in needs:
@@ -1361,6 +1413,14 @@ def _dimensional(axes, primed, given, flight, mass, context):
              "Ixx": inertia[0] if inertia else None, "Izz": inertia[1] if inertia else None}
     values = {quantity: value * flight.speed**power / scale[divisor]
               for quantity, (_, value, power, divisor) in given.items()}
+    if carried:
+        from latdyn.model import carry_to_inertias
+
+        new = (mass.mass, *_axis_inertia(mass, axes, flight.alpha))
+        for written, quantities in carried.values():
+            moved = carry_to_inertias(values, primed, (written.mass, *_axis_inertia(written, axes, flight.alpha)),
+                                      new)
+            values.update({quantity: float(moved[quantity]) for quantity in quantities})
     return DimensionalDerivatives(axes=axes, primed=primed, **values)
 
 
@@ -1412,7 +1472,10 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         augmentation, notes = _augmentation(tree, entry, context, given)
         warnings.extend(notes)
         if isinstance(derivatives, tuple):
-            derivatives = _dimensional(*derivatives, flight, mass, context)
+            carried, note = _written_inertias(entry["dimensional"], derivatives, files, mass, context,
+                                              tree.get("__units__", "SI"))
+            derivatives = _dimensional(*derivatives, flight, mass, context, carried)
+            warnings.extend(note)
             if not derivatives.primed and mass is None:
                 context.fail("mass", "a [mass] block with Ixx, Izz, Ixz (primed = false needs them)",
                              "no [mass] block")

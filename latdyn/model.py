@@ -39,7 +39,7 @@ from latdyn.units import STANDARD_GRAVITY
 
 __all__ = [
     "LateralModel", "lateral_model", "lateral_matrices", "output_matrices",
-    "dimensional_from_coefficients", "prime", "rotate_primed", "rotate_coefficients",
+    "dimensional_from_coefficients", "prime", "unprime", "carry_to_inertias", "rotate_primed", "rotate_coefficients",
     "rotate_inertia", "primed_derivatives", "primed_values", "equation_angles",
     "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES", "DIMENSIONAL_OF", "STATE_NAMES", "INPUT_NAMES",
 ]
@@ -191,6 +191,86 @@ def prime(derivatives, Ixx, Izz, Ixz):
         out["L_" + suffix] = gain * (roll + (Ixz / Ixx) * yaw)
         out["N_" + suffix] = gain * (yaw + (Ixz / Izz) * roll)
     return out
+
+
+def unprime(derivatives, Ixx, Izz, Ixz):
+    """Take the product of inertia out of primed rolling and yawing derivatives (inverse of :func:`prime`).
+
+    .. math::
+        L = L' - (I_{xz}/I_{xx}) N',\\quad N = N' - (I_{xz}/I_{zz}) L'
+
+    (solving eq. 4-57 of McRuer, Ashkenas and Graham, *Aircraft Dynamics and
+    Automatic Control*, 1973, for the unprimed pair).
+
+    Examples
+    --------
+    >>> d = unprime(prime({"L_beta": -1.0, "N_beta": 1.0}, 1.0, 2.0, 0.5), 1.0, 2.0, 0.5)
+    >>> round(float(d["L_beta"]), 12), round(float(d["N_beta"]), 12)
+    (-1.0, 1.0)
+    """
+    out = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    Ixx, Izz, Ixz = (np.asarray(v, dtype=float) for v in (Ixx, Izz, Ixz))
+    for suffix in _MOMENT_SUFFIXES:
+        roll, yaw = out["L_" + suffix], out["N_" + suffix]
+        out["L_" + suffix] = roll - (Ixz / Ixx) * yaw
+        out["N_" + suffix] = yaw - (Ixz / Izz) * roll
+    return out
+
+
+def carry_to_inertias(derivatives, primed, written, new):
+    """Dimensional derivatives per unit mass and inertia, written for one mass and inertia, for another.
+
+    The aerodynamic forces and moments are held (they do not depend on the
+    mass distribution): with the unprimed derivatives
+    Y = Y_force / m, L = L_moment / Ixx, N = N_moment / Izz (the definitions,
+    Etkin & Reid, *Dynamics of Flight*, 3rd ed., 1996, table 4.5),
+
+    .. math::
+        Y_{new} = Y\\,m_w/m_n,\\quad L_{new} = L\\,I_{xx,w}/I_{xx,n},\\quad
+        N_{new} = N\\,I_{zz,w}/I_{zz,n}
+
+    primed derivatives are unprimed with the written inertias first
+    (:func:`unprime`) and primed with the new ones after (:func:`prime`).
+
+    Parameters
+    ----------
+    derivatives : mapping
+        :data:`DIMENSIONAL_NAMES` [SI].
+    primed : bool
+        Whether L and N include Ixz.
+    written, new : (float or None, float, float, float)
+        (m, Ixx, Izz, Ixz) the derivatives were written for, and the new ones,
+        in the derivatives' axes [kg, kg m^2]; a mass of None keeps the side
+        force derivatives.
+
+    Returns
+    -------
+    dict
+
+    Examples
+    --------
+    Twice the roll inertia halves the roll acceleration per sideslip:
+
+    >>> d = carry_to_inertias({"L_beta": -12.0, "N_beta": 4.0}, False, (1000.0, 2000.0, 5000.0, 0.0),
+    ...                       (1000.0, 4000.0, 5000.0, 0.0))
+    >>> float(d["L_beta"]), float(d["N_beta"])
+    (-6.0, 4.0)
+    """
+    raw = unprime(derivatives, *written[1:]) if primed else \
+        {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    m_written, Ixx_written, Izz_written, _ = written
+    m_new, Ixx_new, Izz_new, _ = new
+    out = {}
+    for name, value in raw.items():
+        if name.startswith("L_"):
+            out[name] = value * Ixx_written / Ixx_new
+        elif name.startswith("N_"):
+            out[name] = value * Izz_written / Izz_new
+        elif m_written is not None and m_new is not None:
+            out[name] = value * m_written / m_new
+        else:
+            out[name] = value
+    return prime(out, *new[1:]) if primed else out
 
 
 def rotate_inertia(Ixx, Izz, Ixz, angle):

@@ -162,3 +162,67 @@ def test_as_given_table_shows_each_form_as_written(write_file):
                                                   rel=1e-12, abs=1e-15), key
     assert given["Y_beta"]["used_value"] == pytest.approx(case["derivatives"]["Y_v"], rel=1e-12)
     assert given["Ystar_dr"]["used_value"] == pytest.approx(case["Ystar_dr"] * speed * FOOT, rel=1e-12)
+
+
+# ------------------------------------------------------ a variant that changes the mass properties
+def _toml_mass(inertia):
+    return "[mass]\n" + "\n".join(f"{k} = {v!r}" for k, v in inertia.items()) + "\n"
+
+
+CARRIED = [("P3-attack-jet-high-alpha-CR96008", "body-inertias", "stability-inertias"),
+           ("P4-rocket-research-CR2144", "stability-inertias", "body-inertias"),
+           ("P1-light-single-CR96008", "body-inertias", "stability-inertias")]
+
+
+@pytest.mark.parametrize("name,written,new", CARRIED, ids=[c[0] for c in CARRIED])
+def test_a_variant_with_new_inertias_holds_the_moments(name, written, new, write_file):
+    """A base file gives the published primed derivatives (per unit inertia) with one set of mass
+    properties; a variant ``extends`` it and changes them.  The aerodynamic forces and moments do
+    not depend on the mass distribution, so the variant must be the aircraft whose force and
+    moment derivatives are those of the base (the unprimed moments of the published case with the
+    written inertias, as in ``force_form``: the definitions L = L_moment / Ixx, N = N_moment / Izz,
+    Y = Y_force / m, Etkin & Reid, Dynamics of Flight, 3rd ed., 1996, table 4.5) divided by the new
+    mass and inertias.  Before: the variant's modes were the base's, in silence."""
+    case = CASES[name]
+    base = write_file("base.toml", dimensional_toml(case, mass=INERTIAS[written]))
+    variant = write_file("variant.toml", f'extends = "{base.name}"\nname = "heavier"\n\n'
+                         + _toml_mass(INERTIAS[new]))
+    values, _, speed = force_form(case, INERTIAS[written], "US")
+    reference = write_file("moments.toml", dimensional_toml(dict(case, speed=speed), derivatives=values,
+                                                            primed=False, mass=INERTIAS[new]))
+    with pytest.warns(UserWarning, match=r"variant\.toml: condition \"check\": the dimensional derivatives "
+                                         r"of .*base\.toml are per unit mass and inertia: carried .*Ixx 6000 -> "
+                                         r"400000 slug ft\^2|Ixx 400000 -> 6000 slug ft\^2"):
+        assert_same_model(variant, reference)
+
+
+def test_a_variant_that_restates_the_derivatives_or_keeps_the_mass_is_not_carried(write_file, recwarn):
+    case = CASES["P1-light-single-CR96008"]
+    base = write_file("base.toml", dimensional_toml(case, mass=INERTIAS["body-inertias"]))
+    same = write_file("same.toml", f'extends = "{base.name}"\nname = "same"\n\n'
+                      + _toml_mass(INERTIAS["body-inertias"]))
+    assert_same_model(same, base)
+    restated = write_file("restated.toml", dimensional_toml(case, mass=INERTIAS["stability-inertias"])
+                          .replace('name = "check case"', f'extends = "{base.name}"\nname = "restated"'))
+    matrices(restated)
+    assert not [w for w in recwarn if "carried" in str(w.message)]
+
+
+@pytest.mark.parametrize("key", ["Ixx", "Izz", "Ixz", "mass"])
+def test_a_sweep_of_a_mass_property_equals_the_variant(key, write_file, recwarn):
+    """A sweep point of a mass property on dimensional derivatives is the variant file that
+    writes that value (one rule for both routes)."""
+    from latdyn.studies.batch import case_matrices, condition_set, sweep_notes
+
+    case = CASES["P4-rocket-research-CR2144"]
+    inertia = INERTIAS["body-inertias"]
+    base = write_file("base.toml", dimensional_toml(case, mass=inertia))
+    value = {"Ixx": 9000.0, "Izz": 21000.0, "Ixz": -800.0, "mass": 650.0}[key]
+    variant = write_file("variant.toml", f'extends = "{base.name}"\nname = "v"\n\n'
+                         + _toml_mass(dict(inertia, **{key: value})))
+    aircraft = load_aircraft(base)
+    si = value * (SLUG if key == "mass" else SLUG_FOOT2)
+    swept = case_matrices(condition_set(aircraft, "check", {key: [si]}))[0]
+    expected = lateral_model(load_aircraft(variant), "check").A
+    np.testing.assert_allclose(swept, expected, rtol=1e-12, atol=1e-14)
+    assert any("forces and moments are held" in n for n in sweep_notes(aircraft, aircraft.conditions[0], [key]))

@@ -195,6 +195,11 @@ def sweep_notes(aircraft, condition, names) -> tuple:
                      "the non-dimensional derivatives are held and the dimensional ones scaled "
                      "with the flight condition (L_beta, N_beta and the controls with rho V^2, "
                      "Y_v and the rate derivatives with rho V)")
+    carried = [n for n in names if n in MASS_PROPERTIES]
+    if carried and not isinstance(condition.derivatives, NondimensionalDerivatives):
+        notes.append(f'{condition.name}: {", ".join(carried)} varied on dimensional derivatives: the '
+                     "aerodynamic forces and moments are held and the derivatives per unit mass and "
+                     "inertia (the file's, and any swept with them) carried to each point's mass properties")
     if getattr(condition, "estimated", ()) and any(
             n in _FLIGHT_STATE + ("mass", "alpha", "gamma", "wing_area", "span") + _FIN_KEYS
             or "." in n for n in names):
@@ -257,6 +262,8 @@ def case_inputs(cases: CaseSet) -> dict:
         for name in names:
             if name not in overrides:
                 values[name] = values[name] * (pressure if name in _PRESSURE_SCALED else velocity)
+    if not nondimensional and m is not None and any(k in overrides for k in MASS_PROPERTIES):
+        values.update(_carried_to_inertias(values, names, derivatives, m, flight.alpha))
     estimated = [n for n in getattr(condition, "estimated", ()) if n not in overrides]
     if estimated and any(k not in names and k not in CONTROL_PARAMETERS for k in overrides):
         totals = _estimated_again(cases, values)
@@ -274,6 +281,25 @@ def case_inputs(cases: CaseSet) -> dict:
             {name: getattr(derivatives, name) for name in RUDDER}))
     values["nondimensional"] = nondimensional
     return values
+
+
+def _carried_to_inertias(values, names, derivatives, mass, alpha):
+    """Dimensional derivatives (per unit mass and inertia) of the file's mass properties carried to
+    the case set's, the forces and moments held (:func:`latdyn.model.carry_to_inertias`).  Derivatives
+    the case set varies as well are read as the file's are: per unit of the file's mass properties."""
+    from latdyn.model import carry_to_inertias, rotate_inertia
+
+    def in_axes(Ixx, Izz, Ixz, alpha_values):
+        if mass.axes == derivatives.axes:
+            return Ixx, Izz, Ixz
+        angle = alpha_values if derivatives.axes == "stability" else -np.asarray(alpha_values)
+        return rotate_inertia(Ixx, Izz, Ixz, angle)
+
+    written = (mass.mass, *in_axes(mass.Ixx, mass.Izz, mass.Ixz, alpha))
+    new = (values["mass"] if mass.mass is not None else None,
+           *in_axes(values["Ixx"], values["Izz"], values["Ixz"], values["alpha"]))
+    carried = carry_to_inertias({name: values[name] for name in names}, derivatives.primed, written, new)
+    return {name: carried[name] for name in names}
 
 
 def case_primed(cases: CaseSet, inputs=None):

@@ -66,14 +66,15 @@ STEP = 1e-3
 
 
 def sensitivity_parameters(aircraft, condition) -> tuple:
-    """The derivatives and mass properties that enter A for this condition."""
+    """The derivatives and mass properties that enter A for this condition.
+
+    Every mass property the file gives: dimensional derivatives are per unit mass
+    and inertia, so a change of mass properties holds the forces and moments and
+    changes them (:func:`latdyn.model.carry_to_inertias`)."""
     nondimensional = isinstance(condition.derivatives, NondimensionalDerivatives)
     allowed = parameter_names(aircraft, condition)
     names = list(_STATE_DERIVATIVES[nondimensional])
-    primed = getattr(condition.derivatives, "primed", False)
-    for key in MASS_PROPERTIES:
-        if key in allowed and (nondimensional or (not primed and key != "mass")):
-            names.append(key)
+    names += [key for key in MASS_PROPERTIES if key in allowed]
     augmentation = getattr(condition, "augmentation", None)
     if augmentation is not None:
         # the gains and time constants in use (a block that is absent has no derivative)
