@@ -24,11 +24,13 @@ import signal
 import stat
 import tempfile
 import threading
+from dataclasses import dataclass
 
 from latdyn.errors import InputError
 
-__all__ = ["all_or_nothing", "writing_directly", "atomic_output", "atomic_path", "check_output_file", "check_output_folder", "check_outputs",
-           "write_error", "Interrupted", "interruptible", "deferred_interrupts"]
+__all__ = ["Output", "check_output_plan", "all_or_nothing", "writing_directly", "atomic_output", "atomic_path",
+           "check_output_file", "check_output_folder", "check_outputs", "write_error", "Interrupted", "interruptible",
+           "deferred_interrupts"]
 
 
 def write_error(path, error, expected="an output file that can be written") -> InputError:
@@ -50,6 +52,15 @@ _SPECIAL = {stat.S_IFCHR: "a character device", stat.S_IFBLK: "a block device", 
             stat.S_IFSOCK: "a socket"}
 
 
+def _kind_of(path):
+    """What an existing path that is not a regular file is, in words, or None."""
+    try:
+        mode = os.stat(path).st_mode
+    except (OSError, ValueError):
+        return None
+    return "a folder" if stat.S_ISDIR(mode) else _SPECIAL.get(stat.S_IFMT(mode))
+
+
 def _refuse_special(path, option=None):
     """Refuse an output path that exists and is a device, a named pipe or a socket.
 
@@ -61,12 +72,8 @@ def _refuse_special(path, option=None):
     ...
     latdyn.errors.InputError: /dev/null: expected an output that is a regular file or a new one (--csv), found a character device
     """
-    try:
-        mode = os.stat(path).st_mode
-    except (OSError, ValueError):
-        return
-    kind = _SPECIAL.get(stat.S_IFMT(mode))
-    if kind:
+    kind = _kind_of(path)
+    if kind and kind != "a folder":
         raise InputError(path, None, "an output that is a regular file or a new one"
                          + (f" ({option})" if option else ""), kind)
 
@@ -244,7 +251,8 @@ def check_output_folder(folder, option):
     """
     folder = os.fspath(folder)
     if not os.path.isdir(folder):
-        raise InputError(folder, None, f"an existing folder for the outputs ({option})", "no such folder")
+        found = _kind_of(folder) or ("a file" if os.path.lexists(folder) else "no such folder")
+        raise InputError(folder, None, f"an existing folder for the outputs ({option})", found)
     if not os.access(folder, os.W_OK):
         raise InputError(folder, None, f"a writable folder for the outputs ({option})",
                          "a folder without write permission")
@@ -297,6 +305,101 @@ def check_output_file(path, option, figure=False):
         if suffix[1:] not in formats:
             raise InputError(path, None, f"a figure file ({option}) ending in one of "
                              + " ".join("." + name for name in sorted(formats)), f'the suffix "{suffix}"')
+
+
+@dataclass(frozen=True)
+class Output:
+    """One output a command is about to write, for :func:`check_output_plan`.
+
+    Attributes
+    ----------
+    path : str
+        Where it goes.
+    option : str
+        The command-line option that named it (``--csv``; ``-o``), said in a refusal.
+    kind : str
+        ``"file"``; ``"figure"`` (a file whose suffix names a figure format);
+        ``"folder"`` (an existing folder the files go into, ``assess -o``);
+        ``"report"`` (a folder written whole, made with its parents and
+        replaced only under ``force``, :func:`latdyn.output_folders.atomic_folder`).
+    force : bool
+        For a report: ``--force`` was given.
+    """
+
+    path: str
+    option: str
+    kind: str = "file"
+    force: bool = False
+
+
+def _writable_ancestor(path, option):
+    """Refuse a folder to be made whose nearest existing ancestor is not a writable folder."""
+    folder = os.path.dirname(os.path.abspath(path))
+    while not os.path.lexists(folder):
+        folder = os.path.dirname(folder)
+    if not os.path.isdir(folder) or not os.access(folder, os.W_OK):
+        found = "a file in the way" if not os.path.isdir(folder) else "a folder without write permission"
+        raise InputError(path, None, f"a folder that can be made ({option})", f"{found}: {folder}")
+
+
+def check_output_plan(outputs, inputs=()) -> None:
+    """Refuse, before any computation, a command's outputs that could not all be written.
+
+    The one up-front check of every command that writes files: the whole
+    plan (each file a run writes, companions and per-case files included) is
+    checked at once, after the inputs are read and before any work, so a long
+    run cannot fail at its end on a path.  Each refusal is one
+    :class:`~latdyn.errors.InputError` naming the path and the option.
+
+    * a file or figure: not an existing folder, device, named pipe or socket;
+      its folder exists and is writable; a figure's suffix names a format
+      (:func:`check_output_file`); no two outputs of the plan are one file;
+    * a folder the files go into: exists, is a folder, writable (:func:`check_output_folder`);
+    * a report folder: may be written or replaced
+      (:func:`latdyn.output_folders.check_folder_target`) and the folders to
+      be made for it can be made;
+    * none is one of the run's input files (:func:`check_outputs`).
+
+    Parameters
+    ----------
+    outputs : iterable of Output
+        The plan; entries with an empty path are skipped.
+    inputs : iterable of str
+        Input files of the run besides those already read (noted by
+        :func:`latdyn.input_files.recording_inputs`): files read later in the run.
+
+    Raises
+    ------
+    InputError
+
+    Examples
+    --------
+    >>> check_output_plan([Output("run.svg", "--plot", "figure"), Output("./run.svg", "--bode", "figure")])
+    Traceback (most recent call last):
+    ...
+    latdyn.errors.InputError: ./run.svg: expected one output per file (--bode), found the file of --plot
+    """
+    inputs = tuple(os.fspath(p) for p in inputs)
+    seen = {}
+    for output in outputs:
+        if not output.path:
+            continue
+        path = os.fspath(output.path)
+        if output.kind == "folder":
+            check_output_folder(path, output.option)
+            continue
+        if output.kind == "report":
+            from latdyn.output_folders import check_folder_target
+
+            check_folder_target(path, output.force, output.option, inputs)
+            _writable_ancestor(path, output.option)
+            continue
+        check_output_file(path, output.option, figure=output.kind == "figure")
+        key = os.path.normcase(os.path.abspath(path))
+        if key in seen:
+            raise InputError(path, None, f"one output per file ({output.option})", f"the file of {seen[key]}")
+        seen[key] = output.option
+    check_outputs([(o.path, o.option) for o in outputs if o.kind in ("file", "figure")], inputs)
 
 
 @contextlib.contextmanager

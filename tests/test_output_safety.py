@@ -118,7 +118,7 @@ def test_assess_writes_no_chart_on_bad_input(arguments, message, tmp_path, capsy
 def test_assess_plots_into_a_file_is_refused(tmp_path, capsys):
     (tmp_path / "charts").write_text("mine")
     refused(["assess", DEMO, "--plots", str(tmp_path / "charts")], capsys,
-            "charts: expected an existing folder for the outputs (--plots), found no such folder")
+            "charts: expected an existing folder for the outputs (--plots), found a file")
     assert (tmp_path / "charts").read_text() == "mine"
 
 

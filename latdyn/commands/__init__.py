@@ -163,9 +163,16 @@ def report_below(found, threshold, verb="is"):
     return 1 if found else 0
 
 
-def load_study_inputs(args):
-    """Check ``--plot``, load the aircraft and ``--criteria``, check ``--condition``; refuse a
-    ``--plot`` that is one of the files read.
+def load_study_inputs(args, figures=None):
+    """Load the aircraft and ``--criteria``, check ``--condition``, then check the figures ``--plot``
+    will write (:func:`latdyn.output_files.check_output_plan`) before any work.
+
+    Parameters
+    ----------
+    args : argparse.Namespace
+    figures : callable, optional
+        ``figures(path)``: every file the command writes for ``--plot PATH``
+        (companions included); default ``[path]``.
 
     Returns
     -------
@@ -174,24 +181,21 @@ def load_study_inputs(args):
     Raises
     ------
     latdyn.errors.InputError
-        Bad output path, aircraft file, criteria set or condition name.
+        Bad aircraft file, criteria set or condition name; an output that
+        could not be written or is one of the files read.
     """
     from latdyn.aircraft import load_aircraft
     from latdyn.criteria_sets import load_criteria
+    from latdyn.output_files import Output, check_output_plan
 
-    if getattr(args, "plot", None):
-        from latdyn.output_files import check_output_file
-
-        check_output_file(args.plot, "--plot", figure=True)
     aircraft = load_aircraft(args.file)
     names = criteria_names(args)
     criteria = [load_criteria(name) for name in names] if names else None
     if args.condition:
         aircraft.condition(args.condition)
     if getattr(args, "plot", None):
-        from latdyn.output_files import check_outputs
-
-        check_outputs([(args.plot, "--plot")])
+        paths = figures(args.plot) if figures else [args.plot]
+        check_output_plan([Output(path, "--plot", "figure") for path in paths])
     return aircraft, criteria
 
 

@@ -210,20 +210,20 @@ def run(args):
     from dataclasses import replace
 
     from latdyn.aircraft import load_aircraft
-    from latdyn.assessment import assess
+    from latdyn.assessment import assess, default_criteria
     from latdyn.criteria_sets import load_criteria
     from latdyn.errors import InputError
+    from latdyn.output_files import Output, check_output_plan
+    from latdyn.plots import both_paths
+    from latdyn.plots.levels import assessment_figure_paths
 
     from latdyn.commands import criteria_names, display_units
 
     phases = parse_flight_phases(args.flight_phase)
     names = criteria_names(args)
     criteria = [load_criteria(name) for name in names] if names else None
-    if args.plots:
-        from latdyn.output_files import check_output_folder
-
-        check_output_folder(args.plots, "--plots")
-    results, units = [], []
+    outputs, used = [Output(args.plots, "--plots", "folder")], set()
+    chosen, units = [], []
     for path in args.files:
         aircraft = load_aircraft(path)
         units.append(display_units(args, aircraft))
@@ -241,7 +241,14 @@ def run(args):
                                  'a condition of category "A" (combat and ground attack are '
                                  "Category A phases)",
                                  f"category {category or 'not given'}", condition.name)
-        results.append(assess(aircraft, criteria, phases))
+        if args.plots:  # the figures' names, checked with the folder before any work
+            sets = criteria or [load_criteria(name) for name in default_criteria(aircraft.airplane_class)]
+            files = getattr(aircraft, "files", ())  # as the assessment names them
+            figures = assessment_figure_paths(files[0] if files else None, aircraft.name, sets, args.plots, used)
+            outputs += [Output(target, "--plots", "figure") for _, first in figures for target in both_paths(first)]
+        chosen.append(aircraft)
+    check_output_plan(outputs)
+    results = [assess(aircraft, criteria, phases) for aircraft in chosen]
     if args.format == "json":
         documents = [r.as_dict() for r in results]
         text = json.dumps(documents[0] if len(documents) == 1 else documents, indent=2,

@@ -77,17 +77,15 @@ def run(args):
     from latdyn.estimation import build_up
     from latdyn.estimation.documents import estimate_document, extension_text
 
-    if args.output:
-        from latdyn.output_files import check_output_file
+    from latdyn.output_files import Output, check_output_plan
 
-        if len(args.files) > 1:
-            raise InputError(args.output, "-o", "one FILE with -o (the file it extends)",
-                             f"{len(args.files)} files")
-        check_output_file(args.output, "-o")
+    if args.output and len(args.files) > 1:
+        raise InputError(args.output, "-o", "one FILE with -o (the file it extends)", f"{len(args.files)} files")
     aircraft_list = [load_aircraft(path) for path in args.files]
     if args.condition:
         for aircraft in aircraft_list:
             aircraft.condition(args.condition)
+    check_output_plan([Output(args.output, "-o")])
     builds = [[build_up(a, c) for c in a.conditions
                if not args.condition or c.name == args.condition] for a in aircraft_list]
     if args.format == "json":
@@ -99,9 +97,8 @@ def run(args):
     else:
         text = _text(aircraft_list, builds, args.format == "markdown", args)
     if args.output:
-        from latdyn.output_files import atomic_output, check_outputs
+        from latdyn.output_files import atomic_output
 
-        check_outputs([(args.output, "-o")])
         extension = extension_text(aircraft_list[0], builds[0], args.output)
         with atomic_output(args.output) as handle:
             handle.write(extension)

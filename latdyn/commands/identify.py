@@ -89,26 +89,20 @@ def run(args):
     from latdyn.identification import identified_model, identify, write_variant
     from latdyn.model import lateral_model
     from latdyn.modes import UnresolvedRoots, find_modes
-    from latdyn.output_files import check_output_file, check_outputs
+    from latdyn.output_files import Output, check_output_plan
     from latdyn.results import condition_modes
     from latdyn.report.render import render, render_csv
     from latdyn.report.tables import (identification_fit_table, identified_derivative_table,
                                       identified_mode_table)
 
-    for option, path, figure in (("-o", args.output, False), ("--plot", args.plot, True)):
-        if path:
-            check_output_file(path, option, figure=figure)
     if args.output and args.output.lower().endswith(".toml") is False:
         raise InputError(args.output, "-o", "an aircraft file name ending in .toml", repr(args.output))
     columns = _columns(args.column)
     aircraft = load_aircraft(args.file)
     condition = aircraft.condition(args.condition) if args.condition else aircraft.conditions[0]
-    if args.report:
-        from latdyn.output_folders import check_folder_target
-
-        check_folder_target(args.report, args.force, "--report", args.data)
     records = [read_flight_csv(path, columns) for path in args.data]
-    check_outputs([(args.output, "-o"), (args.plot, "--plot")])
+    check_output_plan([Output(args.output, "-o"), Output(args.plot, "--plot", "figure"),
+                       Output(args.report, "--report", "report", args.force)], args.data)
     method = args.method.replace("-", "_")
     result = identify(aircraft, condition, records, fix=args.fix, method=method)
     model = lateral_model(aircraft, condition)

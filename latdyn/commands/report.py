@@ -74,6 +74,11 @@ def run(args):
                               {key: getattr(args, key) for key, _ in DOCUMENT_FIELDS})
     output = args.output or os.path.join(
         "reports", os.path.splitext(os.path.basename(args.files[0]))[0])
+    from latdyn.output_files import Output, check_output_plan
+
+    names = criteria_names(args) or ()
+    check_output_plan([Output(output, "-o", "report", args.force)],
+                      [*args.files, *(args.compare or ()), *(name for name in names if os.path.isfile(name))])
     folder = write_report(args.files, output, args.compare, criteria_names(args), args.force,
                           units=SYSTEMS[args.units] if args.units else None,
                           document=document,

@@ -277,15 +277,6 @@ def _sort_outputs(args):
         setattr(args, option, path)
 
 
-def _check_outputs(args):
-    """Refuse before any work an output that could not be written (see check_output_file)."""
-    from latdyn.output_files import check_output_file
-
-    for path, option in ((args.csv, "--csv"), (args.plot, "--plot"), (args.bode, "--bode")):
-        if path:
-            check_output_file(path, option, figure=option != "--csv")
-
-
 def _simulation_wanted(args):
     """False for --transfer-functions or --bode on their own (no input or output of a run)."""
     if not (args.transfer_functions or args.bode):
@@ -361,11 +352,16 @@ def run(args):
     from latdyn.readouts import read_response
     from latdyn.responses import csv_text, simulate, write_csv
 
+    from latdyn.output_files import Output, check_output_plan
+
     _sort_outputs(args)
-    _check_outputs(args)
     _check_angles(args)
     cases = _cases(args)
     labels = _labels(cases)
+    csv_paths = case_csv_paths(args.csv, labels) if args.csv else []
+    check_output_plan([*(Output(path, "--csv") for path in csv_paths), Output(args.plot, "--plot", "figure"),
+                       Output(args.bode, "--bode", "figure")],
+                      [kind for kind in args.inputs or () if os.path.isfile(kind)])  # input CSVs, read later
     models = [condition_model(aircraft, condition) for aircraft, condition in cases]
     modes = [condition_modes(aircraft, condition, model)
              for (aircraft, condition), model in zip(cases, models)]
@@ -455,10 +451,6 @@ def run(args):
             lines = [("## " + line) if line and not line.startswith(" ") else
                      ("- " + line.strip() if line.strip() else "") for line in lines]
         text = "\n".join(lines) + "\n"
-    from latdyn.output_files import check_outputs
-
-    csv_paths = case_csv_paths(args.csv, labels) if args.csv else []
-    check_outputs([*((path, "--csv") for path in csv_paths), (args.plot, "--plot"), (args.bode, "--bode")])
     written = []
     if args.csv:
         for path, response in zip(csv_paths, responses):

@@ -71,18 +71,13 @@ def run(args):
     banks = _angles(args.bank_deg, "--bank-deg", first)
     if not (math.isfinite(args.roll_fraction) and 0.0 < args.roll_fraction <= 1.0):
         raise InputError(first, "--roll-fraction", "a fraction > 0 and <= 1", f"{args.roll_fraction:g}")
-    if args.plot:
-        from latdyn.output_files import check_output_file
+    from latdyn.output_files import Output, check_output_plan
 
-        check_output_file(args.plot, "--plot", figure=True)
     aircraft_list = [load_aircraft(path) for path in args.files]
     if args.condition:
         for aircraft in aircraft_list:
             aircraft.condition(args.condition)
-    if args.plot:
-        from latdyn.output_files import check_outputs
-
-        check_outputs([(args.plot, "--plot")])
+    check_output_plan([Output(args.plot, "--plot", "figure")])
     computed = [(aircraft, steady(aircraft, args.condition, sideslips, banks, args.roll_fraction))
                 for aircraft in aircraft_list]
     if args.format == "json":

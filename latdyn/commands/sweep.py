@@ -48,7 +48,9 @@ def run(args):
     from latdyn.report.tables import sweep_summary_tables, sweep_table
     from latdyn.studies.sweep import SUMMARY_POINTS, parse_range, sweep, sweep_document
 
-    aircraft, criteria = load_study_inputs(args)
+    from latdyn.plots.studies import sweep_figure_paths
+
+    aircraft, criteria = load_study_inputs(args, lambda path: sweep_figure_paths(path, len(args.vary)))
     ranges = [parse_range(text, args.file) for text in args.vary]
     result = sweep(aircraft, ranges, args.condition, criteria, progress=True,
                    roll_performance=True if args.roll_performance else None)

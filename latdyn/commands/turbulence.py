@@ -66,17 +66,16 @@ def run(args):
                          f"{args.dt:g} s")
     if args.duration / args.dt > 2_000_000:
         raise InputError(_COMMAND_LINE, "--dt", "at most 2000000 samples", f"{args.duration / args.dt:.3g}")
-    from latdyn.output_files import check_output_file
+    from latdyn.commands.respond import case_csv_paths
+    from latdyn.output_files import Output, check_output_plan
 
-    if args.plot:
-        check_output_file(args.plot, "--plot", figure=True)
-    if args.csv:
-        check_output_file(args.csv, "--csv")
     aircraft = load_aircraft(args.file)
     if aircraft.geometry is None:
         raise InputError(aircraft.file, "geometry.span", "a [geometry] span (the rotary gusts need it)",
                          "no [geometry] block")
     chosen = (aircraft.condition(args.condition),) if args.condition else aircraft.conditions
+    paths = case_csv_paths(args.csv, [c.name for c in chosen]) if args.csv else []
+    check_output_plan([*(Output(path, "--csv") for path in paths), Output(args.plot, "--plot", "figure")])
     from latdyn.commands import option_to_si
 
     # the gust is typed in the file's units (as --vary is), computed in SI
@@ -98,11 +97,6 @@ def run(args):
         else:
             entries.append((condition.name, "bare airframe", result))
         documents.append(document)
-    from latdyn.commands.respond import case_csv_paths
-    from latdyn.output_files import check_outputs
-
-    paths = case_csv_paths(args.csv, [c.name for c in chosen]) if args.csv else []
-    check_outputs([*((path, "--csv") for path in paths), (args.plot, "--plot")])
     written = []
     if args.csv:
         for path, result in zip(paths, primary):

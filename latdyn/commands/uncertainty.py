@@ -48,7 +48,9 @@ def run(args):
     from latdyn.report.tables import uncertainty_inputs_table, uncertainty_tables
     from latdyn.studies.uncertainty import parse_uncertainty, uncertainty, uncertainty_document
 
-    aircraft, criteria = load_study_inputs(args)
+    from latdyn.plots import both_paths
+
+    aircraft, criteria = load_study_inputs(args, both_paths)
     given = [parse_uncertainty(words.replace(",", " "), args.file) for words in args.vary]
     result = uncertainty(aircraft, given, args.samples, args.seed, args.condition, criteria,
                          progress=True, roll_performance=args.roll_performance)

@@ -10,7 +10,7 @@ library code touches matplotlib's global state.
 
 import os
 
-__all__ = ["save_figure", "save_both"]
+__all__ = ["save_figure", "save_both", "both_paths"]
 
 
 #: Metadata that would make two writes of one figure differ (a time stamp), left out per format.
@@ -47,6 +47,21 @@ def save_figure(figure, path, dpi=150):
     return path
 
 
+def both_paths(path) -> list:
+    """The files :func:`save_both` writes for ``path``: it, and its PNG or SVG companion.
+
+    Examples
+    --------
+    >>> both_paths("out/study.png"), both_paths("study.pdf")
+    (['out/study.png', 'out/study.svg'], ['study.pdf'])
+    """
+    path = os.fspath(path)
+    base, suffix = os.path.splitext(path)
+    if suffix.lower() in (".png", ".svg"):
+        return [path, base + (".svg" if suffix.lower() == ".png" else ".png")]
+    return [path]
+
+
 def save_both(figure, path, dpi=150):
     """Write a figure to ``path`` and, when it ends in .png or .svg, to the other format too.
 
@@ -59,11 +74,7 @@ def save_both(figure, path, dpi=150):
     list of str
         The paths written.
     """
-    path = os.fspath(path)
-    base, suffix = os.path.splitext(path)
-    targets = [path]
-    if suffix.lower() in (".png", ".svg"):
-        targets.append(base + (".svg" if suffix.lower() == ".png" else ".png"))
+    targets = both_paths(path)
     for number, target in enumerate(targets):
         save_figure(figure, target, dpi)
         if number == 0 and len(targets) > 1 and figure.get_layout_engine() is not None:

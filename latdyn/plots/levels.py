@@ -31,7 +31,7 @@ from latdyn.plots.style import (CONFIGURATION_MARKERS, GRID, LABEL_SIZE, LEVEL_C
                                 key_axis, level_handles, plain, style_axis)
 
 __all__ = ["LEVEL_COLOURS", "LEVEL_INK", "dutch_roll_chart", "roll_spiral_chart", "s_plane_map",
-           "write_assessment_figures"]
+           "write_assessment_figures", "assessment_figure_paths"]
 
 
 #: Ring round a variant's point that is graded worse than the base's in the same condition.
@@ -554,20 +554,48 @@ def write_assessment_figures(result, folder, used=None) -> list:
     list of str
         The paths written.
     """
+    written = []
+    for (chart, criteria), path in assessment_figure_paths(result.file, result.aircraft, result.criteria, folder,
+                                                            used):
+        if chart == "dutch-roll":
+            written += save_both(dutch_roll_chart(result, criteria), path)
+        elif chart == "roll-spiral":
+            written += save_both(roll_spiral_chart(result, criteria), path)
+        else:
+            written += save_both(s_plane_map(result), path)
+    return written
+
+
+def assessment_figure_paths(file, aircraft, criteria_sets, folder, used=None) -> list:
+    """The figures :func:`write_assessment_figures` draws, with the PNG path of each (the SVG
+    beside it), named as that function describes; known before the assessment is computed.
+
+    Parameters
+    ----------
+    file : str or None
+        The aircraft file (its name gives the figures' names), else ``aircraft`` does.
+    aircraft : str
+        The aircraft's name.
+    criteria_sets : sequence of CriteriaSet
+    folder : str
+    used : set of str, optional
+        File names taken already in ``folder``; the new ones are added.
+
+    Returns
+    -------
+    list of ((str, CriteriaSet or None), str)
+        ``(("dutch-roll" | "roll-spiral" | "s-plane", criteria set), path)`` in drawing order.
+    """
     from latdyn.text import file_name, numbered, slug
 
     used = set() if used is None else used
-    written = []
-    stem = os.path.splitext(os.path.basename(result.file))[0] if result.file else result.aircraft
-    aircraft = slug(stem, default="aircraft")
+    stem = os.path.splitext(os.path.basename(file))[0] if file else aircraft
+    name = slug(stem, default="aircraft")
 
     def path(*words):
-        return os.path.join(folder, numbered(file_name(aircraft, *words), used) + ".png")
+        return os.path.join(folder, numbered(file_name(name, *words), used) + ".png")
 
-    for criteria in [c for c in result.criteria if c.mode("dutch_roll")]:
-        written += save_both(dutch_roll_chart(result, criteria), path("dutch-roll", criteria.name))
-    for criteria in result.criteria:
-        if criteria.assessment == "levels" and criteria.mode("spiral") and criteria.mode("roll_subsidence"):
-            written += save_both(roll_spiral_chart(result, criteria), path("roll-spiral", criteria.name))
-    written += save_both(s_plane_map(result), path("s-plane"))
-    return written
+    charts = [(("dutch-roll", c), path("dutch-roll", c.name)) for c in criteria_sets if c.mode("dutch_roll")]
+    charts += [(("roll-spiral", c), path("roll-spiral", c.name)) for c in criteria_sets
+               if c.assessment == "levels" and c.mode("spiral") and c.mode("roll_subsidence")]
+    return charts + [(("s-plane", None), path("s-plane"))]

@@ -20,7 +20,7 @@ from latdyn.plots.style import (CURRENT, LABEL_SIZE, LEVEL_COLOURS, MODE_COLOURS
                                 figure_for, key_axis, level_handles, mark_current, plain, style_axis, unit_text)
 
 __all__ = ["sweep_figure", "root_locus_figure", "level_map_figure", "uncertainty_figure",
-           "write_sweep_figures", "companion_path"]
+           "write_sweep_figures", "sweep_figure_paths", "companion_path"]
 
 _BOUNDARY = dict(color=MUTED, linewidth=0.6, linestyle=":")
 #: Line style of each mode's level boundaries on a level map.
@@ -323,6 +323,22 @@ def write_sweep_figures(result, path) -> list:
         return (save_both(sweep_figure(result), path)
                 + save_both(root_locus_figure(result), companion_path(path, "root-locus")))
     return save_both(level_map_figure(result), path)
+
+
+def sweep_figure_paths(path, parameters) -> list:
+    """The files :func:`write_sweep_figures` writes for ``path`` and a sweep of ``parameters``
+    keys (for the up-front check of the outputs): the figure and, for one parameter, its root locus
+    ``OUT-root-locus``, each with its PNG or SVG companion.
+
+    Examples
+    --------
+    >>> sweep_figure_paths("study.png", 1)
+    ['study.png', 'study.svg', 'study-root-locus.png', 'study-root-locus.svg']
+    """
+    from latdyn.plots import both_paths
+
+    firsts = [path] if parameters != 1 else [path, companion_path(path, "root-locus")]
+    return [target for first in firsts for target in both_paths(first)]
 
 
 def uncertainty_figure(result, assessment, criteria=None, fig=None, points=4000):
