@@ -10,7 +10,10 @@ from __future__ import annotations
 
 import argparse
 import contextlib
+import errno
 import importlib
+import io
+import os
 import re
 import sys
 import warnings
@@ -160,8 +163,6 @@ def _refuse_empty_values(args):
 
 def _quiet_stdout():
     """Point standard output at the null device, so the final flush at exit cannot fail again."""
-    import os
-
     if getattr(sys.stdout, "_stream", sys.stdout) is not sys.__stdout__:
         return
     try:
@@ -179,24 +180,70 @@ class _TerminalStream:
     (``\\x1b``): a name holding an escape sequence cannot drive the terminal.
     A character the stream's encoding lacks (a Latin-1 or ASCII locale) is
     written backslash-escaped instead of ending the run with
-    ``UnicodeEncodeError``.
+    ``UnicodeEncodeError``.  A ``lossy`` stream (standard error) that is full
+    or closed drops the text: the message is lost, the run and its exit status go on.
     """
 
-    def __init__(self, stream, keep):
+    def __init__(self, stream, keep, lossy=False):
         self._stream = stream
+        self._lossy = lossy
         self._controls = re.compile("[" + "".join(f"\\x{c:02x}" for c in [*range(32), *range(127, 160)]
                                                   if chr(c) not in keep) + "]")
 
     def write(self, text):
         text = self._controls.sub(lambda match: printable(match.group()), text)
         try:
-            return self._stream.write(text)
-        except UnicodeEncodeError:
-            encoding = getattr(self._stream, "encoding", None) or "ascii"
-            return self._stream.write(text.encode(encoding, "backslashreplace").decode(encoding))
+            try:
+                return self._stream.write(text)
+            except UnicodeEncodeError:
+                encoding = getattr(self._stream, "encoding", None) or "ascii"
+                return self._stream.write(text.encode(encoding, "backslashreplace").decode(encoding))
+        except (OSError, ValueError):
+            if not self._lossy:
+                raise
+            return len(text)  # standard error full or closed: the message is lost, the exit status stays
+
+    def flush(self):
+        try:
+            self._stream.flush()
+        except (OSError, ValueError):
+            if not self._lossy:
+                raise
 
     def __getattr__(self, name):
         return getattr(self._stream, name)
+
+
+class _ClosedStream(io.TextIOBase):
+    """Standard output closed by the caller (``>&-``): writing to it is the error it is (EBADF)."""
+
+    encoding = "utf-8"
+
+    def write(self, text):
+        raise OSError(errno.EBADF, os.strerror(errno.EBADF))
+
+    def writable(self):
+        return True
+
+
+def _standard_streams():
+    """Closed standard descriptors (``2>&-``, ``>&-``) reopened on the null device, so that no output
+    file is given descriptor 1 or 2 (where a stray write would land in it); standard error closed is
+    then the null device (messages lost, the exit status stays), standard output closed an error
+    when written (:class:`_ClosedStream`)."""
+    for number, name in ((1, "stdout"), (2, "stderr")):
+        try:
+            os.fstat(number)
+            continue
+        except OSError:
+            pass
+        with contextlib.suppress(OSError):
+            null = os.open(os.devnull, os.O_WRONLY)
+            if null != number:
+                os.dup2(null, number)
+                os.close(null)
+        if getattr(sys, name) is None:
+            setattr(sys, name, _ClosedStream() if name == "stdout" else open(os.devnull, "w", encoding="utf-8"))
 
 
 def _one_line_warning(message, category, filename, lineno, file=None, line=None):
@@ -231,7 +278,7 @@ def _terminal():
     line each, noise silenced."""
     streams = sys.stdout, sys.stderr
     replaced = _utf8_unless_terminal(sys.stdout)
-    sys.stdout, sys.stderr = _TerminalStream(sys.stdout, "\n\t"), _TerminalStream(sys.stderr, "\n\r\t")
+    sys.stdout, sys.stderr = _TerminalStream(sys.stdout, "\n\t"), _TerminalStream(sys.stderr, "\n\r\t", lossy=True)
     try:
         with warnings.catch_warnings():
             warnings.showwarning = _one_line_warning
@@ -251,7 +298,8 @@ def main(argv=None) -> int:
     """Run ``latdyn`` with the given arguments; return the exit status.
 
     Bad input, an unwritable output (full disk, read-only folder) and a full
-    standard output give one line on stderr and status 2; a closed pipe on
+    or closed standard output give one line on stderr and status 2 (a standard
+    error that is closed or full loses the line, never the status); a closed pipe on
     standard output ends quietly with status 141 (128 + SIGPIPE, as a
     program ended by the pipe); SIGINT and SIGTERM clean up (no temporary
     file or folder is left) and give 130 and 143 (128 + the signal).
@@ -261,6 +309,7 @@ def main(argv=None) -> int:
     from latdyn.input_files import recording_inputs
     from latdyn.output_files import all_or_nothing, interruptible, write_error
 
+    _standard_streams()
     args = parse_arguments(sys.argv[1:] if argv is None else argv)
     debug = getattr(args, "debug", False)
     with _terminal():
