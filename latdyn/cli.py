@@ -96,7 +96,8 @@ def parse_arguments(argv) -> argparse.Namespace:
 
     The command's own parser reads its arguments intermixed
     (:meth:`argparse.ArgumentParser.parse_intermixed_args`), so
-    ``latdyn assess A.toml --format csv B.toml`` reads both files.  Anything
+    ``latdyn assess A.toml --format csv B.toml`` reads both files; ``--`` ends
+    the options (:func:`_end_of_options`).  Anything
     else (``--version``, help, an unknown command) goes to the full parser.
     """
     argv = list(argv)
@@ -108,10 +109,40 @@ def parse_arguments(argv) -> argparse.Namespace:
     sub = _Parser(prog="latdyn").add_subparsers()
     command = _add_command(sub, name, dict(COMMANDS)[name])
     command.prog = f"latdyn {name}"
-    args = command.parse_intermixed_args(argv[index + 1:])
+    words, operands = _end_of_options(argv[index + 1:])
+    args = command.parse_intermixed_args(words)
+    for attribute, value in vars(args).items():  # the words after -- as they were typed
+        if isinstance(value, list):
+            setattr(args, attribute, [operands.get(v, v) if isinstance(v, str) else v for v in value])
+        elif isinstance(value, str):
+            setattr(args, attribute, operands.get(value, value))
     args.command = name
     args.debug = "--debug" in argv[:index] or getattr(args, "debug", False)
     return args
+
+
+def _end_of_options(words):
+    r"""``--`` ends the options (POSIX utility syntax guideline 10): every word after it is a file,
+    even one starting with a dash (``latdyn modes -- -x.toml``).
+
+    argparse's intermixed parsing loses the ``--`` between its two passes, so the words after it
+    are handed over as stand-ins that cannot look like options and put back after parsing.
+
+    Returns
+    -------
+    (list of str, dict)
+        The words to parse, and each stand-in with the word it stands for.
+
+    Examples
+    --------
+    >>> _end_of_options(["--format", "json", "--", "-x.toml"])
+    (['--format', 'json', '--', '\x00operand0'], {'\x00operand0': '-x.toml'})
+    """
+    if "--" not in words:
+        return list(words), {}
+    end = words.index("--")
+    operands = {f"\x00operand{number}": word for number, word in enumerate(words[end + 1:])}
+    return [*words[:end], "--", *operands], operands
 
 
 #: Options whose value is a name or a path: an empty value is refused (it would mean "all
