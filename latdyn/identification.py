@@ -929,12 +929,6 @@ def identified_model(model, result):
                    name=f"{model.name} (identified)")
 
 
-def _toml_string(text):
-    import json
-
-    return json.dumps(str(text), ensure_ascii=False)
-
-
 def variant_text(aircraft, result, base_file, output_file, command="latdyn identify") -> str:
     """An aircraft file that ``extends`` the original with the identified derivatives.
 
@@ -956,22 +950,23 @@ def variant_text(aircraft, result, base_file, output_file, command="latdyn ident
     import os
 
     from latdyn.aircraft import NondimensionalDerivatives
+    from latdyn.text import toml_comment, toml_string
 
     condition = aircraft.condition(result.condition)
     relative = os.path.relpath(os.path.abspath(base_file), os.path.dirname(os.path.abspath(output_file)))
     nondimensional = isinstance(condition.derivatives, NondimensionalDerivatives) and result.nondimensional
     lines = [
-        f"# Derivatives of condition {_toml_string(result.condition)} identified from flight test "
+        f"# Derivatives of condition {toml_comment(toml_string(result.condition))} identified from flight test "
         f"({result.fit['method']}).",
-        "# Records: " + ", ".join(os.path.basename(r.file) or "unnamed" for r in result.records) + ".",
+        "# Records: " + toml_comment(", ".join(os.path.basename(r.file) or "unnamed" for r in result.records)) + ".",
         "# Beside each value: its standard error (Cramer-Rao bound, corrected for coloured residuals)",
-        "# and the value predicted by the original file.  Written by " + command + ".",
-        f"extends = {_toml_string(relative.replace(os.sep, '/'))}",
+        "# and the value predicted by the original file.  Written by " + toml_comment(command) + ".",
+        f"extends = {toml_string(relative.replace(os.sep, '/'))}",
         'units = "SI"',
-        f"name = {_toml_string(aircraft.name + ' (identified from flight test)')}",
+        f"name = {toml_string(aircraft.name + ' (identified from flight test)')}",
         "",
         "[[condition]]",
-        f"name = {_toml_string(result.condition)}",
+        f"name = {toml_string(result.condition)}",
     ]
     if nondimensional:
         lines += ["[condition.derivatives]", f'axes = "{condition.derivatives.axes}"']

@@ -6,7 +6,8 @@ letters, digits and dashes, length-limited, collisions numbered) and never
 markup: control characters are shown escaped on a terminal
 (:func:`printable`), a spreadsheet cell cannot start a formula
 (:func:`spreadsheet_cell`) and matplotlib draws it as plain text, never
-mathtext (:func:`plain`).  HTML and Markdown escaping live with their
+mathtext (:func:`plain`); in a TOML file latdyn writes it is a valid string
+(:func:`toml_string`) or comment (:func:`toml_comment`), never a key.  HTML and Markdown escaping live with their
 renderers (:mod:`latdyn.report.render`).
 """
 
@@ -16,7 +17,7 @@ import re
 import unicodedata
 
 __all__ = ["SLUG_LIMIT", "NAME_LIMIT", "FORMULA_STARTS", "slug", "file_name", "numbered", "printable", "spreadsheet_cell",
-           "plain"]
+           "plain", "toml_string", "toml_comment"]
 
 #: Longest slug of one name [characters].
 SLUG_LIMIT = 40
@@ -148,3 +149,46 @@ def plain(text) -> str:
     \$\frac{\$ a\x00
     """
     return printable(text, keep="\n").replace("$", r"\$")
+
+
+_TOML_NAMED = {'"': '\\"', "\\": "\\\\", "\b": "\\b", "\t": "\\t", "\n": "\\n", "\f": "\\f", "\r": "\\r"}
+
+
+def toml_string(text) -> str:
+    r"""A TOML basic string that reads back as ``text``: the quote, the backslash and every control
+    character escaped (TOML 1.0.0, "String": U+0000 to U+001F and U+007F may not stand raw), every
+    other character written as it is (the file is UTF-8).  A name holding a quote or a line break
+    cannot end the string and add keys; a lone surrogate (not text UTF-8 can hold) becomes U+FFFD.
+
+    Examples
+    --------
+    >>> print(toml_string('a "b"\n[evil]\x7f Zürich'))
+    "a \"b\"\n[evil]\u007f Zürich"
+    >>> import tomllib
+    >>> tomllib.loads("name = " + toml_string('x\\" = 1\n\x00😀'))["name"] == 'x\\" = 1\n\x00😀'
+    True
+    """
+    out = []
+    for character in str(text):
+        code = ord(character)
+        if character in _TOML_NAMED:
+            out.append(_TOML_NAMED[character])
+        elif code < 0x20 or code == 0x7F:
+            out.append(f"\\u{code:04x}")
+        elif 0xD800 <= code <= 0xDFFF:
+            out.append("\ufffd")
+        else:
+            out.append(character)
+    return '"' + "".join(out) + '"'
+
+
+def toml_comment(text) -> str:
+    r"""Text for a TOML comment: on one line, control characters shown escaped (:func:`printable`;
+    TOML allows none but the tab in a comment), so a name cannot end the comment and add keys.
+
+    Examples
+    --------
+    >>> toml_comment("Kestrel\n[evil]\nk = 1\x7f")
+    'Kestrel\\n[evil]\\nk = 1\\x7f'
+    """
+    return printable(text).encode("utf-8", "backslashreplace").decode("utf-8")

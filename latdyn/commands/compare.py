@@ -26,25 +26,27 @@ def render_comparisons(comparisons, style, units=None):
     default SI)."""
     from latdyn.assessment import NOTICE
     from latdyn.display import DEFAULT
-    from latdyn.report.render import render
+    from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import comparison_tables
+    from latdyn.text import printable
 
+    shown = escape_markdown if style == "markdown" else printable  # names from the files are data
     parts = []
     for comparison in comparisons:
         level_table, input_table, figure_table = comparison_tables(comparison, units=units or DEFAULT)
         levels = level_table.rows
         criteria = ", ".join(f"{c.name} ({c.edition})" for c in comparison.criteria)
-        head = [f"Comparison: {comparison.variant} ({comparison.variant_file})",
-                f"  against base: {comparison.base} ({comparison.base_file})",
-                NOTICE, f"Criteria: {criteria}"]
-        moves = [f"  {row['condition']}: {row['mode']} under {row['criteria']}: {row['base']} -> "
-                 f"{row['variant']} ({row['verdict']})"
+        head = [shown(f"Comparison: {comparison.variant} ({comparison.variant_file})"),
+                "  " + shown(f"against base: {comparison.base} ({comparison.base_file})"),
+                NOTICE, shown(f"Criteria: {criteria}")]
+        moves = ["  " + shown(f"{row['condition']}: {row['mode']} under {row['criteria']}: {row['base']} -> "
+                              f"{row['variant']} ({row['verdict']})")
                  for row in levels if row["verdict"] in ("IMPROVED", "DEGRADED")]
         head.append("Level changes:" if moves else "Level changes: none")
         head += moves
         if comparison.only_in_base or comparison.only_in_variant:
-            head.append("Conditions not compared: only in base " + (", ".join(comparison.only_in_base) or "-")
-                        + "; only in variant " + (", ".join(comparison.only_in_variant) or "-"))
+            head.append(shown("Conditions not compared: only in base " + (", ".join(comparison.only_in_base) or "-")
+                              + "; only in variant " + (", ".join(comparison.only_in_variant) or "-")))
         if style == "markdown":
             head = [head[0], "", head[1].strip(), "", f"> {NOTICE}", "", *head[3:]]
         sections = [("Mode figures", figure_table), ("Levels", level_table),

@@ -9,7 +9,6 @@
 
 from __future__ import annotations
 
-import json
 import os
 
 __all__ = ["method_lines", "estimate_document", "extension_text"]
@@ -57,14 +56,16 @@ def extension_text(aircraft, builds, path) -> str:
 
     base = os.path.relpath(os.path.abspath(aircraft.file),
                            os.path.dirname(os.path.abspath(path)))
-    lines = [f"# Derivatives of {aircraft.name} as used by latdyn: written ones as given,",
+    from latdyn.text import toml_comment, toml_string
+
+    lines = [f"# Derivatives of {toml_comment(aircraft.name)} as used by latdyn: written ones as given,",
              "# the others estimated from the geometry by the component build-up",
              "# (latdyn estimate). Review and edit them like any other data.",
-             f"extends = {json.dumps(base.replace(os.sep, '/'))}", ""]
+             f"extends = {toml_string(base.replace(os.sep, '/'))}", ""]
     for build in builds:
         condition = build.condition
         lines.append("[[condition]]")
-        lines.append(f"name = {json.dumps(condition.name)}")
+        lines.append(f"name = {toml_string(condition.name)}")
         if not isinstance(condition.derivatives, NondimensionalDerivatives):
             lines += ["# this condition gives dimensional derivatives: left as written", ""]
             continue

@@ -168,6 +168,7 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                  fontsize=8, color=MUTED)
 
     # Output panels.
+    cases = []  # (trace, name) of each case, for the key
     for k, name in enumerate(signals):
         axis = axes[k + 1]
         symbol, unit = _SYMBOLS.get(name, name), _unit(name)
@@ -178,8 +179,10 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
                 values = response.signal(name) * _factor(name)
             except KeyError:
                 continue
-            axis.plot(response.time, values, color=colour, linewidth=1.5,
-                      label=None if single else labels[index], zorder=3)
+            trace, = axis.plot(response.time, values, color=colour, linewidth=1.5,
+                               label=None if single else labels[index], zorder=3)
+            if not single and k == 0:
+                cases.append((trace, labels[index]))
             peak = readout.peak(name) if name in response.output_names else None
             if peak is not None and peak.value != 0:
                 shown = peak.value * _factor(name)
@@ -214,9 +217,10 @@ def time_history_figure(responses, readouts=None, modes=None, labels=None, title
             axis.legend(loc="upper right", fontsize=7.5, frameon=False)
         if not single and k == 0:
             # under the read-out table, not over the traces (no free corner once several cases overlap)
-            handles, names = axis.get_legend_handles_labels()
-            figure.legend(handles, names, loc="outside lower center", ncol=2, fontsize=7.5,
-                          frameon=False)
+            # handles and names given (a name starting with "_" is kept: matplotlib leaves such labels out
+            # of the legends it collects itself)
+            figure.legend([t for t, _ in cases], [n for _, n in cases], loc="outside lower center", ncol=2,
+                          fontsize=7.5, frameon=False)
         if k < len(signals) - 1:
             axis.tick_params(labelbottom=False)
     top.tick_params(labelbottom=False)

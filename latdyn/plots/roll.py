@@ -43,19 +43,19 @@ def roll_performance_figure(roll, requirements=(), title=None, fig=None):
     limit_time = max([r[2] for r in requirements], default=0.0)
     end = min(float(t[-1]), max(3.0, 1.6 * limit_time))
     keep = t <= end
-    axis.plot(t[keep], np.degrees(roll.bank[keep]), color=PALETTE[0], linewidth=1.8,
-              label="pedals free (graded)")
+    rolls = axis.plot(t[keep], np.degrees(roll.bank[keep]), color=PALETTE[0], linewidth=1.8,
+                      label="pedals free (graded)")  # the key's entries, kept whatever their names
     if roll.bank_coordinated is not None:
-        axis.plot(t[keep], np.degrees(roll.bank_coordinated[keep]), color=PALETTE[1], linewidth=1.4,
-                  linestyle=(0, (5, 2)), label="rudder coordinated (zero sideslip, not graded)")
+        rolls += axis.plot(t[keep], np.degrees(roll.bank_coordinated[keep]), color=PALETTE[1], linewidth=1.4,
+                           linestyle=(0, (5, 2)), label="rudder coordinated (zero sideslip, not graded)")
     for label, change, allowed, result in requirements:
         degrees = math.degrees(change)
         ink = LEVEL_INK.get(int(result[-1]) if result[-1:].isdigit() else 0, TEXT) \
             if result.startswith("Level") else (LEVEL_INK[1] if result == "pass" else LEVEL_INK[4])
         axis.plot([0.0, allowed, allowed], [degrees, degrees, 0.0], color=MUTED, linewidth=0.8,
                   linestyle=":")
-        axis.plot([allowed], [degrees], marker="s", markersize=6, color=ink, linestyle="none",
-                  label=plain(f"{label}: {result}"))
+        rolls += axis.plot([allowed], [degrees], marker="s", markersize=6, color=ink, linestyle="none",
+                           label=plain(f"{label}: {result}"))
     axis.set_xlim(0.0, end)
     axis.set_ylim(bottom=0.0)
     axis.set_xlabel("time after the roll command [s]", fontsize=LABEL_SIZE)
@@ -63,8 +63,7 @@ def roll_performance_figure(roll, requirements=(), title=None, fig=None):
     rate = (f" at {math.degrees(roll.aileron_rate):.3g} deg/s" if roll.aileron_rate else ", abrupt")
     axis.set_title(plain(title) if title else f"Roll performance: full aileron {math.degrees(roll.aileron):.3g} deg{rate}",
                    fontsize=TITLE_SIZE, color=TEXT)
-    handles, _ = axis.get_legend_handles_labels()
-    key_axis(key, handles, "Rolls and requirements\n(marker ink: result, guidance only)")
+    key_axis(key, rolls, "Rolls and requirements\n(marker ink: result, guidance only)")
     add_notice(figure, "Linear model, from wings level; a reversal roll is taken as a bank-angle change "
                        "from wings level.")
     return figure

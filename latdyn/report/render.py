@@ -169,7 +169,9 @@ def render_csv(table: Table, raw=True, header=None) -> str:
         report's ``tables/*.csv``, the assess CSV). False: the display text
         (the study commands' ``--format csv``).  Either way a text cell (a
         name from a file) that a spreadsheet would read as a formula is
-        guarded (:func:`latdyn.text.spreadsheet_cell`); numbers are not.
+        guarded (:func:`latdyn.text.spreadsheet_cell`) and its control
+        characters (line breaks, ESC, NUL) shown escaped (one row per line);
+        numbers are not touched.
     header : {"keys", "headings"}, optional
         The header row; default the column keys for raw values, the
         headings for display text.
@@ -184,7 +186,7 @@ def render_csv(table: Table, raw=True, header=None) -> str:
         for c in table.columns:
             value = row.get(c.key)
             text = show(value) if raw else show(value, c)
-            cells.append(spreadsheet_cell(text) if _is_text(value) else text)
+            cells.append(spreadsheet_cell(printable(text)) if _is_text(value) else text)
         writer.writerow(cells)
     return buffer.getvalue()
 
