@@ -58,7 +58,8 @@ def _locales(folder):
 def _run(argv, environment, cwd, stdout=subprocess.PIPE):
     env = {k: v for k, v in os.environ.items() if not k.startswith(("LC_", "LANG", "PYTHONUTF8", "PYTHONIOENCODING"))}
     env.update(environment, PYTHONUTF8="0", PYTHONPATH=str(ROOT))
-    return subprocess.run([sys.executable, "-m", "latdyn", *map(str, argv)], env=env, cwd=cwd, stdout=stdout,
+    argv = [a if isinstance(a, bytes) else str(a) for a in argv]  # bytes: as typed in the locale's encoding
+    return subprocess.run([sys.executable, "-m", "latdyn", *argv], env=env, cwd=cwd, stdout=stdout,
                           stderr=subprocess.PIPE, timeout=600)
 
 
@@ -121,3 +122,73 @@ def test_a_crowded_figure_warns_in_no_more_than_one_line(tmp_path):
     err = done.stderr.decode("utf-8")
     assert "Warning:" not in err and "savefig" not in err
     assert all(line.startswith("latdyn") for line in err.splitlines()), err
+
+
+CONDITION = "croisière"  # a non-ASCII condition name, typed on the command line in the locale's encoding
+RECORD = ROOT / "aircraft" / "flight-test" / "kestrel-k40-cruise-rudder-doublet.csv"
+NAVION = ROOT / "tests" / "data" / "navion-cr96008.toml"
+
+
+@pytest.fixture(scope="module")
+def unicode_files(unicode_aircraft):
+    """The non-ASCII aircraft with its cruise renamed, a variant of it and the Navion under the name."""
+    folder = unicode_aircraft.parent
+    path = folder / "zephyr-cruise.toml"
+    path.write_text(unicode_aircraft.read_text(encoding="utf-8").replace('name = "cruise"', f'name = "{CONDITION}"', 1),
+                    encoding="utf-8")
+    (folder / "variant.toml").write_text(f'extends = "zephyr-cruise.toml"\nname = "{NAME} ∆fin"\n'
+                                         "[mass]\nIzz = 16000.0\n", encoding="utf-8")
+    navion = NAVION.read_text(encoding="utf-8")
+    navion = navion.replace(next(line for line in navion.splitlines() if line.startswith("name = ")),
+                            f'name = "{NAME}"', 1)
+    (folder / "navion.toml").write_text(navion, encoding="utf-8")
+    return {"aircraft": path, "variant": folder / "variant.toml", "navion": folder / "navion.toml"}
+
+
+def _every_command(files, out):
+    """Each command that prints or writes (report and modes are above), with the files it writes."""
+    aircraft, condition = files["aircraft"], ["--condition", CONDITION]
+    return {
+        "assess": (["assess", aircraft, *condition, "-o", out], []),
+        "respond": (["respond", aircraft, *condition, "--duration", "5", "--csv", out / "run.csv",
+                     "--plot", out / "run.svg"], ["run.csv", "run.svg"]),
+        "steady": (["steady", aircraft, *condition, "-o", out / "steady.svg"], ["steady.svg"]),
+        "sweep": (["sweep", aircraft, *condition, "--vary", "Cn_beta=0.05:0.2:3", "--format", "csv"], []),
+        "sensitivity": (["sensitivity", aircraft, *condition], []),
+        "uncertainty": (["uncertainty", aircraft, *condition, "--samples", "50", "--vary", "Cn_r=±20%"], []),
+        "turbulence": (["turbulence", aircraft, *condition, "--sigma-v", "1.5", "--scale-length", "500",
+                        "--duration", "2", "--dt", "0.05", "--csv", out / "gust.csv"], ["gust.csv"]),
+        "compare": (["compare", aircraft, files["variant"]], []),
+        "estimate": (["estimate", files["navion"], "-o", out / "estimated.toml"], ["estimated.toml"]),
+        "identify": (["identify", aircraft, *condition, "--data", RECORD, "--method", "equation-error",
+                      "-o", out / "identified.toml"], ["identified.toml"]),
+    }
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("command", list(_every_command({"aircraft": "", "variant": "", "navion": ""},
+                                                        pathlib.Path("out"))))
+def test_every_command_under_non_utf8_locales(command, unicode_files, tmp_path):
+    """No UnicodeEncodeError under LC_ALL=C (ASCII) or ISO-8859-1: output redirected to a file is
+    UTF-8 holding the names as written, every file written is UTF-8, a non-ASCII --condition and
+    --vary (±) typed on the command line are read as typed."""
+    for label, environment in _locales(tmp_path).items():
+        out = tmp_path / label
+        out.mkdir()
+        argv, written = _every_command(unicode_files, out)[command]
+        typed = "latin-1" if label == "ISO-8859-1" else "utf-8"  # the C locale: a UTF-8 terminal's bytes
+        argv = [a.encode(typed) if isinstance(a, str) else a for a in argv]
+        with open(tmp_path / f"{label}.out", "wb") as handle:
+            done = _run(argv, environment, tmp_path, stdout=handle)
+        stderr = done.stderr.decode("utf-8", "replace")
+        assert done.returncode == 0, (label, stderr)
+        assert "Traceback" not in stderr and "UnicodeEncodeError" not in stderr
+        text = (tmp_path / f"{label}.out").read_bytes().decode("utf-8")
+        assert NAME in text or CONDITION in text, (label, text[:300])
+        for name in written:
+            content = (out / name).read_bytes().decode("utf-8")
+            if name.endswith((".csv", ".toml")):
+                assert NAME in content or CONDITION in content or name == "run.csv" or name == "gust.csv"
+        for path in out.rglob("*"):
+            if path.suffix in (".svg", ".csv", ".toml", ".json"):
+                path.read_bytes().decode("utf-8")
