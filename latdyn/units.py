@@ -56,7 +56,7 @@ DIMENSION_FACTORS = {
 
 #: Printed unit of each dimension in SI and in US files ("" for a ratio or coefficient).
 UNIT_WORDS = {
-    "none": ("", ""), "length": ("m", "ft"), "area": ("m^2", "ft^2"), "mass": ("kg", "slug"),
+    "none": ("", ""), "length": ("m", "ft"), "area": ("m^2", "ft^2"), "volume": ("m^3", "ft^3"), "mass": ("kg", "slug"),
     "inertia": ("kg m^2", "slug ft^2"), "density": ("kg/m^3", "slug/ft^3"),
     "speed": ("m/s", "ft/s"), "acceleration": ("m/s^2", "ft/s^2"), "degree": ("deg", "deg"),
     "degree_rate": ("deg/s", "deg/s"),

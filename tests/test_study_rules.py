@@ -21,6 +21,18 @@ from latdyn.studies.rules import sample_rules
 ROOT = pathlib.Path(__file__).resolve().parent.parent
 DEMO = str(ROOT / "aircraft" / "kestrel-k40.toml")
 FIN = str(ROOT / "aircraft" / "studies" / "kestrel-k40-fin.toml")
+YAW_DAMPER = str(ROOT / "aircraft" / "kestrel-k40-tip-tanks-yaw-damper.toml")
+GEOMETRY = str(ROOT / "aircraft" / "studies" / "heron-h2-geometry.toml")  # derivatives estimated
+
+
+def constant_thrust(folder):
+    """The demo with a constant thrust per engine (constructed): the thrust is then a sweep key."""
+    import re
+
+    text = re.sub(r"thrust = \{speed = .*\}", "thrust = 8000.0", pathlib.Path(DEMO).read_text(encoding="utf-8"))
+    path = folder / "constant-thrust.toml"
+    path.write_text(text, encoding="utf-8")
+    return str(path)
 
 
 def run(argv, capsys):
@@ -60,12 +72,41 @@ SWEEPS = {
                          "a deflection rate in degrees per second, > 0"),
     "second-key-leaves-its-rule": (DEMO, ["Cn_beta=0.05:0.2:3", "mass=0:9000:3"], "mass = 0",
                                    "a number > 0"),
+    "mach-negative": (DEMO, ["mach=-0.2:0.3:3"], "mach = -0.2", "a number > 0"),
+    "mach-from-zero": (DEMO, ["mach=0:0.3:3"], "mach = 0", "a number > 0"),
+    "washout-negative": (YAW_DAMPER, ["augmentation.washout_time_constant=-1:3:3"],
+                         "augmentation.washout_time_constant = -1", "a number > 0"),
+    "washout-from-zero": (YAW_DAMPER, ["augmentation.washout_time_constant=0:3:3"],
+                          "augmentation.washout_time_constant = 0", "a number > 0"),
+    "actuator-lag-negative": (YAW_DAMPER, ["augmentation.actuator_time_constant=-0.1:0.2:3"],
+                              "augmentation.actuator_time_constant = -0.1", "a number > 0"),
+    "sensor-lag-negative": (YAW_DAMPER, ["augmentation.sensor_time_constant=-0.1:0.2:3"],
+                            "augmentation.sensor_time_constant = -0.1", "a number > 0"),
+    "time-delay-negative": (YAW_DAMPER, ["augmentation.time_delay=-0.1:0.2:3"], "augmentation.time_delay = -0.1",
+                            "a delay >= 0"),
+    "yaw-damper-gain-1e9": (YAW_DAMPER, ["augmentation.yaw_damper_gain=-1:1e9:3"],
+                            "augmentation.yaw_damper_gain = 1e+09", "a plausible range"),
+    "engine-thrust-negative": (constant_thrust, ["engine.left.thrust=-1000:5000:3"], "engine.left.thrust = -1000",
+                               "a thrust >= 0"),
+    "engine-failed-drag-negative": (DEMO, ["engine.left.failed_drag=-10:100:3"], "engine.left.failed_drag = -10",
+                                    "a drag >= 0"),
+    "engine-position-beyond-any-aircraft": (DEMO, ["engine.left.lateral_position=-1e9:3:3"],
+                                            "engine.left.lateral_position = -1e+09", "a plausible range"),
+    "fin-area-negative": (GEOMETRY, ["fin.area=-5:10:3"], "fin.area = -5", "a number > 0"),
+    "fin-arm-negative": (GEOMETRY, ["fin.arm=-20:20:3"], "fin.arm = -20", "a number > 0"),
+    "dihedral-to-95": (GEOMETRY, ["wing.dihedral_deg=0:95:3"], "wing.dihedral_deg = 95", "a number in [-45, 45]"),
+    "wing-sweep-to-90": (GEOMETRY, ["wing.sweep_deg=0:90:3"], "wing.sweep_deg = 90", "a number in [-80, 80]"),
+    "taper-negative": (GEOMETRY, ["wing.taper=-0.5:1:3"], "wing.taper = -0.5", "a number in [0, 1]"),
+    "span-efficiency-from-zero": (GEOMETRY, ["wing.span_efficiency=0:1:3"], "wing.span_efficiency = 0",
+                                  "a number in (0, 1]"),
+    "fuselage-volume-negative": (GEOMETRY, ["fuselage.volume=-10:300:3"], "fuselage.volume = -10", "a number > 0"),
 }
 
 
 @pytest.mark.parametrize("file,ranges,named,rule", SWEEPS.values(), ids=list(SWEEPS))
 def test_a_sweep_grid_outside_a_file_rule_is_refused_in_one_line(file, ranges, named, rule,
                                                                   tmp_path, capsys):
+    file = file(tmp_path) if callable(file) else file
     argv = ["sweep", file, "--condition", "approach", "--plot", str(tmp_path / "out.png")]
     for text in ranges:
         argv += ["--vary", text]
@@ -73,7 +114,18 @@ def test_a_sweep_grid_outside_a_file_rule_is_refused_in_one_line(file, ranges, n
     assert status == 2 and out == ""
     assert err.count("\n") == 1 and "Traceback" not in err
     assert "--vary" in err and named in err and rule in err, err
-    assert list(tmp_path.iterdir()) == []
+    assert [p.name for p in tmp_path.iterdir()] in ([], ["constant-thrust.toml"])
+
+
+@pytest.mark.parametrize("file,key", [(GEOMETRY, "fuselage.volume=5:10:3"), (GEOMETRY, "wing.dihedral_deg=0:10:3"),
+                                      (YAW_DAMPER, "augmentation.washout_time_constant=0.5:3:3"),
+                                      (DEMO, "mach=0.1:0.25:3")],
+                         ids=["fuselage-volume", "dihedral", "washout", "mach"])
+def test_a_sweep_of_each_kind_of_key_inside_its_rule_runs(file, key, capsys):
+    """A sweep of the fuselage volume ended in KeyError 'volume' (no unit word for the dimension)."""
+    status, out, err = run(["sweep", file, "--condition", "approach", "--vary", key, "--format", "json"], capsys)
+    assert status == 0, err
+    json.loads(out)
 
 
 def test_a_sweep_inside_every_rule_runs(capsys):

@@ -4,8 +4,10 @@ A value a sweep or an uncertainty sample puts into a case must pass the
 rules its key obeys in the aircraft file (:mod:`latdyn.aircraft`): positive
 mass, inertias, speed, density, area and span; Ixz^2 < Ixx Izz; |alpha|,
 |gamma| and |alpha + gamma| below 90 degrees; the altitude inside the
-standard atmosphere; control travel above 0 and below 90 degrees each way and
-rate limits above 0; every number inside the plausible range of its
+standard atmosphere; a Mach number above 0; control travel above 0 and below 90
+degrees each way and rate limits above 0; the augmentation's time constants
+above 0 and its delay at least 0; a geometry key of a file whose derivatives
+are estimated (``wing.dihedral_deg``, ``fin.area``, ...) as its table; every number inside the plausible range of its
 dimension (:data:`latdyn.aircraft_file.PLAUSIBLE_RANGES`); an engine's
 lateral position, thrust (>= 0) and failed drag (>= 0) as its ``[[engine]]``
 table; and the fin ratios of :mod:`latdyn.studies.fin` (area ratio >= 0, arm
@@ -31,7 +33,7 @@ import itertools
 
 import numpy as np
 
-from latdyn.aircraft_file import Leaf, plausible_range, read_tree
+from latdyn.aircraft_file import GEOMETRY_TABLES, SCHEMA, Leaf, plausible_range, read_tree
 from latdyn.errors import InputError
 
 __all__ = ["check_grid", "sample_rules", "RATIO_RULES"]
@@ -48,9 +50,28 @@ _TREE_PATHS = {
     "controls.rudder": ("condition.controls", "rudder_deg"),
     "controls.aileron_rate": ("condition.controls", "aileron_rate_deg_s"),
     "controls.rudder_rate": ("condition.controls", "rudder_rate_deg_s"),
+    "mach": ("condition", "mach"),
+    **{f"augmentation.{name}": ("condition.augmentation", name) for name in (
+        "yaw_damper_gain", "washout_time_constant", "roll_damper_gain", "interconnect_gain",
+        "interconnect_time_constant", "actuator_time_constant", "sensor_time_constant", "time_delay")},
 }
 #: Rules of the fin ratios (latdyn.studies.fin): (least value, whether the least is excluded).
 RATIO_RULES = {"fin.area_ratio": (0.0, False), "fin.arm_ratio": (0.0, True)}
+
+
+def _tree_path(name):
+    """(table, key) of a batch input name in the aircraft file's tree, or None (a derivative, a fin
+    ratio, an engine's field): a geometry key of a file whose derivatives are estimated lives in
+    its top-level table (``wing.dihedral`` -> ``("wing", "dihedral_deg")``)."""
+    if name in _TREE_PATHS:
+        return _TREE_PATHS[name]
+    table, _, field = name.partition(".")
+    if table in GEOMETRY_TABLES and field:
+        if field + "_deg" in SCHEMA[table]:
+            return table, field + "_deg"
+        if field in SCHEMA[table]:
+            return table, field
+    return None
 
 
 def _refuse(aircraft, condition, key, value, expected, others=()):
@@ -104,7 +125,7 @@ def check_grid(aircraft, condition, axes):
     ------
     InputError
     """
-    from latdyn.aircraft import aircraft_from_tree
+    from latdyn.aircraft import SPEED_KEYS, aircraft_from_tree
 
     tree = None
     ends = [(float(axis.values[0]), float(axis.values[-1])) for axis in axes]
@@ -113,7 +134,7 @@ def check_grid(aircraft, condition, axes):
         through_file = []
         for key, value in pairs:
             others = [(k, v) for k, v in pairs if k is not key]
-            if key.name in _TREE_PATHS or key.name.startswith("engine."):
+            if _tree_path(key.name) or key.name.startswith("engine."):
                 through_file.append((key, value))
             else:
                 _check_direct(aircraft, condition, key, value, others)
@@ -128,13 +149,14 @@ def check_grid(aircraft, condition, axes):
                 engine, field = key.name[len("engine."):].rsplit(".", 1)
                 _engine_entry(trial, aircraft, engine)[field] = Leaf(value, aircraft.file, key.units)
                 continue
-            table, name = _TREE_PATHS[key.name]
-            if table == "condition.controls":
-                target = entry.setdefault("controls", {})
+            table, name = _tree_path(key.name)
+            if table.startswith("condition."):
+                target = entry.setdefault(table.split(".", 1)[1], {})
             else:
                 target = entry if table == "condition" else trial.setdefault(table, {})
-            if key.name == "speed":
-                target.pop("mach", None)
+            if key.name in ("speed", "mach"):  # the swept one is the condition's one speed key
+                for other in SPEED_KEYS:
+                    entry.pop(other, None)
             target[name] = Leaf(value, aircraft.file, key.units)
         try:
             aircraft_from_tree(trial)
@@ -142,7 +164,7 @@ def check_grid(aircraft, condition, axes):
             key, value = through_file[0]
             for candidate, candidate_value in through_file:
                 field = (candidate.name.rsplit(".", 1)[1] if candidate.name.startswith("engine.")
-                         else _TREE_PATHS[candidate.name][1])
+                         else _tree_path(candidate.name)[1])
                 if error.key and error.key.endswith(field):
                     key, value = candidate, candidate_value
             others = [(k, v) for k, v in pairs if k is not key]
