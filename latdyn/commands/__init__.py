@@ -6,7 +6,7 @@ that bad input stops them before anything is written).
 
 Command-line conventions (every command follows them; see DEVELOPERS.md):
 
-* options may stand before, between or after the positional files;
+* options may stand before, between or after the positional files; ``--`` ends them;
 * an option that takes several values is repeated (``--criteria A
   --criteria B``; commas also separate criteria names), and takes one value
   each time, so it never swallows a file;
