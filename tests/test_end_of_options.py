@@ -7,7 +7,6 @@ Through the real command line (``latdyn.cli.main``) in a temporary folder; the a
 the demo's and a published-data file under dash names.
 """
 
-import os
 import pathlib
 
 import pytest
@@ -46,29 +45,13 @@ def dashed(tmp_path, monkeypatch):
     return tmp_path
 
 
-@pytest.fixture
-def quick_report(monkeypatch):
-    """The report's figures as placeholders (this test is about the command line, not drawings)."""
-    import latdyn.report.figures as figures
-    from latdyn.output_files import atomic_output
-
-    def draw_all(specs, folder, step=None, workers=None):
-        for spec in specs:
-            for suffix in (".png", ".svg"):
-                with atomic_output(os.path.join(folder, spec.name + suffix), text=False) as handle:
-                    handle.write(b"\x89PNG\r\n\x1a\n")
-            if step is not None:
-                step()
-
-    monkeypatch.setattr(figures, "draw_all", draw_all)
-
-
 def test_every_command_that_reads_files_is_covered():
     assert set(RUNS) == {name for name, _ in COMMANDS} - {"schema"}
 
 
 @pytest.mark.parametrize("name", list(RUNS))
-def test_files_after_double_dash_are_files_even_with_a_leading_dash(name, dashed, quick_report, capsys):
+def test_files_after_double_dash_are_files_even_with_a_leading_dash(name, dashed, placeholder_figures,
+                                                                   capsys):
     options, files = RUNS[name]
     status = main([name, *options, "--", *files])
     captured = capsys.readouterr()

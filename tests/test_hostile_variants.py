@@ -13,7 +13,6 @@ security testing (as in tests/test_hostile_names.py).
 """
 
 import json
-import os
 import pathlib
 import re
 import tomllib
@@ -69,25 +68,8 @@ def test_compare_shows_a_hostile_variant_name_escaped_in_every_format(folder, ca
     assert document["comparisons"][0]["variant"]["aircraft"] == HOSTILE  # JSON carries the name exactly
 
 
-@pytest.fixture
-def quick_report(monkeypatch):
-    """The report's figures as placeholders (the figures' names matter here; their drawing is tested
-    below, on the figure functions)."""
-    import latdyn.report.figures as figures
-    from latdyn.output_files import atomic_output
-
-    def draw_all(specs, folder, step=None, workers=None):
-        for spec in specs:
-            for suffix in (".png", ".svg"):
-                with atomic_output(os.path.join(folder, spec.name + suffix), text=False) as handle:
-                    handle.write(b"\x89PNG\r\n\x1a\n")
-            if step is not None:
-                step()
-
-    monkeypatch.setattr(figures, "draw_all", draw_all)
-
-
-def test_report_compare_with_a_hostile_variant_stays_inside_and_escapes(folder, quick_report, tmp_path, capsys):
+def test_report_compare_with_a_hostile_variant_stays_inside_and_escapes(folder, placeholder_figures, tmp_path,
+                                                                         capsys):
     out = tmp_path / "report"
     _run(["report", folder / "base.toml", "--compare", folder / "variant.toml", "-o", out], capsys)
     assert sorted(p.name for p in tmp_path.iterdir()) == ["report"]

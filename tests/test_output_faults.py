@@ -19,6 +19,7 @@ import errno
 import json
 import os
 import pathlib
+import shlex
 import shutil
 import signal
 import subprocess
@@ -78,17 +79,9 @@ def quick_figures(request, monkeypatch):
     if "real_figures" in request.fixturenames:
         return
     import latdyn.report.figures as figures
-    from latdyn.output_files import atomic_output
+    from conftest import placeholder_draw_all
 
-    def draw_all(specs, folder, step=None, workers=None):
-        for spec in specs:
-            for suffix in (".png", ".svg"):
-                with atomic_output(os.path.join(folder, spec.name + suffix), text=False) as handle:
-                    handle.write(PNG_MAGIC)
-            if step is not None:
-                step()
-
-    monkeypatch.setattr(figures, "draw_all", draw_all)
+    monkeypatch.setattr(figures, "draw_all", placeholder_draw_all)
 
 
 @pytest.fixture
@@ -631,20 +624,21 @@ def _unshare_works():
 
 @pytest.mark.skipif(sys.platform != "linux" or not _unshare_works(),
                     reason="needs a private mount namespace (unshare -rm) for a small tmpfs")
-@pytest.mark.parametrize("argv", [["report", "{small}", "-o", "{disk}/report"],
-                                  ["respond", str(DEMO), "--duration", "60", "--csv", "{disk}/run.csv"]],
-                         ids=["report", "respond-csv"])
-def test_a_real_full_disk(argv, small, tmp_path):
-    """A 64 kB tmpfs mounted in a private mount namespace (gone with the process): a real ENOSPC."""
+@pytest.mark.parametrize("name", WRITING + ["report"])
+def test_a_real_full_disk(name, small, tmp_path):
+    """Every command that writes files, onto a 64 kB tmpfs mounted in a private mount namespace (gone
+    with the process) and filled to the last byte first: a real ENOSPC from the kernel, whatever the
+    size of the output.  One line naming the output, status 2, nothing left on the disk but the filler."""
     disk = tmp_path / "disk"
     disk.mkdir()
-    words = " ".join(f"'{a.format(small=small, disk=disk)}'" for a in argv)
-    script = (f"mount -t tmpfs -o size=64k tmpfs '{disk}' && cd '{tmp_path}' && "
-              f"'{sys.executable}' -m latdyn {words}; echo status=$?; ls -A '{disk}'")
+    argv = ["report", small, "-o", disk / "report"] if name == "report" else _writing_commands(disk)[name]
+    words = " ".join(shlex.quote(str(a)) for a in argv)
+    script = (f"mount -t tmpfs -o size=64k tmpfs '{disk}' && dd if=/dev/zero of='{disk}/filler' bs=4k 2>/dev/null; "
+              f"cd '{tmp_path}' && '{sys.executable}' -m latdyn {words}; echo status=$?; ls -A '{disk}'")
     result = subprocess.run(["unshare", "-rm", "sh", "-c", script], capture_output=True, text=True, timeout=900,
                             env={**os.environ, "PYTHONPATH": str(ROOT)})
-    assert "status=2" in result.stdout, result.stdout + result.stderr
-    assert result.stdout.strip().endswith("status=2")  # the disk is empty afterwards: no file, no temporary
+    assert "status=2" in result.stdout, result.stdout[-3000:] + result.stderr
+    assert result.stdout.strip().endswith("status=2\nfiller")  # no file, no temporary
     one_line(result.stderr, "no space left on device (ENOSPC)")
     assert str(disk) in result.stderr
 

@@ -78,20 +78,10 @@ FIGURE_ENDS = {".png": b"IEND\xaeB`\x82", ".svg": b"</svg>\n", ".pdf": b"%%EOF\n
 # TOML writing (the campaign's own: the standard library reads TOML but does not write it)
 
 def _toml_string(text):
-    out = []
-    for char in text:
-        code = ord(char)
-        if char == '"':
-            out.append('\\"')
-        elif char == "\\":
-            out.append("\\\\")
-        elif code < 32 or code == 127:
-            out.append(f"\\u{code:04x}")
-        elif 0xD800 <= code <= 0xDFFF:
-            out.append("\ufffd")
-        else:
-            out.append(char)
-    return '"' + "".join(out) + '"'
+    """A TOML basic string holding ``text`` (latdyn's own writer of names into TOML)."""
+    from latdyn.text import toml_string
+
+    return toml_string(text)
 
 
 def toml_value(value):
