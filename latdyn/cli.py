@@ -257,6 +257,20 @@ class _ClosedStream(io.TextIOBase):
         return True
 
 
+def _standard_output_file():
+    """{(device, inode): words} of standard output when it is redirected to a regular file (an input
+    file may not be it), else {}."""
+    import stat
+
+    try:
+        status = os.fstat(1)
+    except OSError:
+        return {}
+    if not stat.S_ISREG(status.st_mode):
+        return {}
+    return {(status.st_dev, status.st_ino): "the file standard output is redirected to"}
+
+
 def _standard_streams():
     """Closed standard descriptors (``2>&-``, ``>&-``) reopened on the null device, so that no output
     file is given descriptor 1 or 2 (where a stray write would land in it); standard error closed is
@@ -337,7 +351,7 @@ def main(argv=None) -> int:
     Whatever the locale and the names in the files, the terminal gets text
     it can show (:class:`_TerminalStream`), and a library warning is one line.
     """
-    from latdyn.input_files import recording_inputs
+    from latdyn.input_files import recording_inputs, refusing_to_read
     from latdyn.output_files import all_or_nothing, interruptible, write_error
 
     _standard_streams()
@@ -345,7 +359,7 @@ def main(argv=None) -> int:
     debug = getattr(args, "debug", False)
     with _terminal():
         try:
-            with interruptible(), recording_inputs(), all_or_nothing():
+            with interruptible(), recording_inputs(), refusing_to_read(_standard_output_file()), all_or_nothing():
                 _refuse_empty_values(args)
                 _text_arguments(args)
                 status = _command_module(args.command).run(args)

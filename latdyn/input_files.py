@@ -20,7 +20,7 @@ import tomllib
 
 from latdyn.errors import InputError
 
-__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES", "special_file_kind", "note_input",
+__all__ = ["read_input_text", "parse_toml", "MAX_INPUT_BYTES", "special_file_kind", "note_input", "refusing_to_read",
            "recording_inputs", "inputs_read"]
 
 #: Largest input text file read [bytes] (the aircraft loader has its own limit).
@@ -57,14 +57,40 @@ def recording_inputs():
         _RECORDS.remove(read)
 
 
+#: Files the run writes as it goes (standard output redirected to a file): (device, inode) -> words.
+_WRITTEN = {}
+
+
+@contextlib.contextmanager
+def refusing_to_read(files):
+    """Inside the block, an input file that is one of ``files`` ((device, inode) -> what writes it,
+    in words) is refused when noted (:func:`note_input`): ``latdyn modes A.toml >> A.toml`` would
+    append the output to the aircraft file being read."""
+    _WRITTEN.update(files)
+    try:
+        yield
+    finally:
+        for identity in files:
+            _WRITTEN.pop(identity, None)
+
+
 def note_input(path) -> None:
-    """Record ``path`` as an input of the run in every open :func:`recording_inputs` block."""
+    """Record ``path`` as an input of the run in every open :func:`recording_inputs` block.
+
+    Raises
+    ------
+    InputError
+        ``path`` is a file the run writes as it goes (:func:`refusing_to_read`).
+    """
     if not _RECORDS:
         return
     try:
         status = os.stat(path)
     except OSError:
         return
+    writer = _WRITTEN.get((status.st_dev, status.st_ino))
+    if writer:
+        raise InputError(path, None, "an input file that is not also an output of the run", writer)
     real = os.path.realpath(path)
     for read in _RECORDS:
         read[real] = (status.st_dev, status.st_ino)

@@ -140,3 +140,25 @@ def test_every_writing_command_uses_the_one_plan_check():
         assert "check_output_plan" in text or "load_study_inputs" in text, name
         for old in ("check_output_file(", "check_output_folder(", "check_outputs(", "check_folder_target("):
             assert old not in text, f"{name} checks its outputs on its own ({old})"
+
+
+@pytest.mark.parametrize("argv", [["modes", "{a}", "--format", "json"], ["compare", "{a}", "{v}"],
+                                  ["modes", "{v}"]], ids=["modes", "compare-base", "extends-target"])
+def test_standard_output_appended_to_an_input_file_is_refused(argv, tmp_path):
+    """``latdyn modes A.toml >> A.toml`` appended the output to the aircraft file being read; refused
+    when the file is read, before any work, and the file is left as it was."""
+    import subprocess
+    import sys
+
+    aircraft = tmp_path / "a.toml"
+    aircraft.write_bytes(DEMO.read_bytes())
+    (tmp_path / "v.toml").write_text('extends = "a.toml"\nname = "Variant"\n', encoding="utf-8")
+    with open(aircraft, "ab") as output:
+        done = subprocess.run([sys.executable, "-m", "latdyn", *(a.format(a=aircraft, v=tmp_path / "v.toml")
+                                                                  for a in argv)],
+                              stdout=output, stderr=subprocess.PIPE, text=True, cwd=tmp_path,
+                              env={**os.environ, "PYTHONPATH": str(ROOT)})
+    assert done.returncode == 2
+    assert done.stderr == (f"latdyn: {aircraft}: expected an input file that is not also an output of the run, "
+                           "found the file standard output is redirected to\n")
+    assert aircraft.read_bytes() == DEMO.read_bytes()
