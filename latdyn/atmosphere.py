@@ -190,8 +190,13 @@ _HALF_GAMMA_MINUS_ONE = (GAMMA - 1.0) / 2.0  # 0.2
 
 
 def _mach_from_impact(impact, pressure):
-    """Inverse of :func:`impact_pressure` (subsonic): M = sqrt(5 [(q_c/p + 1)^(2/7) - 1])."""
-    return np.sqrt(((impact / pressure + 1.0) ** (1.0 / _EXPONENT) - 1.0) / _HALF_GAMMA_MINUS_ONE)
+    """Inverse of :func:`impact_pressure` (subsonic): M = sqrt(5 [(q_c/p + 1)^(2/7) - 1]).
+
+    Evaluated as sqrt(5 expm1(log1p(q_c/p) 2/7)): exact to rounding down to the least
+    speeds (the bracket as written loses every digit once q_c/p < 1e-16 and gives M = 0).
+    """
+    ratio = np.asarray(impact, dtype=float) / pressure
+    return np.sqrt(np.expm1(np.log1p(ratio) / _EXPONENT) / _HALF_GAMMA_MINUS_ONE)
 
 
 def impact_pressure(mach, pressure):
@@ -225,8 +230,9 @@ def impact_pressure(mach, pressure):
     1.0
     """
     m = np.asarray(mach, dtype=float)
-    return np.asarray(pressure, dtype=float) * (
-        (1.0 + _HALF_GAMMA_MINUS_ONE * m**2) ** _EXPONENT - 1.0)
+    # expm1/log1p: (1 + x)^3.5 - 1 to full precision for small x (a speed of 1e-6 m/s)
+    return np.asarray(pressure, dtype=float) * np.expm1(
+        _EXPONENT * np.log1p(_HALF_GAMMA_MINUS_ONE * m**2))
 
 
 def calibrated_airspeed(true_airspeed, altitude):

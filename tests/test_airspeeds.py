@@ -64,6 +64,21 @@ def test_sea_level_speeds_agree():
     assert float(equivalent_airspeed(150.0, 1.225)) == pytest.approx(150.0, rel=1e-6)
 
 
+@pytest.mark.parametrize("speed", [1e-6, 1e-4, 1e-3])
+def test_calibrated_airspeed_keeps_its_digits_at_the_least_speeds(speed):
+    """As M -> 0 the calibrated airspeed tends to the equivalent airspeed (the compressibility
+    correction vanishes as M^2: Gracey 1980), here to 1e-9; and the round trip returns the
+    speed to rounding.  The pitot bracket (1 + 0.2 M^2)^3.5 - 1 as written lost every digit
+    below M of about 1e-8 (a calibrated airspeed of 1e-6 m/s became a true airspeed of 0)."""
+    from latdyn.atmosphere import standard_atmosphere
+
+    altitude = 3048.0
+    cas = float(calibrated_airspeed(speed, altitude))
+    density = float(standard_atmosphere(altitude).density)
+    assert cas == pytest.approx(float(equivalent_airspeed(speed, density)), rel=1e-9)
+    assert float(true_airspeed_from_calibrated(cas, altitude)[1]) == pytest.approx(speed, rel=1e-12)
+
+
 def condition_file(write_file, speed_line, units="SI", altitude=3048.0, extra=""):
     text = f"""name = "speed keys"
 units = "{units}"
