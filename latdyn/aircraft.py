@@ -17,7 +17,8 @@ from dataclasses import dataclass, fields, replace
 
 from latdyn import atmosphere, units
 from latdyn.aircraft_file import (DIMENSIONAL_FORMS, NONDIMENSIONAL_KEYS, STALL_SPEED_KEYS,
-                                  UNCERTAIN_KEYS, Leaf, form_unit, plausible_range, read_tree)
+                                  UNCERTAIN_KEYS, INERTIA_MARGIN, Leaf, form_unit, plausible_range,
+                                  read_tree)
 from latdyn.errors import InputError, describe_value
 
 __all__ = [
@@ -722,15 +723,17 @@ def _number(table, key, dotted, context, dimension="none", required=True, defaul
     return si
 
 
-def _check_plausible(si, dimension, dotted, context, leaf=None):
-    """Refuse a number outside :func:`latdyn.aircraft_file.plausible_range` of its dimension."""
+def _check_plausible(si, dimension, dotted, context, leaf=None, found=None):
+    """Refuse a number outside :func:`latdyn.aircraft_file.plausible_range` of its dimension
+    (``found``: what the message says was found, default the leaf's value)."""
     low, high = plausible_range(dimension)
     if si != 0.0 and not low <= abs(si) <= high:
         file_units = leaf.units if isinstance(leaf, Leaf) else "SI"
         word = units.unit_word(dimension, file_units) if dimension in units.UNIT_WORDS else ""
         shown = [units.from_si(x, dimension, file_units) if dimension in units.DIMENSION_FACTORS else x
                  for x in (low, high)]
-        found = describe_value(leaf.value) if isinstance(leaf, Leaf) else f"{si:g}"
+        if found is None:
+            found = describe_value(leaf.value) if isinstance(leaf, Leaf) else f"{si:g}"
         context.fail(dotted, f"0 or a magnitude from {shown[0]:.3g} to {shown[1]:.3g}"
                      f"{' ' + word if word else ''} (a plausible range, far beyond any aircraft)",
                      found, leaf)
@@ -798,7 +801,7 @@ def _mass(tree, context):
     Izz = _number(table, "Izz", "mass.Izz", context, "inertia", positive=True)
     _number(table, "Iyy", "mass.Iyy", context, "inertia", required=False, positive=True)
     Ixz = _number(table, "Ixz", "mass.Ixz", context, "inertia", required=False, default=0.0)
-    if Ixz**2 >= Ixx * Izz:
+    if Ixz**2 > (1.0 - INERTIA_MARGIN) * Ixx * Izz:
         leaf = table["Ixz"]
         # blame the file that broke the rule: the newest of the three values (a variant that
         # changes Ixx against the base's Ixz is the variant's mistake)
@@ -806,7 +809,8 @@ def _mass(tree, context):
                      key=lambda item: context.files.index(item.file)
                      if item.file in context.files else len(context.files))
         key = next(k for k in ("Ixz", "Ixx", "Izz") if table[k] is newest)
-        context.fail(f"mass.{key}", "Ixz^2 < Ixx Izz (a physical inertia)",
+        context.fail(f"mass.{key}", f"Ixz^2 < Ixx Izz (a physical inertia; Ixz^2 / (Ixx Izz) at "
+                     f"most 1 - {INERTIA_MARGIN:g})",
                      f"Ixz = {describe_value(leaf.value)} with Ixx = "
                      f"{describe_value(table['Ixx'].value)}, Izz = {describe_value(table['Izz'].value)}",
                      newest)
@@ -988,7 +992,9 @@ def _number_list(table, key, dotted, context, dimension, minimum=0.0):
         if item < minimum:
             context.fail(dotted, f"a list of numbers >= {minimum:g}", f"the item {describe_value(item)}",
                          leaf)
-        out.append(units.to_si(float(item), dimension, leaf.units))
+        si = units.to_si(float(item), dimension, leaf.units)
+        _check_plausible(si, dimension, dotted, context, leaf, f"the item {describe_value(item)}")
+        out.append(si)
     return tuple(out), leaf
 
 
@@ -1167,7 +1173,7 @@ def _speed(entry, altitude, density, air, context):
         if speed_of_sound is None:
             context.fail(dotted, "an altitude with the Mach number (for the speed of sound)",
                          "mach without altitude", entry["mach"])
-        return mach * speed_of_sound, mach
+        return _plausible_true_airspeed(mach * speed_of_sound, entry["mach"], dotted, context), mach
     dimension = "knots" if key.endswith("_kt") else "speed"
     value = _number(entry, key, dotted, context, dimension, positive=True)
     if key.startswith("equivalent_airspeed"):
@@ -1180,7 +1186,23 @@ def _speed(entry, altitude, density, air, context):
         if mach >= 1.0:
             context.fail(dotted, "a subsonic calibrated airspeed at this altitude (Mach < 1)",
                          f"{describe_value(entry[key].value)} (Mach {mach:.3f})", entry[key])
+    if key not in ("speed", "speed_kt"):
+        value = _plausible_true_airspeed(value, entry[key], dotted, context)
     return value, (value / speed_of_sound if speed_of_sound else None)
+
+
+def _plausible_true_airspeed(true_airspeed, leaf, dotted, context):
+    """The true airspeed a Mach number, equivalent or calibrated airspeed implies, checked
+    against the plausible range of a speed (a Mach number of 1e6 or an equivalent airspeed
+    in a density of 1e-9 kg/m^3 is refused here, not by an overflow later)."""
+    low, high = plausible_range("speed")
+    if not low <= true_airspeed <= high:
+        shown = [units.from_si(x, "speed", leaf.units) for x in (low, high, true_airspeed)]
+        word = units.unit_word("speed", leaf.units)
+        context.fail(dotted, f"a value implying a true airspeed from {shown[0]:.3g} to "
+                     f"{shown[1]:.3g} {word} (a plausible range, far beyond any aircraft)",
+                     f"{describe_value(leaf.value)} (a true airspeed of {shown[2]:.3g} {word})", leaf)
+    return true_airspeed
 
 
 def _flight(entry, name, context):

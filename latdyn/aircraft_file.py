@@ -22,7 +22,7 @@ from dataclasses import dataclass
 from latdyn.errors import InputError, describe_value
 from latdyn.input_files import note_input, parse_toml, special_file_kind
 
-__all__ = ["Leaf", "SCHEMA", "PLAUSIBLE_RANGES", "plausible_range", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
+__all__ = ["Leaf", "SCHEMA", "PLAUSIBLE_RANGES", "plausible_range", "INERTIA_MARGIN", "CONTROL_KEYS", "DIMENSIONAL_FORMS", "form_unit", "GivenValue",
            "given_values", "UNCERTAIN_KEYS", "AUGMENTATION_KEYS",
            "GEOMETRY_TABLES", "STALL_SPEED_KEYS", "ENGINE_KEYS", "LIST_TABLES", "read_tree",
            "MAX_FILE_BYTES"]
@@ -176,6 +176,12 @@ PLAUSIBLE_RANGES = {
     "impulse": (1e-30, 1e12), "moment": (1e-30, 1e14), "moment_time": (1e-30, 1e14),
 }
 DEFAULT_PLAUSIBLE = (1e-30, 1e12)
+
+#: Least plausible 1 - Ixz^2 / (Ixx Izz): the inertia rule Ixz^2 < Ixx Izz is kept with this
+#: margin, so that the primed derivatives' factor 1 / (1 - Ixz^2 / (Ixx Izz)) stays at most
+#: 1e6 (an Ixz within rounding of sqrt(Ixx Izz) passed the bare rule and divided by zero).
+#: Far beyond any aircraft: a real one has Ixz^2 / (Ixx Izz) of a few per cent (common practice).
+INERTIA_MARGIN = 1e-6
 
 
 def plausible_range(dimension) -> tuple:

@@ -33,7 +33,7 @@ import itertools
 
 import numpy as np
 
-from latdyn.aircraft_file import GEOMETRY_TABLES, SCHEMA, Leaf, plausible_range, read_tree
+from latdyn.aircraft_file import GEOMETRY_TABLES, INERTIA_MARGIN, SCHEMA, Leaf, plausible_range, read_tree
 from latdyn.errors import InputError
 
 __all__ = ["check_grid", "sample_rules", "RATIO_RULES"]
@@ -216,5 +216,5 @@ def sample_rules(aircraft, condition, drawn) -> tuple:
                 rule(f"{name} > 0", ~(np.asarray(drawn[name]) > 0))
         if any(k in drawn for k in ("Ixx", "Izz", "Ixz")) and values["Ixx"] is not None:
             ixx, izz, ixz = (np.asarray(values[k], dtype=float) for k in ("Ixx", "Izz", "Ixz"))
-            rule("Ixz^2 < Ixx Izz", ~(ixz * ixz < ixx * izz))
+            rule("Ixz^2 < Ixx Izz", ~(ixz * ixz <= (1.0 - INERTIA_MARGIN) * ixx * izz))
     return valid, counts
