@@ -49,6 +49,7 @@ __all__ = [
     "augmentation_blocks", "augmented_model", "condition_model", "track_roots",
     "augmented_modes", "model_modes", "loop_matrices", "bare_aircraft", "is_augmented", "added_label", "describe",
     "actuator_rate_limits", "RateLimitedRun", "simulate_rate_limited", "WashoutEffect",
+    "MAX_RATE_LIMITED_STEPS", "StiffRun", "fastest_setting",
     "washout_effect", "static_gain",
 ]
 
@@ -647,6 +648,48 @@ class RateLimitedRun:
         return iter((self.response, self.limits, self.limited_time))
 
 
+#: Most Runge-Kutta steps of one rate-limited run (a few seconds of integration; a typical run
+#: needs a few thousand).  A closed loop so fast that its run would need more (a time constant
+#: of 1e-30 s asks for 1e31 steps) is refused (:class:`StiffRun`) instead of integrated for ever.
+MAX_RATE_LIMITED_STEPS = 1_000_000
+
+
+class StiffRun(ValueError):
+    """A rate-limited run would need more than :data:`MAX_RATE_LIMITED_STEPS` integration steps.
+
+    Attributes
+    ----------
+    steps : float
+        The steps the run would need.
+    fastest : float
+        The closed loop's fastest root magnitude |lambda| [1/s].
+    """
+
+    def __init__(self, steps, fastest):
+        super().__init__(f"a rate-limited run of {steps:.3g} integration steps (fastest root "
+                         f"{fastest:.3g} 1/s)")
+        self.steps = steps
+        self.fastest = fastest
+
+
+def fastest_setting(augmentation: Augmentation):
+    """The augmentation key of the shortest time scale and that time scale [s], or None.
+
+    The time constants as given; the delay as ``time_delay / (2 pade_order)`` (the Padé
+    approximation's fastest poles grow with the order as about 2 n / delay; common practice).
+    """
+    scales = {key: getattr(augmentation, key) for key in
+              ("washout_time_constant", "interconnect_time_constant", "actuator_time_constant",
+               "sensor_time_constant")}
+    if augmentation.time_delay > 0:
+        scales["time_delay"] = augmentation.time_delay / (2 * augmentation.pade_order)
+    scales = {key: value for key, value in scales.items() if value}
+    if not scales:
+        return None
+    key = min(scales, key=scales.get)
+    return key, scales[key]
+
+
 def simulate_rate_limited(model: AugmentedModel, history, limits, initial=None, label="") -> RateLimitedRun:
     """Time response of the augmented aircraft with rate-limited actuators (nonlinear).
 
@@ -671,6 +714,12 @@ def simulate_rate_limited(model: AugmentedModel, history, limits, initial=None, 
     Returns
     -------
     RateLimitedRun
+
+    Raises
+    ------
+    StiffRun
+        The run would need more than :data:`MAX_RATE_LIMITED_STEPS` steps (a closed loop far
+        faster than the time step: a time constant of microseconds or less).
     """
     from latdyn.responses import Response, with_heading
 
@@ -684,6 +733,11 @@ def simulate_rate_limited(model: AugmentedModel, history, limits, initial=None, 
     time = np.asarray(history.time, dtype=float)
     inputs = np.asarray(history.values, dtype=float)
     fastest = float(np.abs(np.linalg.eigvals(A)).max())
+    with np.errstate(over="ignore", invalid="ignore"):
+        substeps_each = np.ceil(np.diff(time) * fastest / 0.5)
+        steps = float(np.maximum(substeps_each, 1.0).sum()) if np.isfinite(fastest) else math.inf
+    if not steps <= MAX_RATE_LIMITED_STEPS:
+        raise StiffRun(steps, fastest)
     on_limit = np.zeros(len(clip_index))
 
     def rate(state, u):

@@ -345,6 +345,28 @@ def _refuse_overflow(cases, responses, args):
                              f"a run to {response.time[-1]:g} s", condition.name)
 
 
+def _rate_limited(aircraft, condition, model, history, limits, initial, label, args):
+    """The rate-limited run, or one line naming what makes it too stiff to integrate."""
+    from latdyn.augmentation import (MAX_RATE_LIMITED_STEPS, StiffRun, fastest_setting,
+                                     simulate_rate_limited)
+    from latdyn.errors import InputError
+
+    try:
+        return simulate_rate_limited(model, history, limits, initial, label)
+    except StiffRun as error:
+        setting = fastest_setting(condition.augmentation)
+        expected = (f"a closed loop slow enough for the rate-limited simulation (at most "
+                    f"{MAX_RATE_LIMITED_STEPS:,} integration steps over the run)")
+        if setting is not None and 1.0 / setting[1] >= 0.1 * error.fastest:
+            key = setting[0]
+            raise InputError(aircraft.file, f"augmentation.{key}", expected,
+                             f"{getattr(condition.augmentation, key):g} s: {error}",
+                             condition.name) from None
+        option = "--duration" if args.duration is None else f"--duration {args.duration:g}"
+        raise InputError(aircraft.file, option, expected + "; give a shorter --duration", str(error),
+                         condition.name) from None
+
+
 def run(args):
     from latdyn.augmentation import condition_model
     from latdyn.inputs import InitialDisturbance, default_inputs
@@ -374,10 +396,10 @@ def run(args):
                                      r=math.radians(args.r0_deg_s), phi=math.radians(args.phi0_deg))
         from latdyn.augmentation import actuator_rate_limits, simulate_rate_limited
 
-        for (_, condition), model, label in zip(cases, models, labels):
+        for (aircraft, condition), model, label in zip(cases, models, labels):
             limits = actuator_rate_limits(condition, model)
             if limits:
-                run = simulate_rate_limited(model, history, limits, initial, label)
+                run = _rate_limited(aircraft, condition, model, history, limits, initial, label, args)
                 responses.append(run.response)
                 limited.append(run)
             else:
