@@ -344,10 +344,11 @@ def _roll_sign(A, b, row):
     vector = b
     scale = np.abs(A).max(axis=(1, 2)) + 1.0
     size = np.abs(row).max(axis=1) * np.abs(b).max(axis=1)
+    scaled = A / scale[:, None, None]  # C (A/s)^k b against 1e-12 |C| |b|: no s^k to overflow
     for k in range(n):
         value = np.einsum("nk,nk->n", row, vector)
-        sign = np.where((sign == 0) & (np.abs(value) > 1e-12 * size * scale**k), np.sign(value), sign)
-        vector = np.einsum("nkj,nj->nk", A, vector)
+        sign = np.where((sign == 0) & (np.abs(value) > 1e-12 * size), np.sign(value), sign)
+        vector = np.einsum("nkj,nj->nk", scaled, vector)
     return sign
 
 
