@@ -15,7 +15,7 @@ from latdyn.model import LateralModel
 from latdyn.modes import ModeSet
 
 __all__ = ["ConditionResult", "analyse_aircraft", "modes_document", "condition_document",
-           "derivative_sources", "provenance_line", "condition_modes"]
+           "derivative_sources", "provenance_line", "condition_modes", "condition_turbulence"]
 
 
 @dataclass(frozen=True)
@@ -52,6 +52,29 @@ def condition_modes(aircraft: Aircraft, condition: Condition, model) -> ModeSet:
     except UnresolvedRoots as error:
         raise InputError(aircraft.file, None,
                          "inputs whose model has roots that double precision can resolve "
+                         "(check the magnitudes of the derivatives, mass, inertia and speed)",
+                         str(error), condition.name) from None
+
+
+def condition_turbulence(aircraft: Aircraft, condition: Condition, model, gust, span):
+    """:func:`latdyn.turbulence.turbulence_response` of one condition's model; an RMS it cannot
+    vouch for is bad input.
+
+    Raises
+    ------
+    InputError
+        The stationary covariance is not known to working accuracy
+        (:class:`latdyn.turbulence.CovarianceUnresolved`): one line naming the file and the
+        condition.
+    """
+    from latdyn.errors import InputError
+    from latdyn.turbulence import CovarianceUnresolved, turbulence_response
+
+    try:
+        return turbulence_response(model, gust, span)
+    except CovarianceUnresolved as error:
+        raise InputError(aircraft.file, None,
+                         "inputs whose turbulence response double precision can resolve "
                          "(check the magnitudes of the derivatives, mass, inertia and speed)",
                          str(error), condition.name) from None
 

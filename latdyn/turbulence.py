@@ -43,6 +43,7 @@ the modes left out are named -- in the air the pilot holds the bank against them
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass
 
 import numpy as np
@@ -50,6 +51,7 @@ import numpy as np
 from latdyn.units import STANDARD_GRAVITY
 
 __all__ = [
+    "CovarianceUnresolved", "LYAPUNOV_TOLERANCE",
     "GUST_INPUTS", "RMS_OUTPUTS", "DEGREES", "Gust", "gust_model", "dryden_lateral",
     "TurbulenceSystem", "turbulence_system", "covariance", "TurbulenceResult", "turbulence_response",
     "output_spectra", "time_history", "dryden_spectrum",
@@ -198,6 +200,21 @@ def turbulence_system(model, gust: Gust, span) -> TurbulenceSystem:
     return TurbulenceSystem(A, B, C, RMS_OUTPUTS, tuple(closed.state_names))
 
 
+#: Largest relative residual |A P + P A^T + B B^T| / |B B^T| of a stationary covariance
+#: accepted (common practice: a check of the computed solution; a clean solve gives about 1e-15).
+LYAPUNOV_TOLERANCE = 1e-6
+
+
+class CovarianceUnresolved(ValueError):
+    """The stationary covariance of a model cannot be computed to working accuracy.
+
+    Raised (by :func:`covariance`) instead of an RMS that is not known: a model whose stable
+    and neutral roots cannot be separated (the ordered Schur form fails even with a wider
+    neutral band), or whose Lyapunov solution leaves a residual above
+    :data:`LYAPUNOV_TOLERANCE` (roots spanning more magnitudes than double precision holds).
+    """
+
+
 def covariance(A, B, stable_margin=1e-9):
     """Stationary state covariance of x' = A x + B n (unit white noise), and the roots left out.
 
@@ -211,11 +228,24 @@ def covariance(A, B, stable_margin=1e-9):
     P : numpy.ndarray
     left_out : numpy.ndarray of complex
         The roots whose modes are not in P (empty when all are stable).
+
+    Raises
+    ------
+    CovarianceUnresolved
+        The solution cannot be vouched for (its residual is checked).
     """
     from scipy.linalg import solve_continuous_lyapunov
 
     As, Bs, Qs, left_out = _stable_part(A, B, stable_margin)
-    Ps = solve_continuous_lyapunov(As, -Bs @ Bs.T)
+    W = Bs @ Bs.T
+    with warnings.catch_warnings(), np.errstate(all="ignore"):
+        # scipy's note on perturbed coefficients: the residual below decides
+        warnings.simplefilter("ignore", RuntimeWarning)
+        Ps = solve_continuous_lyapunov(As, -W)
+        residual = np.abs(As @ Ps + Ps @ As.T + W).max() / max(np.abs(W).max(), np.finfo(float).tiny)
+    if not residual <= LYAPUNOV_TOLERANCE:
+        raise CovarianceUnresolved(f"a stationary covariance whose Lyapunov residual is {residual:.2g} of "
+                                   f"the noise intensity (at most {LYAPUNOV_TOLERANCE:g})")
     return Qs @ Ps @ Qs.T, left_out
 
 
@@ -229,19 +259,33 @@ def _stable_part(A, B, stable_margin=1e-9):
     C. F. Van Loan, *Matrix Computations*, 4th ed., 2013, sections 7.6.3 and
     7.6.5 -- block diagonalisation by a Sylvester equation; robust where an
     eigenvector basis is not, as for the Dryden filter's double root).
+
+    Where LAPACK cannot reorder the Schur form (roots too close to the stable margin to be
+    separated), the neutral band is widened a hundredfold at a time, up to 1e-3 of the
+    largest root; beyond, :class:`CovarianceUnresolved`.
     """
-    from scipy.linalg import schur, solve_sylvester
+    from scipy.linalg import LinAlgError, schur, solve_sylvester
 
     A = np.asarray(A, dtype=float)
     B = np.asarray(B, dtype=float)
     values = np.linalg.eigvals(A)
-    limit = -stable_margin * max(float(np.abs(values).max()), 1.0)
-    T, Q, count = schur(A, output="real", sort=lambda re, im: re < limit)
+    margin = stable_margin
+    while True:
+        limit = -margin * max(float(np.abs(values).max()), 1.0)
+        try:
+            T, Q, count = schur(A, output="real", sort=lambda re, im: re < limit)
+            break
+        except LinAlgError as error:
+            margin *= 100.0
+            if margin > 1e-3:
+                raise CovarianceUnresolved(f"stable and neutral roots that can be separated ({error})") from None
     left_out = values[values.real >= limit]
     QB = Q.T @ B
     if count == A.shape[0]:
         return T, QB, Q, left_out
-    X = solve_sylvester(T[:count, :count], -T[count:, count:], -T[:count, count:])
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", RuntimeWarning)  # the covariance's residual decides
+        X = solve_sylvester(T[:count, :count], -T[count:, count:], -T[:count, count:])
     return T[:count, :count], QB[:count] - X @ QB[count:], Q[:, :count], left_out
 
 

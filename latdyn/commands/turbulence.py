@@ -53,7 +53,8 @@ def run(args):
     from latdyn.errors import InputError
     from latdyn.report.render import escape_markdown, render
     from latdyn.report.tables import turbulence_table
-    from latdyn.turbulence import Gust, turbulence_response
+    from latdyn.results import condition_turbulence
+    from latdyn.turbulence import Gust
 
     from latdyn.commands import positive_option
 
@@ -86,12 +87,12 @@ def run(args):
     entries, documents, primary = [], [], []
     for condition in chosen:
         model = condition_model(aircraft, condition)
-        result = turbulence_response(model, gust, span)
+        result = condition_turbulence(aircraft, condition, model, gust, span)
         primary.append(result)
         document = {"name": condition.name, "turbulence": result.as_dict(),
                     "turbulence_notes": result.notes()}
         if isinstance(model, AugmentedModel):
-            bare = turbulence_response(model.bare, gust, span)
+            bare = condition_turbulence(aircraft, condition, model.bare, gust, span)
             entries += [(condition.name, "augmented", result), (condition.name, "bare airframe", bare)]
             document["bare"] = {"turbulence": bare.as_dict(), "turbulence_notes": bare.notes()}
         else:

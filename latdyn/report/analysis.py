@@ -129,11 +129,11 @@ def _augmentation_data(aircraft, assessment, gust):
         model = condition_model(aircraft, condition)
         turbulence = ()
         if gust is not None and aircraft.geometry is not None:
-            from latdyn.turbulence import turbulence_response
+            from latdyn.results import condition_turbulence
 
             span = aircraft.geometry.span
-            turbulence = ((condition.name, "augmented", turbulence_response(model, gust, span)),
-                          (condition.name, "bare airframe", turbulence_response(model.bare, gust, span)))
+            turbulence = tuple((condition.name, label, condition_turbulence(aircraft, condition, item, gust, span))
+                               for label, item in (("augmented", model), ("bare airframe", model.bare)))
         out.append(AugmentationData(aircraft, graded, describe(condition.augmentation),
                                     model_modes(model.bare), graded.modes, washout_effect(model), turbulence))
     return out
