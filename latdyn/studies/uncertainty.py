@@ -399,7 +399,12 @@ def uncertainty(aircraft, given=(), samples=100_000, seed=None, condition=None, 
         kept = int(np.count_nonzero(valid))
         if kept == 0:
             worst = max(excluded, key=excluded.get)
-            raise InputError(aircraft.file, "--vary",
+            # the option when amounts were typed, else the file's [uncertainty.KEY] table behind
+            # the rule (a file run without --vary named --vary)
+            words = worst.replace("^", " ").replace(":", " ").split()
+            named = [spec.key for spec in specs if spec.key in words]
+            where = "--vary" if given else f"uncertainty.{named[0]}" if named else "uncertainty"
+            raise InputError(aircraft.file, where,
                              "uncertainties whose samples pass the file's rules",
                              f"all {samples} samples leave them ({worst}: {excluded[worst]})",
                              item.name)
