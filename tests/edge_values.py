@@ -387,6 +387,9 @@ COMMANDS = {
     "modes": lambda f, c, d: ["modes", f, "--json"],
     "assess": lambda f, c, d: ["assess", f, "--format", "json"],
     "respond": lambda f, c, d: ["respond", f, "--csv", str(d / "respond.csv")],
+    # a run of at most a minute (the sized default of a model without aerodynamic forces
+    # runs to 2 million samples: right, but 20 s)
+    "respond-60s": lambda f, c, d: ["respond", f, "--duration", "60", "--csv", str(d / "respond.csv")],
     "sensitivity": lambda f, c, d: ["sensitivity", f, "--format", "json"],
     "sweep": lambda f, c, d: ["sweep", f, "--vary", SWEEP[c.base], "--format", "json"],
     "uncertainty": lambda f, c, d: ["uncertainty", f, "--samples", "200", "--seed", "1",

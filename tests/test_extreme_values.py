@@ -21,19 +21,19 @@ from edge_values import LoaderCrash, attempt, cases, edges
 #: The commands that read each family of keys (beyond ``modes``), taken in turn.
 FAMILIES = {
     "uncertainty.": ("uncertainty-file",),
-    "engine.": ("steady", "respond"),
+    "engine.": ("steady", "respond-60s"),
     "stall_speeds.": ("steady",),
     "condition.stall_speeds.": ("steady",),
-    "controls.": ("steady", "respond", "sweep"),
-    "condition.controls.": ("steady", "respond"),
-    "augmentation.": ("respond", "turbulence", "sensitivity", "assess"),
-    "condition.augmentation.": ("respond", "turbulence", "sensitivity"),
-    "condition.dimensional.": ("respond", "sensitivity", "turbulence", "uncertainty", "sweep"),
-    "wing.": ("estimate", "respond", "sensitivity"),
-    "fin.": ("estimate", "respond", "sensitivity"),
+    "controls.": ("steady", "respond-60s", "sweep"),
+    "condition.controls.": ("steady", "respond-60s"),
+    "augmentation.": ("respond-60s", "turbulence", "sensitivity", "assess"),
+    "condition.augmentation.": ("respond-60s", "turbulence", "sensitivity"),
+    "condition.dimensional.": ("respond-60s", "sensitivity", "turbulence", "uncertainty", "sweep"),
+    "wing.": ("estimate", "respond-60s", "sensitivity"),
+    "fin.": ("estimate", "respond-60s", "sensitivity"),
     "fuselage.": ("estimate", "sensitivity"),
-    "aileron.": ("estimate", "respond"),
-    "": ("respond", "sensitivity", "uncertainty", "turbulence", "steady", "sweep", "assess"),
+    "aileron.": ("estimate", "respond-60s"),
+    "": ("respond-60s", "sensitivity", "uncertainty", "turbulence", "steady", "sweep", "assess"),
 }
 
 
@@ -118,3 +118,13 @@ def test_what_the_edge_search_found(found, tmp_path):
     value = pick(edges(key))
     status, problems, err = attempt(case, value, command, tmp_path)
     assert not problems and status in (0, 2), (problems, err)
+
+
+def test_file_uncertainties_whose_samples_all_leave_the_rules_name_the_file_key(tmp_path):
+    """uncertainty.Ixz.absolute at its largest (1e14 kg m^2) puts every sample outside
+    Ixz^2 < Ixx Izz; the line named --vary, which was not given: now the file's key."""
+    (case,) = [c for c in CASES if c.key == "uncertainty.Ixz.absolute"]
+    status, problems, err = attempt(case, max(edges(case.key)), "uncertainty-file", tmp_path)
+    assert status == 2 and not problems, (problems, err)
+    assert "uncertainty.Ixz: expected uncertainties whose samples pass the file's rules" in err
+    assert "--vary" not in err
