@@ -486,7 +486,9 @@ def problems(command, argv, status, out, err, crash, folder):
         found.append(("NaN or infinity on stdout", " ".join(context.split())))
     for path in sorted(folder.rglob("*")):
         if path.is_file() and path.suffix in TEXT_SUFFIXES and path.name != "edge.toml":
-            match = NONFINITE.search(path.read_text(encoding="utf-8", errors="replace"))
+            text = path.read_text(encoding="utf-8", errors="replace")
+            text = re.sub(r"base64,[A-Za-z0-9+/=]+", "", text)  # embedded figures, not numbers
+            match = NONFINITE.search(text.replace(str(folder), "FOLDER"))
             if match:
                 found.append((f"NaN or infinity in {path.name}", match.group(0)))
                 break

@@ -41,6 +41,8 @@ def main(argv=None):
     parser.add_argument("--command", action="append", help="only this command (repeatable)")
     parser.add_argument("--report", action="store_true", help="also run report (slow)")
     parser.add_argument("--verbose", action="store_true", help="print every attempt")
+    parser.add_argument("--largest", action="store_true",
+                        help="only the largest magnitude of each key (a quick look, with --report)")
     args = parser.parse_args(argv)
     commands = args.command or [c for c in COMMANDS
                                 if c != "respond-60s" and (c != "report" or args.report)]
@@ -57,6 +59,8 @@ def main(argv=None):
                 failures.append((case.key, "-", "loader", "traceback", str(error)))
                 counts["failure"] += 1
                 continue
+            if args.largest:
+                values = [max(values, key=abs)]
             for value in values:
                 for command in commands:
                     if not applicable(case, command):
