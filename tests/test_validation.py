@@ -92,7 +92,7 @@ CASES = [
      r"mass\.mass: expected a number > 0, found -13500\.0"),
     ("izz-negative", edit("Izz = 2.3e5", "Izz = -2.3e5"), r"mass\.Izz: expected a number > 0"),
     ("ixz-too-large", edit("Ixz = 4.0e3", "Ixz = 2.0e5"),
-     r"mass\.Ixz: expected Ixz\^2 < Ixx Izz \(a physical inertia\), found Ixz = 200000\.0"),
+     r"mass\.Ixz: expected Ixz\^2 < Ixx Izz \(a physical inertia; Ixz\^2 / \(Ixx Izz\) at most 1 - 1e-06\), found Ixz = 200000\.0"),
     ("inertia-axes-word", edit('inertia_axes = "body"', 'inertia_axes = "wind"'),
      r'mass\.inertia_axes: expected "body" or "stability", found "wind"'),
     ("speed-zero", edit("speed = 62.0", "speed = 0.0"),
