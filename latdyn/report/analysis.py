@@ -13,7 +13,7 @@ import hashlib
 import os
 from dataclasses import dataclass
 
-__all__ = ["ConditionData", "VariantCondition", "AircraftData", "ReportData", "analyse_report", "sha256_of",
+__all__ = ["generation_time", "ConditionData", "VariantCondition", "AircraftData", "ReportData", "analyse_report", "sha256_of",
            "STANDARD_INPUTS"]
 
 #: The standard responses of every condition, in order.
@@ -242,6 +242,25 @@ def _with_variants(conditions, variants, assessments):
     return tuple(out)
 
 
+def generation_time(environ=None) -> datetime.datetime:
+    """The time a report is generated at, UTC, to the second.
+
+    Now, unless ``SOURCE_DATE_EPOCH`` (seconds since 1970-01-01 UTC, the
+    reproducible-builds.org specification) is set: then that time, so that the
+    same inputs give the same bytes (a report kept under version control).
+
+    Examples
+    --------
+    >>> generation_time({"SOURCE_DATE_EPOCH": "1796169600"}).isoformat()
+    '2026-12-02T00:00:00+00:00'
+    """
+    environ = os.environ if environ is None else environ
+    epoch = environ.get("SOURCE_DATE_EPOCH", "").strip()
+    if epoch.isdigit():
+        return datetime.datetime.fromtimestamp(int(epoch), datetime.timezone.utc)
+    return datetime.datetime.now(datetime.timezone.utc).replace(microsecond=0)
+
+
 def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, step=None,
                    gust=None) -> ReportData:
     """Load and analyse the aircraft files of a report.
@@ -278,7 +297,7 @@ def analyse_report(files, variants=(), criteria_sets=None, now=None, argv=None, 
     from latdyn.criteria_sets import load_criteria
     from latdyn.results import analyse_aircraft
 
-    now = now or datetime.datetime.now(datetime.timezone.utc)
+    now = now or generation_time()
     aircraft_list = [load_aircraft(path) for path in files]
     variant_list = [load_aircraft(path) for path in variants]
     criteria_objects = [load_criteria(c) for c in criteria_sets] if criteria_sets else None

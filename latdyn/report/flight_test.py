@@ -12,7 +12,6 @@ and the file it grades travel together.
 
 from __future__ import annotations
 
-import datetime
 import os
 
 from latdyn.report.blocks import Figure, Heading, Notice, Paragraph, Report
@@ -47,6 +46,7 @@ def identification_content(aircraft, result, predicted_modes, identified_modes, 
     from latdyn.assessment import NOTICE
     from latdyn.compare import comparison_document
     from latdyn.display import unit_system
+    from latdyn.report.analysis import generation_time
     from latdyn.report.tables import (comparison_tables, identification_fit_table,
                                       identified_derivative_table, identified_mode_table)
 
@@ -55,7 +55,7 @@ def identification_content(aircraft, result, predicted_modes, identified_modes, 
     name = slug(f"{result.condition}")
     records = ", ".join(os.path.basename(r.file) or "unnamed" for r in result.records)
     report = Report(title=f"Flight test: {aircraft.name}, condition {result.condition}",
-                    generated=datetime.datetime.now(datetime.timezone.utc).replace(microsecond=0).isoformat())
+                    generated=generation_time().isoformat())
     report.add(Heading(1, report.title, "top"), Notice(NOTICE),
                Paragraph(f"Derivatives identified from {len(result.records)} measured record(s) ({records}; "
                          f"{fit['samples']} samples) at condition \"{result.condition}\" of {aircraft.file}, "
