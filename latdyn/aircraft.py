@@ -1369,9 +1369,13 @@ def _change_words(key, before, after, unit_system):
     return f"{key} {shown[0]} -> {shown[1]} {units.unit_word(dimension, unit_system)}"
 
 
-def _written_inertias(table, partial, files, mass, context, unit_system="SI"):
+def _written_inertias(table, partial, files, mass, context, unit_system="SI", read=None):
     """The mass and inertias a base file's per-unit-inertia derivatives were written for, where a
-    newer file of the ``extends`` chain changed them: ({file: (MassProperties, quantities)}, notes)."""
+    newer file of the ``extends`` chain changed them: ({file: (MassProperties, quantities)}, notes).
+
+    ``read``: {file: MassProperties or None} of the base files already read (filled here), so that
+    a base is read once for all the conditions of an aircraft."""
+    read = {} if read is None else read
     _, _, given = partial
     by_file = {}
     for quantity, (key, _, _, divisor) in given.items():
@@ -1380,11 +1384,13 @@ def _written_inertias(table, partial, files, mass, context, unit_system="SI"):
             by_file.setdefault(leaf.file, []).append(quantity)
     carried, notes = {}, []
     for file, quantities in by_file.items():
-        try:
-            base = read_tree(file)
-            written = _mass(base, _Context(base["__files__"]))
-        except InputError:
-            continue
+        if file not in read:
+            try:
+                base = read_tree(file)
+                read[file] = _mass(base, _Context(base["__files__"]))
+            except InputError:
+                read[file] = None
+        written = read[file]
         if mass is None or written is None or written == mass:
             continue
         carried[file] = (written, tuple(quantities))
@@ -1398,13 +1404,10 @@ def _written_inertias(table, partial, files, mass, context, unit_system="SI"):
 
 
 def _axis_inertia(mass, axes, alpha):
-    """(Ixx, Izz, Ixz) of ``mass`` in the derivatives' axes."""
-    if mass.axes == axes:
-        return mass.Ixx, mass.Izz, mass.Ixz
-    from latdyn.model import rotate_inertia
+    """(Ixx, Izz, Ixz) of ``mass`` in the derivatives' axes (:func:`latdyn.model.inertia_in_axes`)."""
+    from latdyn.model import inertia_in_axes
 
-    angle = alpha if axes == "stability" else -alpha
-    return tuple(float(v) for v in rotate_inertia(mass.Ixx, mass.Izz, mass.Ixz, angle))
+    return tuple(float(v) for v in inertia_in_axes(mass.Ixx, mass.Izz, mass.Ixz, mass.axes, axes, alpha))
 
 
 def _dimensional(axes, primed, given, flight, mass, context, carried=None):
@@ -1424,13 +1427,7 @@ def _dimensional(axes, primed, given, flight, mass, context, carried=None):
         if "mass" in needs and mass.mass is None:
             context.fail("mass.mass", f"a number > 0 ({key} is in force units)",
                          "nothing (the key is missing)")
-        inertia = (mass.Ixx, mass.Izz)
-        if mass.axes != axes:
-            from latdyn.model import rotate_inertia
-
-            angle = flight.alpha if axes == "stability" else -flight.alpha
-            inertia = tuple(float(v) for v in rotate_inertia(mass.Ixx, mass.Izz, mass.Ixz,
-                                                             angle)[:2])
+        inertia = _axis_inertia(mass, axes, flight.alpha)[:2]
     scale = {None: 1.0, "mass": mass.mass if mass else None,
              "Ixx": inertia[0] if inertia else None, "Izz": inertia[1] if inertia else None}
     values = {quantity: value * flight.speed**power / scale[divisor]
@@ -1440,8 +1437,8 @@ def _dimensional(axes, primed, given, flight, mass, context, carried=None):
 
         new = (mass.mass, *_axis_inertia(mass, axes, flight.alpha))
         for written, quantities in carried.values():
-            moved = carry_to_inertias(values, primed, (written.mass, *_axis_inertia(written, axes, flight.alpha)),
-                                      new)
+            moved = carry_to_inertias(values, primed,
+                                      (written.mass, *_axis_inertia(written, axes, flight.alpha)), new)
             values.update({quantity: float(moved[quantity]) for quantity in quantities})
     return DimensionalDerivatives(axes=axes, primed=primed, **values)
 
@@ -1473,6 +1470,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
     if not entries:
         context.fail("condition", "at least one [[condition]] table", "none")
     conditions, warnings, seen = [], [], set()
+    base_masses = {}  # mass properties of the base files, read once (_written_inertias)
     for number, entry in enumerate(entries, start=1):
         name_leaf = entry.get("name")
         if name_leaf is None:
@@ -1495,7 +1493,7 @@ def aircraft_from_tree(tree: dict) -> Aircraft:
         warnings.extend(notes)
         if isinstance(derivatives, tuple):
             carried, note = _written_inertias(entry["dimensional"], derivatives, files, mass, context,
-                                              tree.get("__units__", "SI"))
+                                              tree.get("__units__", "SI"), base_masses)
             derivatives = _dimensional(*derivatives, flight, mass, context, carried)
             warnings.extend(note)
             if not derivatives.primed and mass is None:

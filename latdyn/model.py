@@ -39,8 +39,8 @@ from latdyn.units import STANDARD_GRAVITY
 
 __all__ = [
     "LateralModel", "lateral_model", "lateral_matrices", "output_matrices",
-    "dimensional_from_coefficients", "prime", "unprime", "carry_to_inertias", "rotate_primed", "rotate_coefficients",
-    "rotate_inertia", "primed_derivatives", "primed_values", "equation_angles",
+    "dimensional_from_coefficients", "prime", "unprime", "carry_to_inertias", "rotate_primed",
+    "rotate_coefficients", "rotate_inertia", "inertia_in_axes", "primed_derivatives", "primed_values", "equation_angles",
     "DIMENSIONAL_NAMES", "COEFFICIENT_NAMES", "DIMENSIONAL_OF", "STATE_NAMES", "INPUT_NAMES",
 ]
 
@@ -148,6 +148,11 @@ def dimensional_from_coefficients(coefficients, wing_area, span, mass, Ixx, Izz,
 _MOMENT_SUFFIXES = ("beta", "p", "r", "da", "dr")
 
 
+def _dimensional_arrays(derivatives):
+    """Every :data:`DIMENSIONAL_NAMES` entry of a mapping as a float array (0 where missing)."""
+    return {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+
+
 def prime(derivatives, Ixx, Izz, Ixz):
     """Fold the product of inertia into the rolling and yawing derivatives.
 
@@ -183,7 +188,7 @@ def prime(derivatives, Ixx, Izz, Ixz):
     >>> round(float(d["L_beta"]), 6), round(float(d["N_beta"]), 6)
     (-0.571429, 0.857143)
     """
-    out = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    out = _dimensional_arrays(derivatives)
     Ixx, Izz, Ixz = (np.asarray(v, dtype=float) for v in (Ixx, Izz, Ixz))
     gain = 1.0 / (1.0 - Ixz**2 / (Ixx * Izz))
     for suffix in _MOMENT_SUFFIXES:
@@ -208,7 +213,7 @@ def unprime(derivatives, Ixx, Izz, Ixz):
     >>> round(float(d["L_beta"]), 12), round(float(d["N_beta"]), 12)
     (-1.0, 1.0)
     """
-    out = {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    out = _dimensional_arrays(derivatives)
     Ixx, Izz, Ixz = (np.asarray(v, dtype=float) for v in (Ixx, Izz, Ixz))
     for suffix in _MOMENT_SUFFIXES:
         roll, yaw = out["L_" + suffix], out["N_" + suffix]
@@ -256,8 +261,7 @@ def carry_to_inertias(derivatives, primed, written, new):
     >>> float(d["L_beta"]), float(d["N_beta"])
     (-6.0, 4.0)
     """
-    raw = unprime(derivatives, *written[1:]) if primed else \
-        {name: np.asarray(derivatives.get(name, 0.0), dtype=float) for name in DIMENSIONAL_NAMES}
+    raw = unprime(derivatives, *written[1:]) if primed else _dimensional_arrays(derivatives)
     m_written, Ixx_written, Izz_written, _ = written
     m_new, Ixx_new, Izz_new, _ = new
     out = {}
@@ -307,6 +311,25 @@ def rotate_inertia(Ixx, Izz, Ixz, angle):
     return (Ixx * c**2 + Izz * s**2 - 2.0 * Ixz * s * c,
             Ixx * s**2 + Izz * c**2 + 2.0 * Ixz * s * c,
             (Ixx - Izz) * s * c + Ixz * (c**2 - s**2))
+
+
+def inertia_in_axes(Ixx, Izz, Ixz, inertia_axes, axes, alpha):
+    """(Ixx, Izz, Ixz) given in ``inertia_axes``, in the derivatives' ``axes`` [kg m^2].
+
+    Unchanged when the two are the same; otherwise rotated by alpha (body to
+    stability) or -alpha (:func:`rotate_inertia`).
+
+    Examples
+    --------
+    >>> inertia_in_axes(1.0, 2.0, 0.0, "body", "body", 0.3)
+    (1.0, 2.0, 0.0)
+    >>> [round(float(v), 6) for v in inertia_in_axes(1.0, 2.0, 0.0, "body", "stability", np.pi / 2)]
+    [2.0, 1.0, -0.0]
+    """
+    if inertia_axes == axes:
+        return Ixx, Izz, Ixz
+    angle = alpha if axes == "stability" else -np.asarray(alpha)
+    return rotate_inertia(Ixx, Izz, Ixz, angle)
 
 
 def _rotate_pairs(values, names, angle):
@@ -507,12 +530,7 @@ def primed_values(values, nondimensional, primed, axes, inertia_axes, alpha, win
     dict
         Primed dimensional derivatives, SI, in ``axes``.
     """
-    inertia = None
-    if inertia_axes is not None:
-        inertia = (Ixx, Izz, Ixz)
-        if inertia_axes != axes:
-            angle = alpha if axes == "stability" else -alpha
-            inertia = rotate_inertia(Ixx, Izz, Ixz, angle)
+    inertia = None if inertia_axes is None else inertia_in_axes(Ixx, Izz, Ixz, inertia_axes, axes, alpha)
     if nondimensional:
         raw = dimensional_from_coefficients(values, wing_area, span, mass, inertia[0], inertia[1],
                                             density, speed)

@@ -361,7 +361,6 @@ def read_response(response, start=None, signals=DECREMENT_SIGNALS) -> ResponseRe
         small-disturbance range).
     """
     from latdyn.errors import warn
-
     from latdyn.responses import LARGEST_VALUE, finite_part
 
     warnings = []

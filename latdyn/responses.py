@@ -557,7 +557,8 @@ def finite_part(response):
 
     A strongly divergent root (doubling the motion every few milliseconds)
     grows beyond :data:`LARGEST_VALUE`, then the floating-point range, within
-    the run; what follows is not a motion.  Read-outs and figures use the part before (:func:`overflow_time`).
+    the run; what follows is not a motion.  Read-outs and figures use the part
+    before (:func:`overflow_time`).
 
     Returns
     -------
@@ -1021,8 +1022,8 @@ def replayed_response(model, standard, label="") -> StandardResponse:
     given = standard.response
     history = InputHistory(given.time, given.signal("aileron"), given.signal("rudder"), given.description)
     response = simulate(model, history, label=label)
-    return StandardResponse(standard.kind, finite_part(response)[0], read_response(response), standard.amplitude,
-                            dict(standard.limits), standard.sizing, standard.settings)
+    return StandardResponse(standard.kind, finite_part(response)[0], read_response(response),
+                            standard.amplitude, dict(standard.limits), standard.sizing, standard.settings)
 
 
 def display_columns(response) -> dict:

@@ -287,17 +287,12 @@ def _carried_to_inertias(values, names, derivatives, mass, alpha):
     """Dimensional derivatives (per unit mass and inertia) of the file's mass properties carried to
     the case set's, the forces and moments held (:func:`latdyn.model.carry_to_inertias`).  Derivatives
     the case set varies as well are read as the file's are: per unit of the file's mass properties."""
-    from latdyn.model import carry_to_inertias, rotate_inertia
+    from latdyn.model import carry_to_inertias, inertia_in_axes
 
-    def in_axes(Ixx, Izz, Ixz, alpha_values):
-        if mass.axes == derivatives.axes:
-            return Ixx, Izz, Ixz
-        angle = alpha_values if derivatives.axes == "stability" else -np.asarray(alpha_values)
-        return rotate_inertia(Ixx, Izz, Ixz, angle)
-
-    written = (mass.mass, *in_axes(mass.Ixx, mass.Izz, mass.Ixz, alpha))
+    axes = (mass.axes, derivatives.axes)
+    written = (mass.mass, *inertia_in_axes(mass.Ixx, mass.Izz, mass.Ixz, *axes, alpha))
     new = (values["mass"] if mass.mass is not None else None,
-           *in_axes(values["Ixx"], values["Izz"], values["Ixz"], values["alpha"]))
+           *inertia_in_axes(values["Ixx"], values["Izz"], values["Ixz"], *axes, values["alpha"]))
     carried = carry_to_inertias({name: values[name] for name in names}, derivatives.primed, written, new)
     return {name: carried[name] for name in names}
 
